@@ -1,0 +1,4 @@
+import type { CliCommand } from '../command.ts';
+
+/** Every sub-command, in the order `landreach --help` lists them. Add new commands here. */
+export const COMMANDS: readonly CliCommand[] = [];

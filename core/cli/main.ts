@@ -1,0 +1,56 @@
+import type { CliCommand, CliIo } from './command.ts';
+import { UsageError } from './command.ts';
+import { COMMANDS } from './commands/index.ts';
+
+const CAUTION =
+  'Caution: preliminary design and trade studies only; not flight software. Verify with high-fidelity simulation and your organisation\'s assurance process.';
+
+function helpText(): string {
+  const width = Math.max(...COMMANDS.map((c) => c.name.length));
+  return [
+    'landreach — powered-descent divert budgeting from the command line',
+    '',
+    'Usage: landreach COMMAND [options]   (landreach COMMAND --help for details)',
+    '',
+    'Commands:',
+    ...COMMANDS.map((c) => `  ${c.name.padEnd(width)}  ${c.summary}`),
+    '',
+    CAUTION,
+    '',
+  ].join('\n');
+}
+
+export function defaultIo(): CliIo {
+  return {
+    stdout: (t) => process.stdout.write(t),
+    stderr: (t) => process.stderr.write(t),
+    interactive: Boolean(process.stderr.isTTY),
+  };
+}
+
+/** Dispatches to a sub-command; returns the exit code (0 ok, 1 computation failed, 2 bad usage or input). */
+export async function main(argv: string[], io: CliIo = defaultIo()): Promise<number> {
+  const [name, ...rest] = argv;
+  if (!name || name === '--help' || name === '-h' || name === 'help') {
+    io.stdout(helpText());
+    return name ? 0 : 2;
+  }
+  const command: CliCommand | undefined = COMMANDS.find((c) => c.name === name);
+  if (!command) {
+    io.stderr(`landreach: unknown command '${name}'. Known commands: ${COMMANDS.map((c) => c.name).join(', ')}.\n`);
+    return 2;
+  }
+  if (rest.includes('--help') || rest.includes('-h')) {
+    io.stdout(command.usage + '\n');
+    return 0;
+  }
+  try {
+    return await command.run(rest, io);
+  } catch (err) {
+    if (err instanceof UsageError) {
+      io.stderr(`landreach ${name}: ${err.message}\n`);
+      return 2;
+    }
+    throw err;
+  }
+}
