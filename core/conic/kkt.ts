@@ -223,7 +223,7 @@ export class KktSystem {
     const tol = this.options.refinementTolerance * (1 + rhsNorm);
     let steps = 0;
     let prevNorm = Infinity;
-    let finalNorm = Infinity;
+    let finalNorm: number;
     for (;;) {
       // residual = b − K₀ x, K₀ = the stored matrix without the static δ on its diagonal.
       symmetricUpperMul(this.matrix, work, product);
@@ -237,8 +237,7 @@ export class KktSystem {
       if (norm > prevNorm) {
         // The last correction made things worse: take it back and stop.
         for (let k = 0; k < dim; k++) work[k] -= lastStep[k];
-        norm = prevNorm;
-        finalNorm = norm;
+        finalNorm = prevNorm;
         break;
       }
       finalNorm = norm;

@@ -298,21 +298,18 @@ export class ConicWorkspace {
     rx.fill(0);
     cscMulTransAdd(As, y, rx);
     cscMulTransAdd(Gs, z, rx);
-    const dualNoC = infNorm(rx);
     for (let j = 0; j < this.n; j++) rx[j] += c[j] * tau;
     ry.fill(0);
     cscMulAdd(As, x, ry);
-    const axNorm = infNorm(ry);
     for (let i = 0; i < this.p; i++) ry[i] -= b[i] * tau;
     rz.set(s);
     cscMulAdd(Gs, x, rz);
-    const gxsNorm = infNorm(rz);
     for (let i = 0; i < this.m; i++) rz[i] -= h[i] * tau;
     const cx = dot(c, x);
     const by = dot(b, y);
     const hz = dot(h, z);
     const sz = dot(s, z);
-    return { rx, ry, rz, cx, by, hz, sz, tau, kappa, dualNoC, axNorm, gxsNorm, x, y, z, s, degree: this.degree };
+    return { rx, ry, rz, cx, by, hz, sz, tau, kappa, c, b, h, x, y, z, s, degree: this.degree };
   }
 
   /** One predictor–corrector step; returns the step length, or null on a numerical failure. */
