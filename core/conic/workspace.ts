@@ -29,6 +29,9 @@ export interface ProblemUpdate {
   GValues?: Float64Array;
 }
 
+/** Refinement steps for the predictor (affine) solve; the corrector and τ-direction solves use the setting. */
+const AFFINE_REFINEMENT = 1;
+
 const now = (): number => (typeof performance !== 'undefined' ? performance.now() : 0);
 
 export class ConicWorkspace {
@@ -333,7 +336,8 @@ export class ConicWorkspace {
     // Affine (predictor) direction: d_s = −λ∘λ, d_κ = −τκ.
     for (const k of cones) k.jordanProduct(lambda, lambda, tmpM);
     for (let i = 0; i < m; i++) tmpM[i] = -tmpM[i];
-    const affine = this.direction(1, tmpM, -tau * kappa, tauPivot, rTau, res);
+    // The affine direction only sizes the centring and the second-order correction: one refinement step.
+    const affine = this.direction(1, tmpM, -tau * kappa, tauPivot, rTau, res, AFFINE_REFINEMENT);
     if (affine === null) return null;
     const alphaAff = Math.min(1, this.stepToBoundary(affine.dTau, affine.dKappa));
 
@@ -345,7 +349,7 @@ export class ConicWorkspace {
     }
     for (let i = 0; i < m; i++) tmpM[i] = -tmpM[i] - tmpM2[i] + sigma * mu * this.ones[i];
     const dKappaRhs = -tau * kappa - affine.dTau * affine.dKappa + sigma * mu;
-    const combined = this.direction(1 - sigma, tmpM, dKappaRhs, tauPivot, rTau, res);
+    const combined = this.direction(1 - sigma, tmpM, dKappaRhs, tauPivot, rTau, res, this.settings.refinementMaxIterations);
     if (combined === null) return null;
     const alphaMax = this.stepToBoundary(combined.dTau, combined.dKappa);
     const alpha = Math.min(1, this.settings.stepFraction * alphaMax);
@@ -374,6 +378,7 @@ export class ConicWorkspace {
     tauPivot: number,
     rTau: number,
     res: Residuals,
+    maxRefinement: number,
   ): { dTau: number; dKappa: number } | null {
     const { n, p, m, cones, kkt, rhs, sol1, sol2, lambda, ds, dsScaled, dzScaled, tmpM2 } = this;
     const { tau, kappa } = this;
@@ -383,7 +388,7 @@ export class ConicWorkspace {
     for (let j = 0; j < n; j++) rhs[j] = -eta * res.rx[j];
     for (let i = 0; i < p; i++) rhs[n + i] = -eta * res.ry[i];
     for (let i = 0; i < m; i++) rhs[n + p + i] = -eta * res.rz[i] - ds[i];
-    if (!kkt.solve(rhs, sol2)) return null;
+    if (!kkt.solve(rhs, sol2, maxRefinement)) return null;
     const dTau =
       (-eta * rTau - dKappa / tau - (dotRange(this.c, sol2, 0) + dotRange(this.b, sol2, n) + dotRange(this.h, sol2, n + p))) /
       tauPivot;
