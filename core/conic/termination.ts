@@ -29,11 +29,6 @@ export interface Residuals {
   c: Float64Array;
   b: Float64Array;
   h: Float64Array;
-  x: Float64Array;
-  y: Float64Array;
-  z: Float64Array;
-  s: Float64Array;
-  degree: number;
 }
 
 export interface DataNorms {
@@ -56,6 +51,20 @@ export interface Assessment {
   dualResidualRelative: number;
 }
 
+export function emptyAssessment(): Assessment {
+  return {
+    status: null,
+    primalObjective: NaN,
+    dualObjective: NaN,
+    gap: NaN,
+    primalResidual: NaN,
+    dualResidual: NaN,
+    primalResidualRelative: NaN,
+    dualResidualRelative: NaN,
+  };
+}
+
+/** Fills `out` (no allocation) with the measures of the iterate and its status, if it is final. */
 export function assessIterate(
   r: Residuals,
   norms: DataNorms,
@@ -63,6 +72,7 @@ export function assessIterate(
   E: Float64Array,
   st: SolverSettings,
   relaxed: boolean,
+  out: Assessment,
 ): Assessment {
   const { tau, kappa } = r;
   const p = r.ry.length;
@@ -80,16 +90,14 @@ export function assessIterate(
   const gap = Math.max(Math.abs(primalObjective - dualObjective), r.sz / (tau * tau));
   const primalRel = Math.max(presEq / Math.max(1, norms.b), presCone / Math.max(1, norms.h));
   const dualRel = dres / Math.max(1, norms.c);
-  const out: Assessment = {
-    status: null,
-    primalObjective,
-    dualObjective,
-    gap,
-    primalResidual: Math.max(presEq, presCone),
-    dualResidual: dres,
-    primalResidualRelative: primalRel,
-    dualResidualRelative: dualRel,
-  };
+  out.status = null;
+  out.primalObjective = primalObjective;
+  out.dualObjective = dualObjective;
+  out.gap = gap;
+  out.primalResidual = Math.max(presEq, presCone);
+  out.dualResidual = dres;
+  out.primalResidualRelative = primalRel;
+  out.dualResidualRelative = dualRel;
   const feas = relaxed ? st.feasibilityToleranceInaccurate : st.feasibilityTolerance;
   const gapAbs = relaxed ? st.gapAbsoluteToleranceInaccurate : st.gapAbsoluteTolerance;
   const gapRel = relaxed ? st.gapRelativeToleranceInaccurate : st.gapRelativeTolerance;

@@ -144,3 +144,20 @@ describe('closed-form optima', () => {
     expect(again.info.iterations).toBe(first.info.iterations);
   });
 });
+
+describe('warm start', () => {
+  it('from a neighbouring optimum reaches the same optimum as a cold start', () => {
+    const ws = new ConicWorkspace(projectionProblem([1, 3, -4]));
+    const near = ws.solve();
+    ws.update({ h: projectionProblem([1.1, 2.9, -4.1]).h });
+    const cold = ws.solve();
+    const warm = ws.solve({ x: near.x, y: near.y, z: near.z, s: near.s });
+    expect(warm.status).toBe('solved');
+    expect(warm.info.primalObjective).toBeCloseTo(cold.info.primalObjective, 7);
+  });
+
+  it('rejects a start of the wrong size, naming the part', () => {
+    const ws = new ConicWorkspace(projectionProblem([1, 3, -4]));
+    expect(() => ws.solve({ x: new Float64Array(2) })).toThrow(/invalid start.x: expected a finite Float64Array of length 4/);
+  });
+});
