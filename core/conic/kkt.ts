@@ -270,14 +270,25 @@ export class KktSystem {
     for (let j = 0; j < dim; j++) {
       const xj = x[j];
       const last = colPtr[j + 1] - 1;
-      let sum = (values[last] - sign[j] * delta) * xj;
-      for (let q = colPtr[j]; q < last; q++) {
-        const i = rowIdx[q];
-        const v = values[q];
-        y[i] += v * xj;
-        sum += v * x[i];
+      let s0 = (values[last] - sign[j] * delta) * xj;
+      let s1 = 0;
+      let q = colPtr[j];
+      for (; q + 1 < last; q += 2) {
+        const i0 = rowIdx[q];
+        const i1 = rowIdx[q + 1];
+        const v0 = values[q];
+        const v1 = values[q + 1];
+        y[i0] += v0 * xj;
+        y[i1] += v1 * xj;
+        s0 += v0 * x[i0];
+        s1 += v1 * x[i1];
       }
-      y[j] += sum;
+      if (q < last) {
+        const i0 = rowIdx[q];
+        y[i0] += values[q] * xj;
+        s0 += values[q] * x[i0];
+      }
+      y[j] += s0 + s1;
     }
   }
 
