@@ -1,0 +1,164 @@
+/**
+ * Free-final-time search for one target.
+ *
+ * 1. Bracket t_f from physics (bracket.ts).
+ * 2. Find a feasible t_f: the warm-start guess (a neighbour's t_f) first, then probe points spread
+ *    over the bracket. Each infeasible probe carries the solver's infeasibility certificate.
+ * 3. Brent's method on propellant(t_f) from that point (infeasible = +∞, see brent.ts).
+ * If no probe is feasible, the minimum-landing-error problem (Blackmore et al. 2010) is searched the
+ * same way over t_f; a zero miss means the probes stepped over a narrow feasible window, and the
+ * minimum-propellant search restarts from that t_f; otherwise the target is unreachable and the result
+ * carries the closest reachable landing point and the miss distance.
+ */
+import type { SolveStatus } from '../conic/types.ts';
+import { isInfeasible, isSolved } from '../conic/types.ts';
+import type { Vec3 } from './constants.ts';
+import { timeOfFlightBracket } from './bracket.ts';
+import type { TimeBracket } from './bracket.ts';
+import { brentMinimise } from './brent.ts';
+import type { ProgramKind } from './program.ts';
+import type { IgnitionState } from './setup.ts';
+import type { DescentSolver, FixedTimeSolve } from './solver.ts';
+import type { DecodedTrajectory } from './trajectory.ts';
+import { decodeTrajectory } from './trajectory.ts';
+
+export interface SearchOptions {
+  /** Warm start: a neighbour's optimal t_f, s. */
+  tfGuess?: number;
+  /** Absolute tolerance on t_f, s. Default 0.05. */
+  tfTolerance?: number;
+  /** Probe times as multiples of the bracket's lower bound, tried when the guess is infeasible. */
+  probes?: readonly number[];
+  /** Cap on solves per target (all phases). Default 60. */
+  maxSolves?: number;
+  /** Override the physical bracket. */
+  bracket?: TimeBracket;
+  /** Decode the trajectory of the result (default true). */
+  decode?: boolean;
+}
+
+export type DescentStatus = 'solved' | 'unreachable' | 'solver-failure';
+
+export interface DescentResult {
+  status: DescentStatus;
+  target: Vec3;
+  /** Optimal powered-descent time (unreachable: the minimum-landing-error time), s. */
+  timeOfFlight: number;
+  /** Propellant used, kg (unreachable: by the minimum-landing-error trajectory). */
+  propellant: number;
+  /** Conic solves spent on this target. */
+  solves: number;
+  bracket: TimeBracket;
+  /** For unreachable targets: closest reachable landing point and the horizontal miss, m. */
+  closestPoint: Vec3 | null;
+  miss: number;
+  /** Solver outcomes of the minimum-propellant probes that failed (certificates for unreachable). */
+  infeasibleStatuses: SolveStatus[];
+  /** Solver failures that were neither solved nor a certificate. */
+  failures: number;
+  /** Which problem the trajectory comes from. */
+  kind: ProgramKind | null;
+  trajectory: DecodedTrajectory | null;
+  warnings: string[];
+}
+
+/**
+ * Probe times as multiples of the bracket's lower bound, in the order tried (capped at the upper bound).
+ * A heuristic: minimum-propellant times of flight seen in our checks sit at about 1.6–1.9 × the
+ * lower bound; the list then widens outwards.
+ */
+export const DEFAULT_PROBES: readonly number[] = [1.75, 1.55, 1.95, 1.4, 2.2, 1.25, 2.6, 1.1, 3.2, 4, 5.5, 8];
+
+interface Phase {
+  best: FixedTimeSolve | null;
+  statuses: SolveStatus[];
+  failures: number;
+}
+
+function runPhase(
+  solver: DescentSolver, kind: ProgramKind, target: Vec3, ignition: IgnitionState, br: TimeBracket,
+  starts: number[], tol: number, budget: () => number,
+): Phase {
+  const cache = new Map<number, FixedTimeSolve>();
+  const statuses: SolveStatus[] = [];
+  let failures = 0;
+  const evalAt = (tf: number): FixedTimeSolve => {
+    const hit = cache.get(tf);
+    if (hit) return hit;
+    const r = solver.solveFixed(kind, tf, target, ignition);
+    cache.set(tf, r);
+    if (!isSolved(r.status)) {
+      statuses.push(r.status);
+      if (!isInfeasible(r.status)) failures++;
+    }
+    return r;
+  };
+  const cost = (r: FixedTimeSolve) => (!isSolved(r.status) ? Infinity : kind === 'min-propellant' ? r.propellant : r.miss);
+  let start: FixedTimeSolve | null = null;
+  for (const tf of starts) {
+    if (budget() <= 0) break;
+    const r = evalAt(tf);
+    if (isSolved(r.status)) {
+      start = r;
+      break;
+    }
+  }
+  if (!start) return { best: null, statuses, failures };
+  const res = brentMinimise((tf) => cost(evalAt(tf)), br.lower, br.upper, start.timeOfFlight, cost(start), tol, Math.max(0, budget()));
+  const best = cache.get(res.x) ?? start;
+  return { best, statuses, failures };
+}
+
+export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignition: IgnitionState, options: SearchOptions = {}): DescentResult {
+  const br = options.bracket ?? timeOfFlightBracket(solver.setup, ignition, target);
+  const tol = options.tfTolerance ?? 0.05;
+  const maxSolves = options.maxSolves ?? 60;
+  const startSolves = solver.solves;
+  const budget = () => maxSolves - (solver.solves - startSolves);
+  const probes = [...new Set((options.probes ?? DEFAULT_PROBES).map((f) => Math.min(br.lower * f, br.upper - tol)))];
+  const starts = options.tfGuess !== undefined && options.tfGuess > br.lower && options.tfGuess < br.upper ? [options.tfGuess, ...probes] : probes;
+  const warnings: string[] = [];
+  const result = (partial: Partial<DescentResult> & Pick<DescentResult, 'status'>): DescentResult => ({
+    target, timeOfFlight: NaN, propellant: NaN, solves: solver.solves - startSolves, bracket: br, closestPoint: null,
+    miss: NaN, infeasibleStatuses: [], failures: 0, kind: null, trajectory: null, warnings, ...partial,
+  });
+  const finish = (best: FixedTimeSolve, phase: Phase, extra: Partial<DescentResult> & Pick<DescentResult, 'status'>): DescentResult => {
+    const decode = options.decode ?? true;
+    const traj = decode ? decodeTrajectory(solver.program(best.kind), best.solution.x, best.timeOfFlight, target) : null;
+    if (traj && !traj.diagnostics.lossless) {
+      warnings.push(`convexification not lossless: max(σ − ‖u‖) = ${traj.diagnostics.losslessnessGap.toExponential(2)} m/s² (${traj.diagnostics.losslessnessGapRelative.toExponential(2)} of full-throttle acceleration)`);
+    }
+    if (phase.failures > 0) warnings.push(`${phase.failures} solve(s) ended without a solution or a certificate; they were treated as infeasible`);
+    if (best.timeOfFlight - br.lower < 2 * tol || br.upper - best.timeOfFlight < 2 * tol) warnings.push('optimal time of flight lies at the edge of the search bracket');
+    return result({
+      timeOfFlight: best.timeOfFlight, propellant: best.propellant, kind: best.kind, trajectory: traj,
+      infeasibleStatuses: phase.statuses, failures: phase.failures, ...extra,
+    });
+  };
+
+  const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts, tol, budget);
+  if (fuel.best) return finish(fuel.best, fuel, { status: 'solved' });
+
+  const err = runPhase(solver, 'min-landing-error', target, ignition, br, starts, tol, budget);
+  if (!err.best) {
+    const status: DescentStatus = fuel.failures + err.failures > 0 || budget() <= 0 ? 'solver-failure' : 'unreachable';
+    warnings.push(status === 'unreachable'
+      ? 'no soft landing anywhere: the minimum-landing-error problem is infeasible at every probed time of flight'
+      : 'no time of flight gave a solution or an infeasibility certificate');
+    return result({ status, infeasibleStatuses: fuel.statuses, failures: fuel.failures + err.failures });
+  }
+  const missTolerance = 1e-6 * solver.scales.length + 1e-3;
+  if (err.best.miss <= missTolerance) {
+    // A feasible window the probes stepped over: restart the propellant search from it.
+    const again = runPhase(solver, 'min-propellant', target, ignition, br, [err.best.timeOfFlight], tol, budget);
+    if (again.best) return finish(again.best, again, { status: 'solved' });
+  }
+  const traj = decodeTrajectory(solver.program('min-landing-error'), err.best.solution.x, err.best.timeOfFlight, target);
+  const status: DescentStatus = fuel.failures > 0 && fuel.statuses.every((s) => !isInfeasible(s)) ? 'solver-failure' : 'unreachable';
+  return finish(err.best, { ...err, statuses: fuel.statuses }, {
+    status,
+    closestPoint: traj.landing,
+    miss: err.best.miss,
+    failures: fuel.failures + err.failures,
+  });
+}
