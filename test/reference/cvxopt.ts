@@ -38,7 +38,7 @@ function triplets(M: CscMatrix) {
 }
 
 /** JSON form of a problem for the Python side. */
-export function problemToJson(p: ConicProblem, options: Record<string, number> = {}) {
+export function problemToJson(p: ConicProblem, options: Record<string, number | string> = {}) {
   return {
     n: p.c.length,
     c: Array.from(p.c),
@@ -59,7 +59,7 @@ export function cvxoptAvailable(): boolean {
 }
 
 /** Solves every problem with CVXOPT conelp in one Python process. */
-export function solveWithCvxopt(problems: ConicProblem[], options: Record<string, number> = {}): CvxoptResult[] {
+export function solveWithCvxopt(problems: ConicProblem[], options: Record<string, number | string> = {}): CvxoptResult[] {
   const input = JSON.stringify(problems.map((p) => problemToJson(p, options)));
   const r = spawnSync(PYTHON, [SCRIPT], { input, encoding: 'utf8', maxBuffer: 1 << 30 });
   if (r.status !== 0) throw new Error(`CVXOPT reference failed (exit ${r.status}): ${r.stderr}`);

@@ -13,11 +13,9 @@ import time
 
 from cvxopt import matrix, spmatrix, solvers
 
-solvers.options["show_progress"] = False
-solvers.options["abstol"] = 1e-10
-solvers.options["reltol"] = 1e-10
-solvers.options["feastol"] = 1e-10
-solvers.options["maxiters"] = 200
+# Tighter than CVXOPT's defaults (1e-7, 1e-6, 1e-7) so objectives can be compared to 1e-6 relative;
+# a problem may override any of these (and choose "kktsolver") through its "options".
+DEFAULTS = {"show_progress": False, "abstol": 1e-9, "reltol": 1e-9, "feastol": 1e-9, "maxiters": 100}
 
 
 def sparse(block):
@@ -30,14 +28,18 @@ def tolist(v):
 
 
 def solve(p):
-    opts = p.get("options", {})
+    kw = {}
+    opts = dict(DEFAULTS)
+    opts.update(p.get("options", {}))
+    kktsolver = opts.pop("kktsolver", None)
     for k, v in opts.items():
         solvers.options[k] = v
     c = matrix([float(v) for v in p["c"]], (len(p["c"]), 1), "d")
     G = sparse(p["G"])
     h = matrix([float(v) for v in p["h"]], (len(p["h"]), 1), "d")
     dims = {"l": int(p["nonnegative"]), "q": [int(q) for q in p["secondOrder"]], "s": []}
-    kw = {}
+    if kktsolver:
+        kw["kktsolver"] = kktsolver
     if p["A"]["m"] > 0:
         kw["A"] = sparse(p["A"])
         kw["b"] = matrix([float(v) for v in p["b"]], (len(p["b"]), 1), "d")

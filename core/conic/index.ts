@@ -1,0 +1,14 @@
+/** The second-order cone program solver: public entry points. */
+export { ConicWorkspace, solveConic, type ProblemUpdate } from './workspace.ts';
+export { DEFAULT_SETTINGS, resolveSettings, type SolverSettings } from './settings.ts';
+export {
+  isDualInfeasible,
+  isInfeasible,
+  isPrimalInfeasible,
+  isSolved,
+  type ConeSpec,
+  type ConicProblem,
+  type ConicSolution,
+  type SolveInfo,
+  type SolveStatus,
+} from './types.ts';

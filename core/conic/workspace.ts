@@ -1,0 +1,510 @@
+/**
+ * The primal–dual interior-point method for SOCPs on the homogeneous self-dual embedding
+ * (Ye, Todd & Mizuno 1994; as formulated for cone programs in Vandenberghe 2010 and ECOS,
+ * Domahidi, Chu & Boyd 2013), with Nesterov–Todd scaling and Mehrotra's predictor–corrector.
+ *
+ * Embedding (in the equilibrated data):
+ *   Aᵀy + Gᵀz + cτ = 0,   Ax − bτ = 0,   s + Gx − hτ = 0,   κ + cᵀx + bᵀy + hᵀz = 0,
+ *   s, z ∈ K,  τ, κ ≥ 0.
+ * τ → 0 with κ > 0 exposes infeasibility; the iterates then converge to a certificate.
+ */
+import { cscMulAdd, cscMulTransAdd, cscSamePattern, type CscMatrix } from '../linalg/csc.ts';
+import type { Cone } from './cones/cone.ts';
+import { NonnegativeCone } from './cones/nonnegative.ts';
+import { SecondOrderCone } from './cones/secondOrder.ts';
+import { KktSystem } from './kkt.ts';
+import { ruizEquilibrate, validateProblem } from './problem.ts';
+import { resolveSettings, type SolverSettings } from './settings.ts';
+import type { ConicProblem, ConicSolution, SolveStatus } from './types.ts';
+import { type Residuals, assessIterate, type Assessment } from './termination.ts';
+
+/** New values for a problem of the same shape and sparsity pattern. */
+export interface ProblemUpdate {
+  c?: Float64Array;
+  b?: Float64Array;
+  h?: Float64Array;
+  /** New values of A, in the stored order of its CSC pattern. */
+  AValues?: Float64Array;
+  /** New values of G, in the stored order of its CSC pattern. */
+  GValues?: Float64Array;
+}
+
+const now = (): number => (typeof performance !== 'undefined' ? performance.now() : 0);
+
+export class ConicWorkspace {
+  readonly settings: SolverSettings;
+  readonly n: number;
+  readonly p: number;
+  readonly m: number;
+  /** Sum of the cone degrees. */
+  readonly degree: number;
+  private readonly cones: Cone[];
+  private readonly kkt: KktSystem;
+  // Original data (owned copies) and equilibrated data.
+  private readonly A: CscMatrix;
+  private readonly G: CscMatrix;
+  private readonly c0: Float64Array;
+  private readonly b0: Float64Array;
+  private readonly h0: Float64Array;
+  private readonly As: CscMatrix;
+  private readonly Gs: CscMatrix;
+  private readonly c: Float64Array;
+  private readonly b: Float64Array;
+  private readonly h: Float64Array;
+  private readonly D: Float64Array;
+  private readonly E: Float64Array;
+  private readonly norms = { b: 0, h: 0, c: 0, bs: 0, hs: 0, cs: 0 };
+  // Iterate.
+  private readonly x: Float64Array;
+  private readonly y: Float64Array;
+  private readonly z: Float64Array;
+  private readonly s: Float64Array;
+  private tau = 1;
+  private kappa = 1;
+  // Work vectors.
+  private readonly lambda: Float64Array;
+  private readonly rx: Float64Array;
+  private readonly ry: Float64Array;
+  private readonly rz: Float64Array;
+  private readonly rhs: Float64Array;
+  private readonly sol1: Float64Array;
+  private readonly sol2: Float64Array;
+  private readonly ds: Float64Array;
+  private readonly dsScaled: Float64Array;
+  private readonly dzScaled: Float64Array;
+  private readonly tmpM: Float64Array;
+  private readonly tmpM2: Float64Array;
+  private readonly ones: Float64Array;
+  private factorisations = 0;
+  private bestMerit = Infinity;
+  private readonly best: { x: Float64Array; y: Float64Array; z: Float64Array; s: Float64Array; tau: number; kappa: number };
+
+  constructor(problem: ConicProblem, settings: Partial<SolverSettings> = {}) {
+    this.settings = resolveSettings(settings);
+    validateProblem(problem);
+    const n = problem.c.length;
+    const p = problem.A.m;
+    const m = problem.G.m;
+    this.n = n;
+    this.p = p;
+    this.m = m;
+    const copy = (M: CscMatrix): CscMatrix => ({
+      m: M.m,
+      n: M.n,
+      colPtr: M.colPtr.slice(0, M.n + 1),
+      rowIdx: M.rowIdx.slice(0, M.colPtr[M.n]),
+      values: M.values.slice(0, M.colPtr[M.n]),
+    });
+    this.A = copy(problem.A);
+    this.G = copy(problem.G);
+    this.As = copy(problem.A);
+    this.Gs = copy(problem.G);
+    this.c0 = problem.c.slice();
+    this.b0 = problem.b.slice();
+    this.h0 = problem.h.slice();
+    this.c = new Float64Array(n);
+    this.b = new Float64Array(p);
+    this.h = new Float64Array(m);
+    this.D = new Float64Array(n);
+    this.E = new Float64Array(p + m);
+
+    this.cones = [];
+    let offset = 0;
+    if (problem.cones.nonnegative > 0) {
+      this.cones.push(new NonnegativeCone(0, problem.cones.nonnegative));
+      offset = problem.cones.nonnegative;
+    }
+    for (const q of problem.cones.secondOrder) {
+      this.cones.push(new SecondOrderCone(offset, q));
+      offset += q;
+    }
+    this.degree = this.cones.reduce((sum, k) => sum + k.degree, 0);
+
+    this.x = new Float64Array(n);
+    this.y = new Float64Array(p);
+    this.z = new Float64Array(m);
+    this.s = new Float64Array(m);
+    this.lambda = new Float64Array(m);
+    this.rx = new Float64Array(n);
+    this.ry = new Float64Array(p);
+    this.rz = new Float64Array(m);
+    const dim = n + p + m;
+    this.rhs = new Float64Array(dim);
+    this.sol1 = new Float64Array(dim);
+    this.sol2 = new Float64Array(dim);
+    this.ds = new Float64Array(m);
+    this.dsScaled = new Float64Array(m);
+    this.dzScaled = new Float64Array(m);
+    this.tmpM = new Float64Array(m);
+    this.tmpM2 = new Float64Array(m);
+    this.ones = new Float64Array(m);
+    this.best = { x: new Float64Array(n), y: new Float64Array(p), z: new Float64Array(m), s: new Float64Array(m), tau: 1, kappa: 1 };
+    for (const k of this.cones) k.addIdentity(this.ones, 1);
+
+    this.equilibrate();
+    this.kkt = new KktSystem(this.As, this.Gs, this.cones, this.settings);
+  }
+
+  /** Replaces data values (same sizes, same sparsity patterns); the symbolic analysis is kept. */
+  update(data: ProblemUpdate): void {
+    const check = (name: string, v: Float64Array | undefined, len: number) => {
+      if (v === undefined) return;
+      if (!(v instanceof Float64Array) || v.length !== len) {
+        throw new RangeError(`invalid update.${name}: expected a Float64Array of length ${len}`);
+      }
+      for (let i = 0; i < len; i++) {
+        if (!Number.isFinite(v[i])) throw new RangeError(`invalid update.${name}[${i}]: ${v[i]} (must be finite)`);
+      }
+    };
+    check('c', data.c, this.n);
+    check('b', data.b, this.p);
+    check('h', data.h, this.m);
+    check('AValues', data.AValues, this.A.colPtr[this.n]);
+    check('GValues', data.GValues, this.G.colPtr[this.n]);
+    if (data.c) this.c0.set(data.c);
+    if (data.b) this.b0.set(data.b);
+    if (data.h) this.h0.set(data.h);
+    if (data.AValues) this.A.values.set(data.AValues);
+    if (data.GValues) this.G.values.set(data.GValues);
+    this.equilibrate();
+    this.kkt.setAG(this.As.values, this.Gs.values);
+  }
+
+  /** True when `other` has the sizes and sparsity patterns this workspace was analysed for. */
+  accepts(other: ConicProblem): boolean {
+    return (
+      other.c.length === this.n &&
+      cscSamePattern(other.A, this.A) &&
+      cscSamePattern(other.G, this.G) &&
+      other.cones.nonnegative === (this.cones[0] instanceof NonnegativeCone ? this.cones[0].dim : 0)
+    );
+  }
+
+  /** Fill-in diagnostic: entries of the LDLᵀ factor. */
+  get factorEntries(): number {
+    return this.kkt.factorEntries;
+  }
+
+  private equilibrate(): void {
+    const { A, G, As, Gs, D, E, p } = this;
+    const s = this.settings;
+    ruizEquilibrate(A, G, this.conesSpec(), s.equilibrationIterations, s.equilibrationMin, s.equilibrationMax, { D, E });
+    scaleMatrix(A, As, E, 0, D);
+    scaleMatrix(G, Gs, E, p, D);
+    for (let j = 0; j < this.n; j++) this.c[j] = this.c0[j] * D[j];
+    for (let i = 0; i < p; i++) this.b[i] = this.b0[i] * E[i];
+    for (let i = 0; i < this.m; i++) this.h[i] = this.h0[i] * E[p + i];
+    this.norms.b = infNorm(this.b0);
+    this.norms.h = infNorm(this.h0);
+    this.norms.c = infNorm(this.c0);
+    this.norms.bs = infNorm(this.b);
+    this.norms.hs = infNorm(this.h);
+    this.norms.cs = infNorm(this.c);
+  }
+
+  private conesSpec() {
+    const first = this.cones[0];
+    const nonnegative = first instanceof NonnegativeCone ? first.dim : 0;
+    return {
+      nonnegative,
+      secondOrder: this.cones.filter((k) => k instanceof SecondOrderCone).map((k) => k.dim),
+    };
+  }
+
+  /** Solves the current problem from a cold start. */
+  solve(): ConicSolution {
+    const t0 = now();
+    this.factorisations = 0;
+    const st = this.settings;
+    if (!this.initialise()) return this.finish('numerical-error', null, 0, t0);
+    this.bestMerit = Infinity;
+    for (let iter = 0; ; iter++) {
+      const res = this.residuals();
+      const assessment = assessIterate(res, this.norms, this.D, this.E, st, false);
+      if (st.verbose) this.log(iter, res, assessment);
+      if (assessment.status) return this.finish(assessment.status, assessment, iter, t0);
+      this.keepIfBest(assessment);
+      const stuck = iter >= st.maxIterations ? null : this.step(res);
+      if (stuck !== null && stuck >= st.minStep) continue;
+      // Out of iterations or no usable step: settle for reduced accuracy if the data allow it.
+      const fallback: SolveStatus = iter >= st.maxIterations ? 'max-iterations' : 'numerical-error';
+      return this.finishReduced(res, fallback, iter, t0);
+    }
+  }
+
+  /** Merit of an iterate on the way to optimality: the worst of the relative residuals and gap. */
+  private keepIfBest(a: Assessment): void {
+    const relGap = a.gap / Math.max(1, Math.min(Math.abs(a.primalObjective), Math.abs(a.dualObjective)));
+    const merit = Math.max(a.primalResidualRelative, a.dualResidualRelative, relGap);
+    if (!(merit < this.bestMerit)) return;
+    this.bestMerit = merit;
+    this.best.x.set(this.x);
+    this.best.y.set(this.y);
+    this.best.z.set(this.z);
+    this.best.s.set(this.s);
+    this.best.tau = this.tau;
+    this.best.kappa = this.kappa;
+  }
+
+  /**
+   * The reduced-accuracy ending: the current iterate may certify infeasibility at the relaxed tolerances;
+   * otherwise the best iterate seen may be almost optimal; otherwise the fallback status, with the best
+   * iterate returned.
+   */
+  private finishReduced(res: Residuals, fallback: SolveStatus, iter: number, t0: number): ConicSolution {
+    const st = this.settings;
+    const current = assessIterate(res, this.norms, this.D, this.E, st, true);
+    if (current.status && current.status !== 'almost-solved') return this.finish(current.status, current, iter, t0);
+    if (this.bestMerit < Infinity) {
+      this.x.set(this.best.x);
+      this.y.set(this.best.y);
+      this.z.set(this.best.z);
+      this.s.set(this.best.s);
+      this.tau = this.best.tau;
+      this.kappa = this.best.kappa;
+    }
+    const best = assessIterate(this.residuals(), this.norms, this.D, this.E, st, true);
+    return this.finish(best.status === 'almost-solved' ? 'almost-solved' : fallback, best, iter, t0);
+  }
+
+  /** Cold start of Vandenberghe (2010) §5.3 / ECOS: least-squares primal and dual points shifted into K. */
+  private initialise(): boolean {
+    const { n, p, m, cones, kkt, rhs, sol1 } = this;
+    for (const k of cones) k.setIdentityScaling();
+    this.factorisations++;
+    if (!kkt.updateAndFactor()) return false;
+    // Primal: min ‖Gx − h‖² s.t. Ax = b  →  s = h − Gx.
+    rhs.fill(0);
+    rhs.set(this.b, n);
+    rhs.set(this.h, n + p);
+    if (!kkt.solve(rhs, sol1)) return false;
+    this.x.set(sol1.subarray(0, n));
+    for (let i = 0; i < m; i++) this.s[i] = -sol1[n + p + i];
+    shiftIntoCone(cones, this.s);
+    // Dual: min ‖z‖² s.t. Aᵀy + Gᵀz + c = 0.
+    rhs.fill(0);
+    for (let j = 0; j < n; j++) rhs[j] = -this.c[j];
+    if (!kkt.solve(rhs, sol1)) return false;
+    this.y.set(sol1.subarray(n, n + p));
+    this.z.set(sol1.subarray(n + p));
+    shiftIntoCone(cones, this.z);
+    this.tau = 1;
+    this.kappa = 1;
+    return true;
+  }
+
+  private residuals(): Residuals {
+    const { As, Gs, c, b, h, x, y, z, s, tau, kappa, rx, ry, rz } = this;
+    rx.fill(0);
+    cscMulTransAdd(As, y, rx);
+    cscMulTransAdd(Gs, z, rx);
+    const dualNoC = infNorm(rx);
+    for (let j = 0; j < this.n; j++) rx[j] += c[j] * tau;
+    ry.fill(0);
+    cscMulAdd(As, x, ry);
+    const axNorm = infNorm(ry);
+    for (let i = 0; i < this.p; i++) ry[i] -= b[i] * tau;
+    rz.set(s);
+    cscMulAdd(Gs, x, rz);
+    const gxsNorm = infNorm(rz);
+    for (let i = 0; i < this.m; i++) rz[i] -= h[i] * tau;
+    const cx = dot(c, x);
+    const by = dot(b, y);
+    const hz = dot(h, z);
+    const sz = dot(s, z);
+    return { rx, ry, rz, cx, by, hz, sz, tau, kappa, dualNoC, axNorm, gxsNorm, x, y, z, s, degree: this.degree };
+  }
+
+  /** One predictor–corrector step; returns the step length, or null on a numerical failure. */
+  private step(res: Residuals): number | null {
+    const { n, p, m, cones, kkt, rhs, sol1, sol2, lambda, s, z, ds, dsScaled, dzScaled, tmpM, tmpM2 } = this;
+    const { tau, kappa } = this;
+    for (const k of cones) if (!k.updateScaling(s, z, lambda)) return null;
+    this.factorisations++;
+    if (!kkt.updateAndFactor()) return null;
+
+    // Solve 1 (direction of τ): K [x1; y1; z1] = [−c; b; h].
+    for (let j = 0; j < n; j++) rhs[j] = -this.c[j];
+    rhs.set(this.b, n);
+    rhs.set(this.h, n + p);
+    if (!kkt.solve(rhs, sol1)) return null;
+    // cᵀx1 + bᵀy1 + hᵀz1 = −‖W z1‖² ≤ 0, so the τ pivot below is negative.
+    const tauPivot = dotRange(this.c, sol1, 0) + dotRange(this.b, sol1, n) + dotRange(this.h, sol1, n + p) - kappa / tau;
+    const mu = (res.sz + tau * kappa) / (this.degree + 1);
+    const rTau = kappa + res.cx + res.by + res.hz;
+
+    // Affine (predictor) direction: d_s = −λ∘λ, d_κ = −τκ.
+    for (const k of cones) k.jordanProduct(lambda, lambda, tmpM);
+    for (let i = 0; i < m; i++) tmpM[i] = -tmpM[i];
+    const affine = this.direction(1, tmpM, -tau * kappa, tauPivot, rTau, res);
+    if (affine === null) return null;
+    const alphaAff = Math.min(1, this.stepToBoundary(affine.dTau, affine.dKappa));
+
+    // Centring σ = (1 − α_aff)³ (Mehrotra's heuristic as in ECOS) and the second-order correction.
+    const sigma = Math.min(1, Math.max(1e-4, (1 - alphaAff) ** 3));
+    for (const k of cones) {
+      k.jordanProduct(lambda, lambda, tmpM);
+      k.jordanProduct(dsScaled, dzScaled, tmpM2);
+    }
+    for (let i = 0; i < m; i++) tmpM[i] = -tmpM[i] - tmpM2[i] + sigma * mu * this.ones[i];
+    const dKappaRhs = -tau * kappa - affine.dTau * affine.dKappa + sigma * mu;
+    const combined = this.direction(1 - sigma, tmpM, dKappaRhs, tauPivot, rTau, res);
+    if (combined === null) return null;
+    const alphaMax = this.stepToBoundary(combined.dTau, combined.dKappa);
+    const alpha = Math.min(1, this.settings.stepFraction * alphaMax);
+
+    // Update the iterate.
+    for (let j = 0; j < n; j++) this.x[j] += alpha * sol2[j];
+    for (let i = 0; i < p; i++) this.y[i] += alpha * sol2[n + i];
+    for (let i = 0; i < m; i++) {
+      this.z[i] += alpha * sol2[n + p + i];
+      this.s[i] += alpha * ds[i];
+    }
+    this.tau += alpha * combined.dTau;
+    this.kappa += alpha * combined.dKappa;
+    return alpha;
+  }
+
+  /**
+   * Solves for a search direction given η (residual reduction), d_s (complementarity right-hand side in
+   * the scaled space, held in `dsTarget`), and d_κ. Leaves Δx, Δy, Δz in sol2, Δs in `ds`, and the scaled
+   * directions W⁻¹Δs, WΔz in dsScaled, dzScaled.
+   */
+  private direction(
+    eta: number,
+    dsTarget: Float64Array,
+    dKappa: number,
+    tauPivot: number,
+    rTau: number,
+    res: Residuals,
+  ): { dTau: number; dKappa: number } | null {
+    const { n, p, m, cones, kkt, rhs, sol1, sol2, lambda, ds, dsScaled, dzScaled, tmpM2 } = this;
+    const { tau, kappa } = this;
+    // u = W (λ \ d_s), kept in ds for now.
+    for (const k of cones) k.jordanDivide(lambda, dsTarget, tmpM2);
+    for (const k of cones) k.mulW(tmpM2, ds);
+    for (let j = 0; j < n; j++) rhs[j] = -eta * res.rx[j];
+    for (let i = 0; i < p; i++) rhs[n + i] = -eta * res.ry[i];
+    for (let i = 0; i < m; i++) rhs[n + p + i] = -eta * res.rz[i] - ds[i];
+    if (!kkt.solve(rhs, sol2)) return null;
+    const dTau =
+      (-eta * rTau - dKappa / tau - (dotRange(this.c, sol2, 0) + dotRange(this.b, sol2, n) + dotRange(this.h, sol2, n + p))) /
+      tauPivot;
+    if (!Number.isFinite(dTau)) return null;
+    for (let i = 0; i < n + p + m; i++) sol2[i] += dTau * sol1[i];
+    // Δs = W(λ \ d_s) − W²Δz; scaled directions for the step length and the corrector.
+    for (let i = 0; i < m; i++) tmpM2[i] = sol2[n + p + i];
+    for (const k of cones) k.mulW(tmpM2, dzScaled);
+    for (const k of cones) k.mulW(dzScaled, tmpM2);
+    for (let i = 0; i < m; i++) ds[i] -= tmpM2[i];
+    for (const k of cones) k.mulWinv(ds, dsScaled);
+    const dKap = (dKappa - kappa * dTau) / tau;
+    return { dTau, dKappa: dKap };
+  }
+
+  /** Largest α with λ + α W⁻¹Δs, λ + α WΔz ∈ K and τ, κ ≥ 0. */
+  private stepToBoundary(dTau: number, dKappa: number): number {
+    let alpha = Infinity;
+    for (const k of this.cones) {
+      alpha = Math.min(alpha, k.stepLength(this.lambda, this.dsScaled), k.stepLength(this.lambda, this.dzScaled));
+    }
+    if (dTau < 0) alpha = Math.min(alpha, -this.tau / dTau);
+    if (dKappa < 0) alpha = Math.min(alpha, -this.kappa / dKappa);
+    return alpha;
+  }
+
+  private finish(status: SolveStatus, a: Assessment | null, iterations: number, t0: number): ConicSolution {
+    const { n, p, m, D, E, x, y, z, s, tau } = this;
+    const X = new Float64Array(n);
+    const Y = new Float64Array(p);
+    const Z = new Float64Array(m);
+    const S = new Float64Array(m);
+    if (status === 'primal-infeasible' || status === 'almost-primal-infeasible') {
+      const scale = -1 / (dot(this.b, y) + dot(this.h, z));
+      for (let i = 0; i < p; i++) Y[i] = y[i] * E[i] * scale;
+      for (let i = 0; i < m; i++) Z[i] = z[i] * E[p + i] * scale;
+      X.fill(NaN);
+      S.fill(NaN);
+    } else if (status === 'dual-infeasible' || status === 'almost-dual-infeasible') {
+      const scale = -1 / dot(this.c, x);
+      for (let j = 0; j < n; j++) X[j] = x[j] * D[j] * scale;
+      for (let i = 0; i < m; i++) S[i] = (s[i] / E[p + i]) * scale;
+      Y.fill(NaN);
+      Z.fill(NaN);
+    } else {
+      for (let j = 0; j < n; j++) X[j] = (x[j] * D[j]) / tau;
+      for (let i = 0; i < p; i++) Y[i] = (y[i] * E[i]) / tau;
+      for (let i = 0; i < m; i++) {
+        Z[i] = (z[i] * E[p + i]) / tau;
+        S[i] = s[i] / E[p + i] / tau;
+      }
+    }
+    const solvedLike = status !== 'primal-infeasible' && status !== 'dual-infeasible' &&
+      status !== 'almost-primal-infeasible' && status !== 'almost-dual-infeasible';
+    return {
+      status,
+      x: X,
+      y: Y,
+      z: Z,
+      s: S,
+      info: {
+        iterations,
+        primalObjective: solvedLike && a ? a.primalObjective : NaN,
+        dualObjective: solvedLike && a ? a.dualObjective : NaN,
+        gap: a ? a.gap : NaN,
+        primalResidual: a ? a.primalResidual : NaN,
+        dualResidual: a ? a.dualResidual : NaN,
+        factorisations: this.factorisations,
+        solveTimeMs: now() - t0,
+      },
+    };
+  }
+
+  private log(iter: number, res: Residuals, a: Assessment): void {
+    const f = (v: number) => v.toExponential(2).padStart(10);
+    console.log(
+      `${String(iter).padStart(3)} pcost ${f(a.primalObjective)} dcost ${f(a.dualObjective)} gap ${f(a.gap)} ` +
+        `pres ${f(a.primalResidualRelative)} dres ${f(a.dualResidualRelative)} τ ${f(res.tau)} κ ${f(res.kappa)}`,
+    );
+  }
+}
+
+/** One-shot solve: builds a workspace, solves, returns the solution. */
+export function solveConic(problem: ConicProblem, settings: Partial<SolverSettings> = {}): ConicSolution {
+  return new ConicWorkspace(problem, settings).solve();
+}
+
+function shiftIntoCone(cones: readonly Cone[], v: Float64Array): void {
+  let worst = -Infinity;
+  for (const k of cones) worst = Math.max(worst, k.violation(v));
+  if (worst >= 0) for (const k of cones) k.addIdentity(v, 1 + worst);
+}
+
+function scaleMatrix(M: CscMatrix, out: CscMatrix, E: Float64Array, rowOffset: number, D: Float64Array): void {
+  for (let j = 0; j < M.n; j++) {
+    for (let q = M.colPtr[j]; q < M.colPtr[j + 1]; q++) {
+      out.values[q] = M.values[q] * E[rowOffset + M.rowIdx[q]] * D[j];
+    }
+  }
+}
+
+function infNorm(v: Float64Array): number {
+  let r = 0;
+  for (let i = 0; i < v.length; i++) {
+    const a = Math.abs(v[i]);
+    if (a > r) r = a;
+  }
+  return r;
+}
+
+function dot(a: Float64Array, b: Float64Array): number {
+  let r = 0;
+  for (let i = 0; i < a.length; i++) r += a[i] * b[i];
+  return r;
+}
+
+function dotRange(a: Float64Array, b: Float64Array, offset: number): number {
+  let r = 0;
+  for (let i = 0; i < a.length; i++) r += a[i] * b[offset + i];
+  return r;
+}
