@@ -5,6 +5,7 @@
  * Infeasible points are +∞. For the free-final-time problem the feasible times form an interval and
  * the cost is unimodal on it (Açıkmeşe & Ploen 2007; Blackmore et al. 2010), so as long as the start x
  * is feasible every comparison discards a part of [a, b] that holds no better feasible point.
+ * `stopBelow`: return as soon as a value at or below it is found (a zero landing error needs no polish).
  */
 export interface BrentResult {
   x: number;
@@ -14,7 +15,7 @@ export interface BrentResult {
 
 const CGOLD = 0.3819660112501051;
 
-export function brentMinimise(f: (x: number) => number, a: number, b: number, x: number, fx: number, tol: number, maxEvaluations: number): BrentResult {
+export function brentMinimise(f: (x: number) => number, a: number, b: number, x: number, fx: number, tol: number, maxEvaluations: number, stopBelow = -Infinity): BrentResult {
   let w = x;
   let v = x;
   let fw = fx;
@@ -22,7 +23,7 @@ export function brentMinimise(f: (x: number) => number, a: number, b: number, x:
   let d = 0;
   let e = 0;
   let evaluations = 0;
-  while (evaluations < maxEvaluations) {
+  while (evaluations < maxEvaluations && !(fx <= stopBelow)) {
     const xm = 0.5 * (a + b);
     const tol1 = tol;
     const tol2 = 2 * tol1;

@@ -71,16 +71,21 @@ export const DEFAULT_PROBES: readonly number[] = [1.75, 1.55, 1.95, 1.4, 2.2, 1.
 
 interface Phase {
   best: FixedTimeSolve | null;
+  /** Times at which this problem came back with an infeasibility certificate. */
+  infeasibleTimes: number[];
+  /** Every solved evaluation. */
+  solvedTimes: FixedTimeSolve[];
   statuses: SolveStatus[];
   failures: number;
 }
 
 function runPhase(
   solver: DescentSolver, kind: ProgramKind, target: Vec3, ignition: IgnitionState, br: TimeBracket,
-  starts: number[], tol: number, budget: () => number,
+  starts: number[], tol: number, budget: () => number, knownInfeasible: readonly number[] = [], stopBelow = -Infinity,
 ): Phase {
   const cache = new Map<number, FixedTimeSolve>();
   const statuses: SolveStatus[] = [];
+  const infeasibleTimes: number[] = [];
   let failures = 0;
   const evalAt = (tf: number): FixedTimeSolve => {
     const hit = cache.get(tf);
@@ -91,6 +96,7 @@ function runPhase(
       statuses.push(r.status);
       if (!isInfeasible(r.status)) failures++;
     }
+    if (isInfeasible(r.status)) infeasibleTimes.push(tf);
     return r;
   };
   const cost = (r: FixedTimeSolve) => (!isSolved(r.status) ? Infinity : kind === 'min-propellant' ? r.propellant : r.miss);
@@ -103,10 +109,21 @@ function runPhase(
       break;
     }
   }
-  if (!start) return { best: null, statuses, failures };
-  const res = brentMinimise((tf) => cost(evalAt(tf)), br.lower, br.upper, start.timeOfFlight, cost(start), tol, Math.max(0, budget()));
+  if (!start) return { best: null, statuses, failures, infeasibleTimes, solvedTimes: [] };
+  // The feasible times form an interval: infeasible probes on either side of the start bound it.
+  let lo = br.lower;
+  let hi = br.upper;
+  const x0 = start.timeOfFlight;
+  for (const tf of [...cache.keys(), ...knownInfeasible]) {
+    const r = cache.get(tf);
+    if (r && isSolved(r.status)) continue;
+    if (r && !isInfeasible(r.status)) continue;
+    if (tf < x0 && tf > lo) lo = tf;
+    if (tf > x0 && tf < hi) hi = tf;
+  }
+  const res = brentMinimise((tf) => cost(evalAt(tf)), lo, hi, x0, cost(start), tol, Math.max(0, budget()), stopBelow);
   const best = cache.get(res.x) ?? start;
-  return { best, statuses, failures };
+  return { best, statuses, failures, infeasibleTimes, solvedTimes: [...cache.values()].filter((r) => isSolved(r.status)) };
 }
 
 export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignition: IgnitionState, options: SearchOptions = {}): DescentResult {
@@ -139,7 +156,8 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
   const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts, tol, budget);
   if (fuel.best) return finish(fuel.best, fuel, { status: 'solved' });
 
-  const err = runPhase(solver, 'min-landing-error', target, ignition, br, starts, tol, budget);
+  const missTolerance = 1e-6 * solver.scales.length + 1e-3;
+  const err = runPhase(solver, 'min-landing-error', target, ignition, br, starts, tol, budget, [], missTolerance);
   if (!err.best) {
     const status: DescentStatus = fuel.failures + err.failures > 0 || budget() <= 0 ? 'solver-failure' : 'unreachable';
     warnings.push(status === 'unreachable'
@@ -147,10 +165,12 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
       : 'no time of flight gave a solution or an infeasibility certificate');
     return result({ status, infeasibleStatuses: fuel.statuses, failures: fuel.failures + err.failures });
   }
-  const missTolerance = 1e-6 * solver.scales.length + 1e-3;
   if (err.best.miss <= missTolerance) {
     // A feasible window the probes stepped over: restart the propellant search from it.
-    const again = runPhase(solver, 'min-propellant', target, ignition, br, [err.best.timeOfFlight], tol, budget);
+    // Minimum-landing-error infeasible ⇒ minimum-propellant infeasible (the latter is a restriction).
+    // So is it wherever the smallest landing error is positive.
+    const known = [...fuel.infeasibleTimes, ...err.infeasibleTimes, ...err.solvedTimes.filter((t) => t.miss > missTolerance).map((t) => t.timeOfFlight)];
+    const again = runPhase(solver, 'min-propellant', target, ignition, br, [err.best.timeOfFlight], tol, budget, known);
     if (again.best) return finish(again.best, again, { status: 'solved' });
   }
   const traj = decodeTrajectory(solver.program('min-landing-error'), err.best.solution.x, err.best.timeOfFlight, target);

@@ -20,7 +20,17 @@ export interface CvxoptBackendStats {
   solverSeconds: number;
 }
 
-export function cvxoptBackend(stats: CvxoptBackendStats = { solves: 0, solverSeconds: 0 }): ConicBackend & { stats: CvxoptBackendStats } {
+/**
+ * conelp tolerances for descent problems. The bridge's 1e-10 defaults make conelp stop with "domain
+ * error" on several well-posed descent problems (seen on minimum-landing-error problems with a glide
+ * slope); 1e-8 is CVXOPT's own default order and ample for a 1e-5 relative comparison.
+ */
+export const CVXOPT_DESCENT_OPTIONS: Record<string, number> = { feastol: 1e-8, abstol: 1e-8, reltol: 1e-8 };
+
+export function cvxoptBackend(
+  stats: CvxoptBackendStats = { solves: 0, solverSeconds: 0 },
+  options: Record<string, number> = CVXOPT_DESCENT_OPTIONS,
+): ConicBackend & { stats: CvxoptBackendStats } {
   return {
     name: 'cvxopt',
     stats,
@@ -42,7 +52,7 @@ export function cvxoptBackend(stats: CvxoptBackendStats = { solves: 0, solverSec
           if (v.GValues) p.G.values.set(v.GValues);
         },
         solve(): ConicSolution {
-          const [r] = solveWithCvxopt([p]);
+          const [r] = solveWithCvxopt([p], options);
           stats.solves++;
           stats.solverSeconds += r.seconds ?? 0;
           const n = p.c.length;
