@@ -15,6 +15,7 @@
  *   glide slope ‖(r_k − r_land)_xy‖ ≤ (r_k − r_land)_z / tan γ, r_land = r_{N−1} − (0, 0, gate height)
  *   speed       ‖v_k‖ ≤ V_max;  altitude  r_z,k ≥ r_z,target + h_min
  *   boundary    r_0, v_0, z_0 = ln m0 fixed; r_{N−1} = target + gate height, v_{N−1} = (0, 0, −gate rate)
+ *   ZOH only    (u, σ)_{N−1} = (u, σ)_{N−2}: the last node reports the hold value of the last interval
  * Minimum propellant: maximise z_{N−1}. Minimum landing error (Blackmore 2010): the horizontal
  * landing position is free and ‖(r_{N−1} − target)_xy‖ ≤ e is minimised (with a tiny propellant tie-break).
  *
@@ -177,6 +178,15 @@ export class DescentProgram {
       }
     }
     const last = N - 1;
+    if (!foh) {
+      // Zero-order hold: the last node's control is the hold value of the last interval.
+      for (const f of [NODE.u, NODE.u + 1, NODE.u + 2, NODE.sigma]) {
+        const r = e.eqRow(1 / S.accel);
+        e.a(r, idx(last, f), 1);
+        e.a(r, idx(last - 1, f), -1);
+        e.b(r, 0);
+      }
+    }
     const gateTop: Vec3 = [d.target[0], d.target[1], d.target[2] + con.gateHeight];
     for (let i = kind === 'min-propellant' ? 0 : 2; i < 3; i++) {
       const r = e.eqRow(1 / S.length);
