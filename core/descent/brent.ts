@@ -30,7 +30,7 @@ export function brentMinimise(f: (x: number) => number, a: number, b: number, x:
     if (Math.abs(x - xm) <= tol2 - 0.5 * (b - a)) break;
     let useGolden = true;
     if (Math.abs(e) > tol1 && Number.isFinite(fx) && Number.isFinite(fw) && Number.isFinite(fv)) {
-      let r = (x - w) * (fx - fv);
+      const r = (x - w) * (fx - fv);
       let q = (x - v) * (fx - fw);
       let p = (x - v) * q - (x - w) * r;
       q = 2 * (q - r);
