@@ -127,6 +127,11 @@ export class FixedPatternProblem<D> {
   private readonly aSlot: Int32Array;
   private readonly gSlot: Int32Array;
   private readonly orthCount: number;
+  private readonly eqScale: Float64Array;
+  private readonly gScaleOrth: Float64Array;
+  private readonly gScaleSoc: Float64Array;
+  private readonly aTrip: Float64Array;
+  private readonly gTrip: Float64Array;
 
   constructor(
     readonly numVariables: number,
@@ -146,6 +151,11 @@ export class FixedPatternProblem<D> {
     const G = buildPattern(m, numVariables, st.gRows.map(resolve), st.gCols);
     this.aSlot = A.slot;
     this.gSlot = G.slot;
+    this.eqScale = Float64Array.from(st.eqScale);
+    this.gScaleOrth = Float64Array.from(st.gScaleOrth);
+    this.gScaleSoc = Float64Array.from(st.gScaleSoc);
+    this.aTrip = new Float64Array(A.slot.length);
+    this.gTrip = new Float64Array(G.slot.length);
     this.problem = {
       c: new Float64Array(numVariables),
       A: A.M,
@@ -157,15 +167,53 @@ export class FixedPatternProblem<D> {
     this.scatter(st);
   }
 
-  /** Recomputes every value for new data; the pattern must come out identical (checked). */
+  /** Recomputes every value for new data; the pattern must come out identical (checked by counts). */
   refresh(data: D): ProblemValues {
-    const st = freshState();
-    this.emit(makeEmitter(st, this.colScale), data);
-    if (st.aVals.length !== this.aSlot.length || st.gVals.length !== this.gSlot.length || st.gScaleOrth.length !== this.orthCount) {
+    const p = this.problem;
+    const l = this.orthCount;
+    const colScale = this.colScale;
+    const { eqScale, gScaleOrth, gScaleSoc, aTrip, gTrip, aSlot, gSlot } = this;
+    p.b.fill(0);
+    p.h.fill(0);
+    p.c.fill(0);
+    let ia = 0;
+    let ig = 0;
+    let nEq = 0;
+    let nOrth = 0;
+    let nSoc = 0;
+    const gScale = (r: GRow) => (r >= 0 ? gScaleOrth[r] : gScaleSoc[-1 - r]);
+    const e: Emitter = {
+      eqRow: () => nEq++,
+      orthRow: () => nOrth++,
+      soc(size) {
+        const first = nSoc;
+        nSoc += size;
+        return -1 - first;
+      },
+      a(row, col, value) {
+        aTrip[ia++] = value * eqScale[row] * colScale[col];
+      },
+      b(row, value) {
+        p.b[row] += value * eqScale[row];
+      },
+      g(row, col, value) {
+        gTrip[ig++] = value * gScale(row) * colScale[col];
+      },
+      h(row, value) {
+        p.h[row >= 0 ? row : l + (-1 - row)] += value * gScale(row);
+      },
+      c(col, value) {
+        p.c[col] += value * colScale[col];
+      },
+    };
+    this.emit(e, data);
+    if (ia !== aSlot.length || ig !== gSlot.length || nOrth !== l || nEq !== eqScale.length || nSoc !== gScaleSoc.length) {
       throw new Error('internal: problem pattern changed between refreshes');
     }
-    this.scatter(st);
-    const p = this.problem;
+    p.A.values.fill(0);
+    for (let k = 0; k < ia; k++) p.A.values[aSlot[k]] += aTrip[k];
+    p.G.values.fill(0);
+    for (let k = 0; k < ig; k++) p.G.values[gSlot[k]] += gTrip[k];
     return { c: p.c, b: p.b, h: p.h, AValues: p.A.values, GValues: p.G.values };
   }
 

@@ -71,3 +71,51 @@ export function brentMinimise(f: (x: number) => number, a: number, b: number, x:
   }
   return { x, fx, evaluations };
 }
+
+/**
+ * Bracketing from a feasible start: steps of `h` (growing by the golden ratio) downhill from x until
+ * the cost rises, is infeasible (+∞) or the bound is hit. Returns [a, b] holding the minimiser and the
+ * best point seen. With a warm start near the optimum this replaces shrinking the whole physical bracket.
+ */
+export function bracketFrom(
+  f: (x: number) => number, x: number, fx: number, h: number, lo: number, hi: number,
+): { a: number; b: number; x: number; fx: number } {
+  const GROW = 1.618033988749895;
+  const up = Math.min(hi, x + h);
+  const fUp = up > x ? f(up) : Infinity;
+  if (fUp < fx) {
+    let a = x;
+    let xb = up;
+    let fb = fUp;
+    let step = h;
+    while (xb < hi) {
+      step *= GROW;
+      const nx = Math.min(hi, xb + step);
+      const fn = f(nx);
+      if (!(fn < fb)) return { a, b: nx, x: xb, fx: fb };
+      a = xb;
+      xb = nx;
+      fb = fn;
+    }
+    return { a, b: hi, x: xb, fx: fb };
+  }
+  const down = Math.max(lo, x - h);
+  const fDown = down < x ? f(down) : Infinity;
+  if (fDown < fx) {
+    let b = x;
+    let xb = down;
+    let fb = fDown;
+    let step = h;
+    while (xb > lo) {
+      step *= GROW;
+      const nx = Math.max(lo, xb - step);
+      const fn = f(nx);
+      if (!(fn < fb)) return { a: nx, b, x: xb, fx: fb };
+      b = xb;
+      xb = nx;
+      fb = fn;
+    }
+    return { a: lo, b, x: xb, fx: fb };
+  }
+  return { a: down, b: up, x, fx };
+}

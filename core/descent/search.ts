@@ -4,7 +4,8 @@
  * 1. Bracket t_f from physics (bracket.ts).
  * 2. Find a feasible t_f: the warm-start guess (a neighbour's t_f) first, then probe points spread
  *    over the bracket. Each infeasible probe carries the solver's infeasibility certificate.
- * 3. Brent's method on propellant(t_f) from that point (infeasible = +∞, see brent.ts).
+ * 3. Bracket the minimum by steps downhill from that point, then Brent's method inside the bracket
+ *    (infeasible = +∞, see brent.ts).
  * If no probe is feasible, the minimum-landing-error problem (Blackmore et al. 2010) is searched the
  * same way over t_f; a zero miss means the probes stepped over a narrow feasible window, and the
  * minimum-propellant search restarts from that t_f; otherwise the target is unreachable and the result
@@ -15,7 +16,7 @@ import { isInfeasible, isSolved } from '../conic/types.ts';
 import type { Vec3 } from './constants.ts';
 import { timeOfFlightBracket } from './bracket.ts';
 import type { TimeBracket } from './bracket.ts';
-import { brentMinimise } from './brent.ts';
+import { bracketFrom, brentMinimise } from './brent.ts';
 import type { ProgramKind } from './program.ts';
 import type { IgnitionState } from './setup.ts';
 import type { DescentSolver, FixedTimeSolve } from './solver.ts';
@@ -25,7 +26,7 @@ import { decodeTrajectory } from './trajectory.ts';
 export interface SearchOptions {
   /** Warm start: a neighbour's optimal t_f, s. */
   tfGuess?: number;
-  /** Absolute tolerance on t_f, s. Default 0.05. */
+  /** Absolute tolerance on t_f, s. Default 0.1 (the propellant is flat in t_f near the optimum). */
   tfTolerance?: number;
   /** Probe times as multiples of the bracket's lower bound, tried when the guess is infeasible. */
   probes?: readonly number[];
@@ -36,6 +37,9 @@ export interface SearchOptions {
   /** Decode the trajectory of the result (default true). */
   decode?: boolean;
 }
+
+/** First step of the local bracketing, as a fraction of the starting t_f. */
+const LOCAL_STEP_FRACTION = 0.03;
 
 export type DescentStatus = 'solved' | 'unreachable' | 'solver-failure';
 
@@ -121,14 +125,23 @@ function runPhase(
     if (tf < x0 && tf > lo) lo = tf;
     if (tf > x0 && tf < hi) hi = tf;
   }
-  const res = brentMinimise((tf) => cost(evalAt(tf)), lo, hi, x0, cost(start), tol, Math.max(0, budget()), stopBelow);
+  const f = (tf: number) => cost(evalAt(tf));
+  let res: { x: number };
+  if (cost(start) <= stopBelow) {
+    res = { x: x0 };
+  } else {
+    // Local bracket around the (often warm-started) feasible point, then Brent inside it.
+    const step = Math.max(4 * tol, LOCAL_STEP_FRACTION * x0);
+    const br = bracketFrom(f, x0, cost(start), step, lo, hi);
+    res = brentMinimise(f, br.a, br.b, br.x, br.fx, tol, Math.max(0, budget()), stopBelow);
+  }
   const best = cache.get(res.x) ?? start;
   return { best, statuses, failures, infeasibleTimes, solvedTimes: [...cache.values()].filter((r) => isSolved(r.status)) };
 }
 
 export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignition: IgnitionState, options: SearchOptions = {}): DescentResult {
   const br = options.bracket ?? timeOfFlightBracket(solver.setup, ignition, target);
-  const tol = options.tfTolerance ?? 0.05;
+  const tol = options.tfTolerance ?? 0.1;
   const maxSolves = options.maxSolves ?? 60;
   const startSolves = solver.solves;
   const budget = () => maxSolves - (solver.solves - startSolves);
