@@ -13,3 +13,4 @@ export { searchFreeFinalTime, DEFAULT_PROBES, type DescentResult, type DescentSt
 export { decodeTrajectory, LOSSLESS_TOLERANCE, type DecodedTrajectory, type TrajectorySeries, type TrajectoryDiagnostics } from './trajectory.ts';
 export { polynomialGuidance, flyPolynomial, type BaselineResult } from './baselines/polynomial.ts';
 export { gravityTurn, type GravityTurnResult } from './baselines/gravityTurn.ts';
+export { discretisationCheck, type DiscretisationCheck } from './refine.ts';

@@ -105,7 +105,8 @@ export const TargetSchema = z.strictObject({
   z_m: finite('metres').default(0),
 });
 
-export const StudySchema = z.strictObject({
+export const StudySchema = z
+  .strictObject({
   format: z.literal(STUDY_FORMAT, { error: `must be "${STUDY_FORMAT}"` }),
   version: z.literal(STUDY_VERSION, { error: `must be ${STUDY_VERSION} (this program reads study format version ${STUDY_VERSION})` }),
   name: z.string().min(1, { error: 'must be a non-empty name' }),
@@ -118,7 +119,17 @@ export const StudySchema = z.strictObject({
   discretisation: DiscretisationSchema.prefault({}),
   /** Default target for single-trajectory runs; the nominal target (0, 0, 0) if absent. */
   target: TargetSchema.prefault({ x_m: 0, y_m: 0 }),
-});
+  })
+  .superRefine((s, ctx) => {
+    const m = s.ignition.mass_kg;
+    const v = s.vehicle;
+    if (m !== undefined && (m > v.wetMass_kg || m <= v.dryMass_kg + v.propellantReserve_kg)) {
+      ctx.addIssue({
+        code: 'custom', path: ['ignition', 'mass_kg'], input: m,
+        message: `must be at most vehicle.wetMass_kg (${v.wetMass_kg}) and above dry mass plus reserve (${v.dryMass_kg + v.propellantReserve_kg}); leave it out to start with the wet mass`,
+      });
+    }
+  });
 
 export type Study = z.output<typeof StudySchema>;
 export type StudyInput = z.input<typeof StudySchema>;

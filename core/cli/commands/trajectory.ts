@@ -13,6 +13,7 @@ import { DescentSolver } from '../../descent/solver.ts';
 import { searchFreeFinalTime } from '../../descent/search.ts';
 import type { DescentResult } from '../../descent/search.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
+import { discretisationCheck } from '../../descent/refine.ts';
 import type { Vec3 } from '../../descent/constants.ts';
 
 export const CAUTION =
@@ -205,12 +206,8 @@ export const trajectoryCommand: CliCommand = {
       throw err;
     }
     const r = searchFreeFinalTime(solver, target, d.ignition);
-    let refine: { nodes: number; propellant: number } | null = null;
-    if (o.refine && r.status === 'solved') {
-      const fine = new DescentSolver({ ...d.setup, nodes: 2 * d.setup.nodes - 1 }, landreachConicBackend(), d.ignition);
-      const rr = searchFreeFinalTime(fine, target, d.ignition, { tfGuess: r.timeOfFlight, decode: false });
-      if (rr.status === 'solved') refine = { nodes: fine.setup.nodes, propellant: rr.propellant };
-    }
+    const check = o.refine ? discretisationCheck(d.setup, landreachConicBackend(), d.ignition, target, r) : null;
+    const refine = check ? { nodes: check.nodes, propellant: check.propellant } : null;
     const files: { path: string; text: string }[] = [];
     if (o.json) files.push({ path: o.json, text: JSON.stringify(resultToJson(study, r, d.setup.nodes, refine), null, 1) + '\n' });
     if (o.csv) files.push({ path: o.csv, text: seriesToCsv(r) });

@@ -66,3 +66,11 @@ describe('study file', () => {
     expect(() => parseStudyText('{ nope')).toThrow(/JSON/);
   });
 });
+
+describe('study cross-field checks', () => {
+  it('rejects an ignition mass above the wet mass, naming ignition.mass_kg', () => {
+    const p = problemsOf({ ...demo, ignition: { ...demo.ignition, mass_kg: 2500 } });
+    expect(p[0]).toMatchObject({ field: 'ignition.mass_kg', value: '2500' });
+    expect(p[0].message).toMatch(/at most vehicle.wetMass_kg \(2100\)/);
+  });
+});
