@@ -2,12 +2,13 @@
  * Free-final-time search for one target.
  *
  * 1. Bracket t_f from physics (bracket.ts).
- * 2. Find a feasible t_f: the warm-start guess (a neighbour's t_f) first, then probe points spread
- *    over the bracket. Each infeasible probe carries the solver's infeasibility certificate.
+ * 2. Find a feasible t_f: the warm-start guess (a neighbour's t_f) first, then a few probe points.
+ *    Each infeasible probe carries the solver's infeasibility certificate.
  * 3. Bracket the minimum by steps downhill from that point, then Brent's method inside the bracket
  *    (infeasible = +∞, see brent.ts).
- * If no probe is feasible, the minimum-landing-error problem (Blackmore et al. 2010) is searched the
- * same way over t_f; a zero miss means the probes stepped over a narrow feasible window, and the
+ * If no probe is feasible, the minimum-landing-error problem (Blackmore et al. 2010), feasible over a much
+ * wider range of t_f, is searched the same way; a zero miss means the probes stepped over a narrow
+ * feasible window, and the
  * minimum-propellant search restarts from that t_f; otherwise the target is unreachable and the result
  * carries the closest reachable landing point and the miss distance.
  */
@@ -30,6 +31,9 @@ export interface SearchOptions {
   tfTolerance?: number;
   /** Probe times as multiples of the bracket's lower bound, tried when the guess is infeasible. */
   probes?: readonly number[];
+  /** How many of the start times the minimum-propellant problem tries before the minimum-landing-error
+   * search takes over to locate the feasible window (or prove the target unreachable). Default 3. */
+  propellantProbes?: number;
   /** Cap on solves per target (all phases). Default 60. */
   maxSolves?: number;
   /** Override the physical bracket. */
@@ -166,7 +170,7 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
     });
   };
 
-  const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts, tol, budget);
+  const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts.slice(0, options.propellantProbes ?? 3), tol, budget);
   if (fuel.best) return finish(fuel.best, fuel, { status: 'solved' });
 
   const missTolerance = 1e-6 * solver.scales.length + 1e-3;
