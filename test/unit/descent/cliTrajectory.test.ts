@@ -49,6 +49,21 @@ describe('landreach trajectory', () => {
     expect(existsSync(join(dir, 'out.json'))).toBe(false);
   });
 
+  it('reports an unreachable target with the closest reachable point and the miss', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'lr-traj-'));
+    const { io, out } = fakeIo();
+    const code = await main(['trajectory', demoPath, '--target', '12000,0', '--json', join(dir, 'r.json')], io);
+    expect(code).toBe(0);
+    expect(out.join('')).toMatch(/status\s+unreachable/);
+    const json = JSON.parse(readFileSync(join(dir, 'r.json'), 'utf8'));
+    expect(json.status).toBe('unreachable');
+    expect(json.problem).toBe('min-landing-error');
+    expect(json.miss_m).toBeGreaterThan(100);
+    expect(json.closest_point_m[0]).toBeGreaterThan(5000);
+    expect(json.infeasibility_certificates.length).toBeGreaterThan(0);
+    expect(json.discretisation_check).toBeNull();
+  });
+
   it('rejects a bad --target and a missing file', async () => {
     const a = fakeIo();
     expect(await main(['trajectory', demoPath, '--target', '12'], a.io)).toBe(2);
