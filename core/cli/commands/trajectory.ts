@@ -1,0 +1,218 @@
+/**
+ * `landreach trajectory STUDY.json [--target x,y[,z]] [--json out.json] [--csv out.csv] [--no-refine]`
+ *
+ * Minimum-propellant trajectory to one target: prints a short summary and writes the full time series.
+ * Output files are written whole or not at all (temporary file + rename).
+ */
+import { readFileSync, renameSync, unlinkSync, writeFileSync } from 'node:fs';
+import type { CliCommand, CliIo } from '../command.ts';
+import { UsageError } from '../command.ts';
+import { parseStudyText, StudyError, studyToDescent } from '../../study/index.ts';
+import type { Study } from '../../study/index.ts';
+import { DescentSolver } from '../../descent/solver.ts';
+import { searchFreeFinalTime } from '../../descent/search.ts';
+import type { DescentResult } from '../../descent/search.ts';
+import { landreachConicBackend } from '../../descent/conicBackend.ts';
+import { discretisationCheck } from '../../descent/refine.ts';
+import type { Vec3 } from '../../descent/constants.ts';
+
+export const CAUTION =
+  'Preliminary design and trade studies only; not flight software. Verify with high-fidelity simulation and your organisation\'s assurance process.';
+
+const USAGE = `Usage: landreach trajectory STUDY.json [options]
+
+Solves the minimum-propellant powered descent (lossless convexification, free final time) from the
+study's ignition state to one target, prints a summary and optionally writes the full time series.
+
+Options:
+  --target X,Y[,Z]   target in metres east, north (and up) of the nominal target (default: the study's)
+  --json FILE        write the full result as JSON (status, propellant_kg, tf_s, series, ...)
+  --csv FILE         write the time series as CSV (one row per node)
+  --no-refine        skip the discretisation check (the same target solved again with 2N nodes)
+
+Exit codes: 0 solved or unreachable (see "status"), 1 solver failure, 2 bad usage or bad study file.
+
+${CAUTION}`;
+
+interface Options {
+  study: string;
+  target: Vec3 | null;
+  json: string | null;
+  csv: string | null;
+  refine: boolean;
+}
+
+function parseArgs(args: string[]): Options {
+  const o: Options = { study: '', target: null, json: null, csv: null, refine: true };
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i];
+    const value = () => {
+      const v = args[++i];
+      if (v === undefined || v.startsWith('--')) throw new UsageError(`${a} needs a value (see landreach trajectory --help)`);
+      return v;
+    };
+    if (a === '--target') {
+      const text = value();
+      const parts = text.split(',').map((s) => Number(s.trim()));
+      if ((parts.length !== 2 && parts.length !== 3) || !parts.every(Number.isFinite)) {
+        throw new UsageError(`--target: '${text}' (must be X,Y or X,Y,Z in metres, e.g. --target 250,-100)`);
+      }
+      o.target = [parts[0], parts[1], parts[2] ?? 0];
+    } else if (a === '--json') o.json = value();
+    else if (a === '--csv') o.csv = value();
+    else if (a === '--no-refine') o.refine = false;
+    else if (a.startsWith('--')) throw new UsageError(`unknown option '${a}' (see landreach trajectory --help)`);
+    else if (!o.study) o.study = a;
+    else throw new UsageError(`unexpected argument '${a}': give one study file`);
+  }
+  if (!o.study) throw new UsageError('missing STUDY.json (usage: landreach trajectory STUDY.json [--target x,y] [--json out.json] [--csv out.csv])');
+  return o;
+}
+
+function readStudy(path: string): Study {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (err) {
+    throw new UsageError(`cannot read study file '${path}': ${(err as NodeJS.ErrnoException).code ?? (err as Error).message} (check the path)`);
+  }
+  try {
+    return parseStudyText(text, path);
+  } catch (err) {
+    if (err instanceof StudyError) throw new UsageError(err.message);
+    throw err;
+  }
+}
+
+/** Writes all files, each through a temporary file and a rename, so none is ever half-written. */
+export function writeFilesAtomically(files: { path: string; text: string }[]): void {
+  const temps: { tmp: string; path: string }[] = [];
+  try {
+    for (const f of files) {
+      const tmp = `${f.path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`;
+      writeFileSync(tmp, f.text, { flag: 'wx' });
+      temps.push({ tmp, path: f.path });
+    }
+    for (const t of temps) renameSync(t.tmp, t.path);
+  } catch (err) {
+    for (const t of temps) {
+      try {
+        unlinkSync(t.tmp);
+      } catch {
+        // already renamed or never written
+      }
+    }
+    throw new UsageError(`cannot write output: ${(err as Error).message} (check the folder exists and is writable)`);
+  }
+}
+
+const round = (v: number, digits = 6) => (Number.isFinite(v) ? Number(v.toPrecision(digits + 3)) : null);
+const deg = (rad: number) => (rad * 180) / Math.PI;
+
+export function resultToJson(study: Study, r: DescentResult, nodes: number, refine: { nodes: number; propellant: number } | null) {
+  const t = r.trajectory;
+  const s = t?.series;
+  const arr = (a: Float64Array | undefined, f: (v: number) => number = (v) => v) => (a ? Array.from(a, (v) => round(f(v))) : []);
+  return {
+    format: 'landreach-trajectory',
+    version: 1,
+    caution: CAUTION,
+    study: study.name,
+    status: r.status,
+    problem: r.kind,
+    propellant_kg: round(r.propellant),
+    tf_s: round(r.timeOfFlight),
+    nodes,
+    solves: r.solves,
+    target_m: r.target,
+    closest_point_m: r.closestPoint,
+    miss_m: round(r.miss),
+    tf_bracket_s: [round(r.bracket.lower), round(r.bracket.upper)],
+    infeasibility_certificates: r.infeasibleStatuses,
+    losslessness_gap_mps2: t ? round(t.diagnostics.losslessnessGap) : null,
+    losslessness_gap_relative: t ? round(t.diagnostics.losslessnessGapRelative) : null,
+    lossless: t ? t.diagnostics.lossless : null,
+    margins: t
+      ? {
+          max_tilt_deg: round(deg(t.diagnostics.maxTilt)),
+          min_throttle: round(t.diagnostics.minThrottle),
+          max_throttle: round(t.diagnostics.maxThrottle),
+          max_speed_mps: round(t.diagnostics.maxSpeed),
+          glide_slope_margin_deg: round(deg(t.diagnostics.glideSlopeMargin)),
+          altitude_margin_m: round(t.diagnostics.altitudeMargin),
+          speed_margin_mps: round(t.diagnostics.speedMargin),
+        }
+      : null,
+    discretisation_check: refine
+      ? { nodes: refine.nodes, propellant_kg: round(refine.propellant), difference_kg: round(r.propellant - refine.propellant) }
+      : null,
+    warnings: r.warnings,
+    series: {
+      t_s: arr(s?.t), x_m: arr(s?.x), y_m: arr(s?.y), z_m: arr(s?.z),
+      vx_mps: arr(s?.vx), vy_mps: arr(s?.vy), vz_mps: arr(s?.vz), mass_kg: arr(s?.mass),
+      thrust_x_N: arr(s?.thrustX), thrust_y_N: arr(s?.thrustY), thrust_z_N: arr(s?.thrustZ),
+      throttle: arr(s?.throttle), tilt_deg: arr(s?.tilt, deg), mass_flow_kgps: arr(s?.massFlow),
+    },
+  };
+}
+
+export function seriesToCsv(r: DescentResult): string {
+  const s = r.trajectory?.series;
+  const head = 't_s,x_m,y_m,z_m,vx_mps,vy_mps,vz_mps,mass_kg,thrust_x_N,thrust_y_N,thrust_z_N,throttle,tilt_deg,mass_flow_kgps';
+  const lines = [`# ${CAUTION}`, head];
+  if (s) {
+    for (let k = 0; k < s.t.length; k++) {
+      lines.push([s.t[k], s.x[k], s.y[k], s.z[k], s.vx[k], s.vy[k], s.vz[k], s.mass[k], s.thrustX[k], s.thrustY[k], s.thrustZ[k], s.throttle[k], deg(s.tilt[k]), s.massFlow[k]]
+        .map((v) => String(round(v))).join(','));
+    }
+  }
+  return lines.join('\n') + '\n';
+}
+
+function summary(r: DescentResult, refine: { nodes: number; propellant: number } | null, nodes: number): string {
+  const f = (v: number, d = 2) => (Number.isFinite(v) ? v.toFixed(d) : '—');
+  const lines = [`status            ${r.status}`];
+  if (r.status === 'unreachable' && r.closestPoint) {
+    lines.push(`closest point     ${f(r.closestPoint[0], 1)} m E, ${f(r.closestPoint[1], 1)} m N (miss ${f(r.miss, 1)} m)`);
+  }
+  lines.push(`propellant        ${f(r.propellant)} kg${r.status === 'unreachable' ? ' (minimum-landing-error trajectory)' : ''}`);
+  lines.push(`time of flight    ${f(r.timeOfFlight)} s  (bracket ${f(r.bracket.lower, 1)}–${f(r.bracket.upper, 1)} s)`);
+  if (r.trajectory) {
+    const d = r.trajectory.diagnostics;
+    lines.push(`max tilt          ${f(deg(d.maxTilt), 1)}°`);
+    lines.push(`losslessness gap  ${d.losslessnessGap.toExponential(2)} m/s² (${d.lossless ? 'lossless' : 'NOT lossless'})`);
+  }
+  lines.push(`nodes, solves     ${nodes}, ${r.solves}`);
+  if (refine) lines.push(`with ${refine.nodes} nodes     ${f(refine.propellant, 3)} kg (difference ${f(r.propellant - refine.propellant, 3)} kg)`);
+  for (const w of r.warnings) lines.push(`warning: ${w}`);
+  lines.push('', CAUTION, '');
+  return lines.join('\n');
+}
+
+export const trajectoryCommand: CliCommand = {
+  name: 'trajectory',
+  summary: 'minimum-propellant trajectory to one target (summary, JSON, CSV)',
+  usage: USAGE,
+  async run(args: string[], io: CliIo): Promise<number> {
+    const o = parseArgs(args);
+    const study = readStudy(o.study);
+    const d = studyToDescent(study);
+    const target = o.target ?? d.target;
+    let solver: DescentSolver;
+    try {
+      solver = new DescentSolver(d.setup, landreachConicBackend(), d.ignition);
+    } catch (err) {
+      if (err instanceof RangeError) throw new UsageError(`${o.study}: ${err.message}`);
+      throw err;
+    }
+    const r = searchFreeFinalTime(solver, target, d.ignition);
+    const check = o.refine ? discretisationCheck(d.setup, landreachConicBackend(), d.ignition, target, r) : null;
+    const refine = check ? { nodes: check.nodes, propellant: check.propellant } : null;
+    const files: { path: string; text: string }[] = [];
+    if (o.json) files.push({ path: o.json, text: JSON.stringify(resultToJson(study, r, d.setup.nodes, refine), null, 1) + '\n' });
+    if (o.csv) files.push({ path: o.csv, text: seriesToCsv(r) });
+    if (files.length) writeFilesAtomically(files);
+    io.stdout(summary(r, refine, d.setup.nodes));
+    return r.status === 'solver-failure' ? 1 : 0;
+  },
+};

@@ -1,0 +1,77 @@
+/**
+ * One descent solver per setup: it keeps one solver session per problem kind, opened once, and
+ * re-solves it with new values for each time of flight, target and ignition state.
+ */
+import type { ConicSolution, SolveStatus } from '../conic/types.ts';
+import type { ConicBackend, ConicSession } from './backend.ts';
+import type { Vec3 } from './constants.ts';
+import type { ProgramData, ProgramKind, ProgramScales } from './program.ts';
+import { DescentProgram, chooseScales, NODE } from './program.ts';
+import type { DescentSetup, IgnitionState } from './setup.ts';
+import { validateIgnition, validateSetup } from './setup.ts';
+
+export interface FixedTimeSolve {
+  kind: ProgramKind;
+  timeOfFlight: number;
+  status: SolveStatus;
+  /** Propellant used, kg (NaN unless solved). */
+  propellant: number;
+  /** Horizontal miss from the target, m (minimum-landing-error problems; NaN otherwise or unless solved). */
+  miss: number;
+  solution: ConicSolution;
+}
+
+export class DescentSolver {
+  readonly scales: ProgramScales;
+  private readonly programs = new Map<ProgramKind, { program: DescentProgram; session: ConicSession }>();
+  /** Number of conic solves so far. */
+  solves = 0;
+
+  constructor(
+    readonly setup: DescentSetup,
+    readonly backend: ConicBackend,
+    nominalIgnition: IgnitionState,
+  ) {
+    validateSetup(setup);
+    validateIgnition(nominalIgnition, setup);
+    this.nominal = nominalIgnition;
+    this.scales = chooseScales(setup, Math.hypot(...nominalIgnition.position));
+  }
+
+  private readonly nominal: IgnitionState;
+
+  program(kind: ProgramKind): DescentProgram {
+    return this.entry(kind, { timeOfFlight: 60, target: [0, 0, 0], ignition: this.nominal }).program;
+  }
+
+  private entry(kind: ProgramKind, data: ProgramData) {
+    let e = this.programs.get(kind);
+    if (!e) {
+      const program = new DescentProgram(this.setup, kind, data, this.scales);
+      e = { program, session: this.backend.open(program.problem) };
+      this.programs.set(kind, e);
+    }
+    return e;
+  }
+
+  /** Solves one fixed-final-time problem. */
+  solveFixed(kind: ProgramKind, timeOfFlight: number, target: Vec3, ignition: IgnitionState): FixedTimeSolve {
+    const data: ProgramData = { timeOfFlight, target, ignition };
+    const e = this.entry(kind, data);
+    e.session.update(e.program.update(data));
+    const solution = e.session.solve();
+    this.solves++;
+    let propellant = NaN;
+    let miss = NaN;
+    if (solution.status === 'solved' || solution.status === 'almost-solved') {
+      const N = this.setup.nodes;
+      const zf = e.program.value(solution.x, (N - 1) * NODE.size + NODE.z);
+      propellant = ignition.mass - Math.exp(zf);
+      if (kind === 'min-landing-error') {
+        const o = (N - 1) * NODE.size + NODE.r;
+        miss = Math.hypot(e.program.value(solution.x, o) - target[0], e.program.value(solution.x, o + 1) - target[1]);
+      }
+    }
+    return { kind, timeOfFlight, status: solution.status, propellant, miss, solution };
+  }
+}

@@ -1,0 +1,84 @@
+/**
+ * Vehicle model: engines, throttle range, mass and the derived quantities of the convex problem.
+ *
+ * Each of `engineCount` engines produces `thrustPerEngine` at full throttle along its own axis,
+ * canted by φ from the vehicle thrust axis. Lateral components cancel, so the useful (net) thrust
+ * magnitude is ‖T‖ = n T_e cos φ · throttle, while every engine still burns propellant for its full
+ * thrust: ṁ = −n T_e · throttle / (Isp g0) = −‖T‖ / (Isp g0 cos φ).
+ * Hence (Açıkmeşe & Ploen 2007, JGCD 30(5), eq. for α):
+ *   α  = 1 / (Isp g0 cos φ)                     [s/m]  ṁ = −α ‖T‖
+ *   ρ1 = n T_e cos φ · throttleMin,  ρ2 = n T_e cos φ · throttleMax   [N]  ρ1 ≤ ‖T‖ ≤ ρ2
+ */
+import { DEG, G0 } from './constants.ts';
+
+export interface VehicleModel {
+  /** Mass at ignition with all propellant, kg. */
+  readonly wetMass: number;
+  /** Mass with no usable propellant left (the propellant reserve may be added here), kg. */
+  readonly dryMass: number;
+  /** Specific impulse, s. */
+  readonly isp: number;
+  /** Number of identical engines. */
+  readonly engineCount: number;
+  /** Full-throttle thrust of one engine along its own axis, N. */
+  readonly thrustPerEngine: number;
+  /** Cant angle of each engine from the vehicle thrust axis, rad. */
+  readonly cantAngle: number;
+  /** Throttle fraction range, 0 ≤ min < max ≤ 1. */
+  readonly throttleMin: number;
+  readonly throttleMax: number;
+  /** Largest thrust tilt from vertical, rad (π or more: unconstrained). */
+  readonly pointingLimit: number;
+}
+
+export interface VehicleDerived {
+  /** Mass-flow constant α, s/m: ṁ = −α ‖T‖. */
+  readonly alpha: number;
+  /** Smallest and largest net thrust magnitude, N. */
+  readonly rho1: number;
+  readonly rho2: number;
+  /** Net thrust at full throttle, N (n T_e cos φ). */
+  readonly fullThrust: number;
+}
+
+export function deriveVehicle(v: VehicleModel): VehicleDerived {
+  const c = Math.cos(v.cantAngle);
+  const fullThrust = v.engineCount * v.thrustPerEngine * c;
+  return {
+    alpha: 1 / (v.isp * G0 * c),
+    rho1: fullThrust * v.throttleMin,
+    rho2: fullThrust * v.throttleMax,
+    fullThrust,
+  };
+}
+
+function positive(field: string, value: number, unit: string): void {
+  if (!Number.isFinite(value) || value <= 0) {
+    throw new RangeError(`vehicle.${field}: ${value} (must be a positive number of ${unit})`);
+  }
+}
+
+/** Checks a vehicle model; throws RangeError naming the field, the value and the fix. */
+export function validateVehicle(v: VehicleModel): void {
+  positive('wetMass', v.wetMass, 'kg');
+  positive('dryMass', v.dryMass, 'kg');
+  positive('isp', v.isp, 's');
+  positive('thrustPerEngine', v.thrustPerEngine, 'N');
+  if (!(v.dryMass < v.wetMass)) {
+    throw new RangeError(`vehicle.dryMass: ${v.dryMass} kg (must be below the wet mass ${v.wetMass} kg)`);
+  }
+  if (!Number.isInteger(v.engineCount) || v.engineCount < 1) {
+    throw new RangeError(`vehicle.engineCount: ${v.engineCount} (must be a whole number ≥ 1)`);
+  }
+  if (!(v.cantAngle >= 0 && v.cantAngle < 80 * DEG)) {
+    throw new RangeError(`vehicle.cantAngle: ${v.cantAngle / DEG}° (must be in [0°, 80°))`);
+  }
+  if (!(v.throttleMin >= 0 && v.throttleMin < v.throttleMax && v.throttleMax <= 1)) {
+    throw new RangeError(
+      `vehicle throttle range: [${v.throttleMin}, ${v.throttleMax}] (need 0 ≤ throttleMin < throttleMax ≤ 1)`,
+    );
+  }
+  if (!(v.pointingLimit > 0)) {
+    throw new RangeError(`vehicle.pointingLimit: ${v.pointingLimit / DEG}° (must be positive; 180° leaves the thrust direction free)`);
+  }
+}

@@ -1,0 +1,4 @@
+export * from './schema.ts';
+export * from './load.ts';
+export * from './toDescent.ts';
+export { studyJsonSchema } from './jsonSchema.ts';

@@ -1,0 +1,102 @@
+/**
+ * Descent benchmark: free-final-time solves for a grid of targets around the demo study's nominal
+ * target, warm-started from the neighbour's t_f as a footprint run would, with our solver and with
+ * CVXOPT (conelp through the test bridge) running the very same search on a few of the targets.
+ * Target (issue 3): one free-final-time target solve under 20 ms at N = 50.
+ */
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { parseStudyText, studyToDescent } from '../../core/study/index.ts';
+import { DescentSolver } from '../../core/descent/solver.ts';
+import { searchFreeFinalTime } from '../../core/descent/search.ts';
+import { landreachConicBackend } from '../../core/descent/conicBackend.ts';
+import { DescentProgram } from '../../core/descent/program.ts';
+import type { Vec3 } from '../../core/descent/constants.ts';
+import { cvxoptAvailable } from '../reference/cvxopt.ts';
+import { cvxoptBackend } from '../reference/descent/cvxoptBackend.ts';
+
+const DEMO = fileURLToPath(new URL('../../assets/demo/demo-lander.study.json', import.meta.url));
+
+function targets(n: number, spacing: number): Vec3[] {
+  // Row-major grid visited in a serpentine so every target has a solved neighbour before it.
+  const out: Vec3[] = [];
+  const h = (n - 1) / 2;
+  for (let j = 0; j < n; j++) {
+    for (let i = 0; i < n; i++) {
+      const ii = j % 2 === 0 ? i : n - 1 - i;
+      out.push([(ii - h) * spacing, (j - h) * spacing, 0]);
+    }
+  }
+  return out;
+}
+
+export async function benchDescent(): Promise<Record<string, number>> {
+  const d = studyToDescent(parseStudyText(readFileSync(DEMO, 'utf8')));
+  const setup = { ...d.setup, nodes: 50 };
+  const grid = targets(5, 300);
+  const ours = new DescentSolver(setup, landreachConicBackend(), d.ignition);
+  // Warm-up (JIT) on the nominal target.
+  searchFreeFinalTime(ours, [0, 0, 0], d.ignition, { decode: false });
+  let tfGuess: number | undefined;
+  const solvesBefore = ours.solves;
+  let solved = 0;
+  const t0 = performance.now();
+  for (const t of grid) {
+    const r = searchFreeFinalTime(ours, t, d.ignition, { tfGuess, decode: false });
+    if (r.status === 'solved') {
+      tfGuess = r.timeOfFlight;
+      solved++;
+    }
+  }
+  const oursMs = performance.now() - t0;
+  const oursSolves = ours.solves - solvesBefore;
+
+  // Problem refresh alone (values for a new t_f and target, pattern kept).
+  const prog = new DescentProgram(setup, 'min-propellant', { timeOfFlight: 40, target: [0, 0, 0], ignition: d.ignition });
+  const reps = 2000;
+  const t1 = performance.now();
+  for (let k = 0; k < reps; k++) prog.update({ timeOfFlight: 30 + (k % 20), target: [k, -k, 0], ignition: d.ignition });
+  const refreshUs = ((performance.now() - t1) / reps) * 1000;
+
+  const out: Record<string, number> = {
+    'descent.targets': grid.length,
+    'descent.solvedTargets': solved,
+    'descent.msPerTarget': oursMs / grid.length,
+    'descent.solvesPerTarget': oursSolves / grid.length,
+    'descent.msPerSolve': oursMs / oursSolves,
+    'descent.refreshUsPerSolve': refreshUs,
+  };
+
+  if (cvxoptAvailable()) {
+    const sub = grid.slice(0, 3);
+    const be = cvxoptBackend();
+    const ref = new DescentSolver(setup, be, d.ignition);
+    const ourSub = new DescentSolver(setup, landreachConicBackend(), d.ignition);
+    let guessRef: number | undefined;
+    let guessOurs: number | undefined;
+    const t2 = performance.now();
+    for (const t of sub) {
+      const r = searchFreeFinalTime(ref, t, d.ignition, { tfGuess: guessRef, decode: false });
+      if (r.status === 'solved') guessRef = r.timeOfFlight;
+    }
+    const refWallMs = performance.now() - t2;
+    const t3 = performance.now();
+    for (const t of sub) {
+      const r = searchFreeFinalTime(ourSub, t, d.ignition, { tfGuess: guessOurs, decode: false });
+      if (r.status === 'solved') guessOurs = r.timeOfFlight;
+    }
+    const oursSubMs = performance.now() - t3;
+    out['descent.cvxopt.msPerTarget'] = (be.stats.solverSeconds * 1000) / sub.length;
+    out['descent.cvxopt.wallMsPerTarget'] = refWallMs / sub.length;
+    out['descent.cvxopt.solvesPerTarget'] = be.stats.solves / sub.length;
+    // > 1 means ours is faster; CVXOPT time counts only conelp itself (process start-up excluded).
+    out['descent.speedupVsCvxopt'] = (be.stats.solverSeconds * 1000) / oursSubMs;
+  }
+  return out;
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  benchDescent().then((r) => {
+    for (const [k, v] of Object.entries(r)) console.log(`${k.padEnd(34)} ${v.toPrecision(4)}`);
+  });
+}

@@ -1,0 +1,52 @@
+import { describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { DescentSolver } from '../../../core/descent/solver.ts';
+import { searchFreeFinalTime } from '../../../core/descent/search.ts';
+import { timeOfFlightBracket } from '../../../core/descent/bracket.ts';
+import { brentMinimise } from '../../../core/descent/brent.ts';
+import { landreachConicBackend } from '../../../core/descent/conicBackend.ts';
+import { parseStudyText, studyToDescent } from '../../../core/study/index.ts';
+
+const d = studyToDescent(parseStudyText(readFileSync(fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json', import.meta.url)), 'utf8')));
+
+describe('Brent minimisation with infeasible (+∞) regions', () => {
+  it('finds the minimum of a parabola that is only defined on an interval', () => {
+    const f = (x: number) => (x < 2 || x > 9 ? Infinity : (x - 6.3) ** 2 + 1);
+    const r = brentMinimise(f, 0, 20, 8.5, f(8.5), 1e-6, 100);
+    expect(r.x).toBeCloseTo(6.3, 5);
+    expect(r.evaluations).toBeLessThan(40);
+  });
+});
+
+describe('free-final-time search', () => {
+  it('the optimum lies inside the physical bracket, and a warm start reaches it with fewer solves', () => {
+    const target: [number, number, number] = [200, 100, 0];
+    const br = timeOfFlightBracket(d.setup, d.ignition, target);
+    const cold = searchFreeFinalTime(new DescentSolver(d.setup, landreachConicBackend(), d.ignition), target, d.ignition, { decode: false });
+    expect(cold.status).toBe('solved');
+    expect(cold.timeOfFlight).toBeGreaterThan(br.lower);
+    expect(cold.timeOfFlight).toBeLessThan(br.upper);
+    const warm = searchFreeFinalTime(new DescentSolver(d.setup, landreachConicBackend(), d.ignition), target, d.ignition, { tfGuess: cold.timeOfFlight + 1.5, decode: false });
+    expect(warm.status).toBe('solved');
+    expect(warm.solves).toBeLessThan(cold.solves);
+    // Same optimum (the propellant is flat in t_f near it: agreement to 0.01 kg).
+    expect(Math.abs(warm.propellant - cold.propellant)).toBeLessThan(0.01);
+    // Nothing cheaper nearby: probe ±1 s around the optimum directly.
+    const s = new DescentSolver(d.setup, landreachConicBackend(), d.ignition);
+    for (const dt of [-1, 1]) {
+      const r = s.solveFixed('min-propellant', cold.timeOfFlight + dt, target, d.ignition);
+      expect(r.propellant).toBeGreaterThan(cold.propellant - 1e-6);
+    }
+  });
+
+  it('a far target is unreachable: certificates, closest point toward the target, positive miss', () => {
+    const target: [number, number, number] = [12000, 0, 0]; // 10.7 km is about the demo's limit downrange
+    const r = searchFreeFinalTime(new DescentSolver(d.setup, landreachConicBackend(), d.ignition), target, d.ignition);
+    expect(r.status).toBe('unreachable');
+    expect(r.infeasibleStatuses.length).toBeGreaterThan(0);
+    expect(r.miss).toBeGreaterThan(100);
+    expect(r.closestPoint![0]).toBeGreaterThan(0);
+    expect(Math.hypot(r.closestPoint![0] - target[0], r.closestPoint![1] - target[1])).toBeCloseTo(r.miss, 3);
+  });
+});
