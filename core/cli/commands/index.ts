@@ -1,4 +1,5 @@
 import type { CliCommand } from '../command.ts';
+import { hazardCommand } from './hazard.ts';
 
 /** Every sub-command, in the order `landreach --help` lists them. Add new commands here. */
-export const COMMANDS: readonly CliCommand[] = [];
+export const COMMANDS: readonly CliCommand[] = [hazardCommand];
