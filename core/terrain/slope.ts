@@ -7,17 +7,21 @@
  * ∂z/∂x = ((c + 2f + i) − (a + 2d + g)) / (8 Δx),  ∂z/∂y = ((g + 2h + i) − (a + 2b + c)) / (8 Δy)
  * (y pointing south here, which only flips a sign under the square), slope = atan √(zx² + zy²).
  *
- * Edges and no-data (documented choice, matching `gdaldem slope` so GDAL can be the reference):
- * - 'no-data' (default, gdaldem's default): a cell whose 3 × 3 window leaves the grid or touches a
+ * Edges and no-data (documented choice; both modes match `gdaldem slope` of GDAL 3.6, the outside
+ * reference in test/reference/terrain):
+ * - 'no-data' (default; gdaldem's default): a cell whose 3 × 3 window leaves the grid or touches a
  *   no-data cell gets no slope (NaN).
- * - 'centre-fill' (gdaldem -compute_edges): each missing neighbour takes the centre cell's height.
- *   This biases slope low at the edge (a tilted plane's edge cells read 3/4 of the true gradient
- *   across the edge), which is why hazard analysis does not use edge cells.
- * A no-data centre is always no-data.
+ * - 'extrapolate' (gdaldem -compute_edges): on the first and last row the missing row is extrapolated
+ *   linearly (2·edge − inner) and, in those rows only, the off-grid column is replaced by the edge
+ *   column itself; on the first and last column of the other rows the missing column is extrapolated
+ *   linearly. Any neighbour still missing (no-data, or extrapolated from no-data) takes the centre
+ *   cell's height. A plane therefore keeps its exact slope on the edges, except at the four corners,
+ *   where the gradient along the row is halved.
+ * A no-data centre is always no-data. Hazard analysis uses the 'no-data' mode.
  */
 import type { ElevationGrid } from './grid.ts';
 
-export type SlopeEdgeMode = 'no-data' | 'centre-fill';
+export type SlopeEdgeMode = 'no-data' | 'extrapolate';
 
 /** Horn slope in radians, Float32, NaN where undefined. */
 export function hornSlope(grid: ElevationGrid, edges: SlopeEdgeMode = 'no-data'): Float32Array {
@@ -25,7 +29,7 @@ export function hornSlope(grid: ElevationGrid, edges: SlopeEdgeMode = 'no-data')
   const out = new Float32Array(w * h);
   const kx = 1 / (8 * grid.pixelSizeX_m);
   const ky = 1 / (8 * grid.pixelSizeY_m);
-  const fill = edges === 'centre-fill';
+  const fill = edges === 'extrapolate' && w >= 2 && h >= 2;
   for (let r = 0; r < h; r++) {
     const interiorRow = r > 0 && r < h - 1;
     for (let c = 0; c < w; c++) {
@@ -59,16 +63,47 @@ export function hornSlope(grid: ElevationGrid, edges: SlopeEdgeMode = 'no-data')
 }
 
 const scratch = new Float64Array(9);
-/** The 3 × 3 window around (r, c) with missing (off-grid or no-data) neighbours set to the centre height. */
+/**
+ * The 3 × 3 window around (r, c) for the 'extrapolate' mode (see the file comment), with missing
+ * neighbours set to the centre height. Needs w ≥ 2 and h ≥ 2.
+ */
 function fillWindow(z: Float32Array, w: number, h: number, r: number, c: number, centre: number): Float64Array {
-  let n = 0;
-  for (let dr = -1; dr <= 1; dr++) {
-    for (let dc = -1; dc <= 1; dc++) {
-      const rr = r + dr, cc = c + dc;
-      const v = rr >= 0 && rr < h && cc >= 0 && cc < w ? z[rr * w + cc] : NaN;
-      scratch[n++] = Number.isNaN(v) ? centre : v;
+  const at = (rr: number, cc: number) => z[rr * w + cc];
+  const lin = (edge: number, inner: number) => 2 * edge - inner; // NaN in, NaN out
+  if (r === 0 || r === h - 1) {
+    const inner = r === 0 ? 1 : h - 2;
+    const cl = c === 0 ? c : c - 1;
+    const cr = c === w - 1 ? c : c + 1;
+    const cols = [cl, c, cr];
+    for (let i = 0; i < 3; i++) {
+      const edge = at(r, cols[i]);
+      const near = at(inner, cols[i]);
+      const far = lin(edge, near);
+      // Window rows north → south: top row extrapolates above row 0; bottom row below row h − 1.
+      scratch[i] = r === 0 ? far : near;
+      scratch[3 + i] = edge;
+      scratch[6 + i] = r === 0 ? near : far;
+    }
+  } else {
+    for (let dr = -1; dr <= 1; dr++) {
+      const rr = r + dr;
+      const base = 3 * (dr + 1);
+      if (c === 0) {
+        scratch[base] = lin(at(rr, 0), at(rr, 1));
+        scratch[base + 1] = at(rr, 0);
+        scratch[base + 2] = at(rr, 1);
+      } else if (c === w - 1) {
+        scratch[base] = at(rr, w - 2);
+        scratch[base + 1] = at(rr, w - 1);
+        scratch[base + 2] = lin(at(rr, w - 1), at(rr, w - 2));
+      } else {
+        scratch[base] = at(rr, c - 1);
+        scratch[base + 1] = at(rr, c);
+        scratch[base + 2] = at(rr, c + 1);
+      }
     }
   }
+  for (let i = 0; i < 9; i++) if (Number.isNaN(scratch[i])) scratch[i] = centre;
   return scratch;
 }
 

@@ -32,17 +32,18 @@ describe('Horn (1981) slope, analytic cases', () => {
     expect(worst).toBeLessThan(1e-5); // rad; float32 heights up to 20 m carry ~1e-6 m error
   });
 
-  it("'centre-fill' edges: a plane's edge cells read 1/2 of the gradient across the edge, 3/4 along it", () => {
-    // Derivation for z = p·x (Δx = 1). West edge: the missing column a, d, g takes the centre e, so
-    // ∂z/∂x = ((c+2f+i) − 4e)/8 = (4(e+p) − 4e)/8 = p/2. North edge: a, b, c take e, so
-    // ∂z/∂x = ((e + 2(e+p) + (e+p)) − (e + 2(e−p) + (e−p)))/8 = 6p/8 = 3p/4, and ∂z/∂y = 0.
-    const p = 0.2;
-    const g = gridFromFunction({ width: 8, height: 8, pixelSizeX_m: 1, pixelSizeY_m: 1 }, (x) => p * x);
-    const s = hornSlope(g, 'centre-fill');
-    expect(s[3 * 8 + 0]).toBeCloseTo(Math.atan(p / 2), 6);
-    expect(s[3 * 8 + 7]).toBeCloseTo(Math.atan(p / 2), 6);
-    expect(s[0 * 8 + 3]).toBeCloseTo(Math.atan((3 * p) / 4), 6);
-    expect(s[7 * 8 + 3]).toBeCloseTo(Math.atan((3 * p) / 4), 6);
+  it("'extrapolate' edges: a plane keeps its exact slope on the edges; corners halve the along-row gradient", () => {
+    // Derivation for z = P·col + Q·row (pixel units). Linear extrapolation 2·edge − inner is exact for a
+    // plane, so every edge cell except the corners reads (P, Q). At the top-left corner the window is
+    //   a = −Q, b = −Q, c = P − Q / d = 0, e = 0, f = P / g = Q, h = Q, i = P + Q   (z(0,0) = 0)
+    // (the missing row extrapolated, the off-grid column replaced by column 0 itself), so
+    //   8·∂z/∂col = (c + 2f + i) − (a + 2d + g) = 4P  and  8·∂z/∂row = (g + 2h + i) − (a + 2b + c) = 8Q.
+    const P = 0.2, Q = 0.05;
+    const g = gridFromFunction({ width: 8, height: 6, pixelSizeX_m: 1, pixelSizeY_m: 1 }, (x, y) => P * x - Q * y);
+    const s = hornSlope(g, 'extrapolate');
+    const exact = Math.atan(Math.hypot(P, Q));
+    for (const k of [0 * 8 + 3, 5 * 8 + 4, 2 * 8 + 0, 3 * 8 + 7, 2 * 8 + 3]) expect(s[k]).toBeCloseTo(exact, 6);
+    for (const k of [0, 7, 5 * 8, 5 * 8 + 7]) expect(s[k]).toBeCloseTo(Math.atan(Math.hypot(P / 2, Q)), 6);
   });
 
   it('a no-data neighbour gives no slope; a no-data centre always gives none', () => {
@@ -52,7 +53,7 @@ describe('Horn (1981) slope, analytic cases', () => {
     const s = hornSlope(g);
     expect(Number.isNaN(s[6])).toBe(true);
     expect(Number.isNaN(s[12])).toBe(true);
-    const f = hornSlope(g, 'centre-fill');
+    const f = hornSlope(g, 'extrapolate');
     expect(Number.isNaN(f[12])).toBe(true);
     expect(Number.isFinite(f[6])).toBe(true);
   });
