@@ -9,6 +9,7 @@ import { fromArrayBuffer } from 'geotiff';
 import type { GeoTIFFImage } from 'geotiff';
 import type { ElevationGrid, GridGeoreference } from './grid.ts';
 import { MAX_GRID_CELLS, TerrainInputError, checkDimensions, makeGrid, requireSomeData } from './grid.ts';
+import { registerBoundedLzw } from './lzw.ts';
 
 /** Options for readGeoTiff; every field is optional. */
 export interface GeoTiffReadOptions {
@@ -104,6 +105,7 @@ function isNoDataFactory(noData: number | null, sampleFormat: number, bits: numb
 /** Reads band 1 of a single-band GeoTIFF into an ElevationGrid. Errors are TerrainInputError. */
 export async function readGeoTiff(bytes: Uint8Array | ArrayBuffer, options: GeoTiffReadOptions = {}): Promise<ElevationGrid> {
   const source = options.sourceName ?? 'GeoTIFF';
+  registerBoundedLzw();
   // Copy into a fresh ArrayBuffer (a Node Buffer may be a view into a larger shared pool).
   const buf = bytes instanceof Uint8Array ? new Uint8Array(bytes).buffer : bytes;
   if (buf.byteLength < 8) fail(source, `only ${buf.byteLength} bytes; not a TIFF file (truncated?)`);
@@ -145,12 +147,6 @@ async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadO
     fail(source, `is ${w} × ${h} = ${w * h} cells, over the limit of ${MAX_GRID_CELLS} (4096 × 4096); pass a window of at most that many cells`);
   }
   checkDimensions(w, h, `${source} window`);
-  // A stripped, uncompressed file cannot hold more pixels than it has bytes: catch absurd headers early.
-  const compression = Number(image.getFileDirectory().getValue('Compression' as never) ?? 1);
-  if (compression === 1 && (fullW * fullH * bits) / 8 > buf.byteLength * 1.01 + 1024) {
-    fail(source, `header says ${fullW} × ${fullH} × ${bits} bits, more than the file's ${buf.byteLength} bytes; the file is truncated or corrupt`);
-  }
-
   const geoKeys = image.getGeoKeys() ?? {};
   const pixelIsPoint = geoKeys.GTRasterTypeGeoKey === 2;
   const affine = await readAffine(image, source, pixelIsPoint);

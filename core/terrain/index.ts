@@ -12,3 +12,4 @@ export * from './sites.ts';
 export * from './resample.ts';
 export * from './mesh.ts';
 export * from './demo-terrain.ts';
+export * from './lzw.ts';
