@@ -116,29 +116,51 @@ export function fitFootprint(grid: ElevationGrid, diameter_m: number, measure: R
       const k = r * w + c;
       slope[k] = Math.atan(Math.sqrt(b * b + cc * cc));
       const a = s / n + zRef; // plane height at the centre
-      let acc = 0, hi = -Infinity, lo = Infinity;
       const step = b * dx;
-      for (let i = 0; i < ring; i++) {
-        const hw = half[i];
-        if (hw < 0) continue;
-        const first = (r + i - rr) * w + c - hw;
-        const last = first + 2 * hw;
-        // residual = z − (plane at the span's first column + step·t)
-        let plane = a + cc * (-(i - rr) * dy) - b * hw * dx;
-        if (rms) {
-          for (let q = first; q <= last; q++) { const e = z[q] - plane; acc += e * e; plane += step; }
-        } else {
-          for (let q = first; q <= last; q++) {
-            const e = z[q] - plane;
-            if (e > hi) hi = e;
-            if (e < lo) lo = e;
-            plane += step;
-          }
-        }
-      }
-      if (!rms) acc = Math.max(hi, -lo);
+      const acc = rms
+        ? residualSumSquares(z, w, r, c, rr, half, a, b * dx, cc * dy, step)
+        : residualMaxAbs(z, w, r, c, rr, half, a, b * dx, cc * dy, step);
       rough[k] = rms ? Math.sqrt(acc / n) : acc;
     }
   }
   return { slope_rad: slope, roughness_m: rough, cellsInFootprint: n, reachCols: rc, reachRows: rr };
+}
+
+/**
+ * Largest |z − plane| over the disc rows (plane = a + bx·(column offset) + cy·(north offset)); kept as a
+ * small monomorphic function so the JIT compiles the hot loop tightly.
+ */
+function residualMaxAbs(z: Float32Array, w: number, r: number, c: number, rr: number, half: Int32Array, a: number, bx: number, cy: number, step: number): number {
+  let hi = 0, lo = 0;
+  for (let i = 0; i < half.length; i++) {
+    const hw = half[i];
+    if (hw < 0) continue;
+    const first = (r + i - rr) * w + c - hw;
+    const last = first + 2 * hw;
+    let plane = a - cy * (i - rr) - bx * hw;
+    for (let q = first; q <= last; q++) {
+      const e = z[q] - plane;
+      if (e > hi) hi = e;
+      else if (e < lo) lo = e;
+      plane += step;
+    }
+  }
+  return hi > -lo ? hi : -lo;
+}
+
+function residualSumSquares(z: Float32Array, w: number, r: number, c: number, rr: number, half: Int32Array, a: number, bx: number, cy: number, step: number): number {
+  let acc = 0;
+  for (let i = 0; i < half.length; i++) {
+    const hw = half[i];
+    if (hw < 0) continue;
+    const first = (r + i - rr) * w + c - hw;
+    const last = first + 2 * hw;
+    let plane = a - cy * (i - rr) - bx * hw;
+    for (let q = first; q <= last; q++) {
+      const e = z[q] - plane;
+      acc += e * e;
+      plane += step;
+    }
+  }
+  return acc;
 }

@@ -106,8 +106,10 @@ function isNoDataFactory(noData: number | null, sampleFormat: number, bits: numb
 export async function readGeoTiff(bytes: Uint8Array | ArrayBuffer, options: GeoTiffReadOptions = {}): Promise<ElevationGrid> {
   const source = options.sourceName ?? 'GeoTIFF';
   registerBoundedLzw();
-  // Copy into a fresh ArrayBuffer (a Node Buffer may be a view into a larger shared pool).
-  const buf = bytes instanceof Uint8Array ? new Uint8Array(bytes).buffer : bytes;
+  // geotiff wants a whole ArrayBuffer: use the view's own buffer when it spans all of it, else copy
+  // (a small Node Buffer may be a view into a larger shared pool).
+  const whole = bytes instanceof Uint8Array && bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength && bytes.buffer instanceof ArrayBuffer;
+  const buf = bytes instanceof Uint8Array ? (whole ? (bytes.buffer as ArrayBuffer) : new Uint8Array(bytes).buffer) : bytes;
   if (buf.byteLength < 8) fail(source, `only ${buf.byteLength} bytes; not a TIFF file (truncated?)`);
   const head = new Uint8Array(buf, 0, 4);
   const le = head[0] === 0x49 && head[1] === 0x49;
@@ -160,7 +162,8 @@ async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadO
 
   const rasters = await image.readRasters({ window: [c0, r0, c1, r1], samples: [0], interleave: true });
   if (rasters.length !== w * h) fail(source, `decoded ${rasters.length} samples, expected ${w * h}`);
-  const heights = new Float32Array(w * h);
+  // Float32 samples at scale 1 are taken over in place; other types are converted.
+  const heights = rasters instanceof Float32Array && verticalScale === 1 ? rasters : new Float32Array(w * h);
   const mask = new Uint8Array(w * h);
   for (let k = 0; k < heights.length; k++) {
     const v = Number(rasters[k]);
