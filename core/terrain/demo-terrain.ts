@@ -9,8 +9,9 @@
  *   Merrill, eds.), Pergamon, pp. 489–509. Older craters are shallower (a random degradation factor).
  * - Ejecta blanket thickness falling off as (r/R)^−3 — T. R. McGetchin, M. Settle, J. W. Head (1973),
  *   "Radial thickness variation in impact crater ejecta", Earth Planet. Sci. Lett. 20:226–236.
- * - Size–frequency: cumulative N(>D) ∝ D^−2, the equilibrium slope of small craters — N. J. Trask (1966),
- *   Ranger VIII and IX, Part II, JPL Tech. Rep. 32-800 (second-hand, common practice).
+ * - Size–frequency: cumulative N(>D) ∝ D^−2, the equilibrium slope of small lunar craters — D. E. Gault
+ *   (1970), "Saturation and equilibrium conditions for impact cratering on the lunar surface", Radio
+ *   Science 5(2):273–291 (from memory; common practice for small-crater populations).
  */
 import type { ElevationGrid } from './grid.ts';
 import { checkDimensions, makeGrid, TerrainInputError } from './grid.ts';
