@@ -6,7 +6,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { readFileSync, writeFileSync } from 'node:fs';
 import type { ElevationGrid } from '../../../core/terrain/index.ts';
-import { TerrainInputError, cellEast, cellNorth, readGeoTiff, writeGeoTiff } from '../../../core/terrain/index.ts';
+import { TerrainInputError, cellEast, cellNorth, readGeoTiff, readPngHeightmap, writeGeoTiff } from '../../../core/terrain/index.ts';
 import { gdal, gdalAvailable, gdalinfoJson, readXyz, tempDir, writeAsciiGrid } from './gdal.ts';
 
 const tmp = tempDir();
@@ -145,6 +145,28 @@ describe.skipIf(!gdalAvailable())('GeoTIFFs written by GDAL', () => {
 
     const truncated = bytes(makeTif('trunc', ['-ot', 'Float32', '-co', 'COMPRESS=DEFLATE', '-co', 'TILED=YES', '-co', 'BLOCKXSIZE=16', '-co', 'BLOCKYSIZE=16']));
     await expect(readGeoTiff(truncated.subarray(0, Math.floor(truncated.length * 0.6)))).rejects.toThrow(TerrainInputError);
+  });
+});
+
+describe.skipIf(!gdalAvailable())('16-bit PNG heightmaps written by GDAL', () => {
+  it('samples match GDAL\'s own values (gdal_translate -of PNG -ot UInt16, then XYZ of the PNG)', async () => {
+    const tif = makeTif('png-src', ['-ot', 'UInt16'], values.map((v, k) => (Number.isNaN(v) ? 0 : Math.round(v * 300 + (k % 7) * 1000))), -1);
+    const png = tmp.path('height.png');
+    gdal('gdal_translate', ['-q', '-of', 'PNG', '-ot', 'UInt16', tif, png]);
+    const g = await readPngHeightmap(bytes(png), { pixelSize_m: 2, heightScale_m: 0.01, heightOffset_m: -50 });
+    const xyz = readXyz(png, png + '.xyz');
+    expect(xyz.length).toBe(W * H);
+    // GDAL carries the source nodata (−1, clamped to 0 for UInt16) into the PNG as a tRNS grey value.
+    const noData = gdalinfoJson(png).bands[0].noDataValue;
+    expect(noData).toBe(0);
+    let maxSample = 0, noDataCells = 0;
+    xyz.forEach((p, k) => {
+      maxSample = Math.max(maxSample, p.z);
+      if (p.z === noData) { noDataCells++; expect(g.noData[k]).toBe(1); }
+      else expect(g.heights[k]).toBeCloseTo(-50 + 0.01 * p.z, 3);
+    });
+    expect(noDataCells).toBe(2);
+    expect(maxSample).toBeGreaterThan(255); // really 16-bit content
   });
 });
 
