@@ -8,6 +8,8 @@
  * equations are diagonal: a = mean z, b = Σxz / Σx², c = Σyz / Σy². That holds only when the whole disc
  * is valid, which is what we require: a cell whose disc leaves the grid or touches no-data is
  * *unknown* (NaN), and hazard analysis counts unknown as unsafe.
+ * Cost: the window sums come from per-row prefix sums kept for the disc's rows only (O(rows) a cell,
+ * O(width · rows) memory); the residual pass is O(cells in the disc) a cell.
  */
 import type { ElevationGrid } from './grid.ts';
 import { TerrainInputError } from './grid.ts';
@@ -26,7 +28,7 @@ export interface FootprintFit {
   reachRows: number;
 }
 
-/** Cell offsets (columns, rows) of the footprint disc, and their metric coordinates. */
+/** Cell offsets (columns, rows) of the footprint disc: cells whose centre is within the lander's radius. */
 export function footprintDisc(grid: ElevationGrid, diameter_m: number) {
   const radius = diameter_m / 2;
   const rc = Math.floor(radius / grid.pixelSizeX_m);

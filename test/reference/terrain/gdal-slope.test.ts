@@ -7,7 +7,8 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { hornSlope, readGeoTiff, toDegrees } from '../../../core/terrain/index.ts';
-import { gdal, gdalAvailable, tempDir, writeAsciiGrid } from './gdal.ts';
+import { main } from '../../../core/cli/main.ts';
+import { gdal, gdalAvailable, gdalinfoJson, readXyz, tempDir, writeAsciiGrid } from './gdal.ts';
 
 const tmp = tempDir();
 afterAll(() => tmp.cleanup());
@@ -65,5 +66,27 @@ describe.skipIf(!gdalAvailable())('Horn slope vs gdaldem slope (GDAL 3.6)', () =
     expect(r.mismatchedNoData).toBe(0);
     expect(r.compared).toBe(W * H - 5); // every valid cell has a slope, edges included
     expect(r.worst).toBeLessThan(0.01);
+  });
+
+  it('end to end: `landreach hazard` output read by GDAL matches gdaldem slope cell for cell, with the DEM\'s CRS', async () => {
+    await compare(2, 2, false); // writes dem-2-2.tif and GDAL's slope-2-2-false.tif
+    const out = tmp.path('cli-out');
+    const quiet = { stdout: () => undefined, stderr: () => undefined, interactive: false };
+    expect(await main(['hazard', tmp.path('dem-2-2.tif'), '--out', out], quiet)).toBe(0);
+    const info = gdalinfoJson(`${out}/slope.tif`);
+    expect(info.geoTransform).toEqual([400000, 2, 0, 5000000, 0, -2]);
+    expect(JSON.stringify(info.coordinateSystem)).toMatch(/32633/);
+    const ours = readXyz(`${out}/slope.tif`, `${out}/slope.xyz`);
+    const ref = readXyz(tmp.path('slope-2-2-false.tif'), tmp.path('ref.xyz'));
+    expect(ours.length).toBe(ref.length);
+    let worst = 0;
+    ours.forEach((p, k) => {
+      expect([p.x, p.y]).toEqual([ref[k].x, ref[k].y]);
+      const refMissing = ref[k].z === -9999; // gdaldem's nodata
+      expect(Number.isNaN(p.z)).toBe(refMissing);
+      if (!refMissing) worst = Math.max(worst, Math.abs(p.z - ref[k].z));
+    });
+    expect(worst).toBeLessThan(0.01); // degrees
+    expect(gdalinfoJson(`${out}/hazard.tif`).bands[0].type).toBe('Byte');
   });
 });
