@@ -15,7 +15,8 @@ import { registerBoundedLzw } from './lzw.ts';
 export interface GeoTiffReadOptions {
   /** Pixel window [col0, row0, col1, row1) to read; default the whole image. Use it for files over MAX_GRID_CELLS. */
   window?: readonly [number, number, number, number];
-  /** Metres per vertical unit of the samples (default 1). */
+  /** Metres per vertical unit of the samples. Default: from VerticalUnitsGeoKey when present, else 1
+   *  (heights taken as metres — a file that stores feet without saying so needs this option). */
   verticalScale?: number;
   /** Geographic DEMs: body radius in metres. Default: the file's GeogSemiMajorAxisGeoKey, else WGS 84's
    *  6 378 137 m for EPSG:4326, else an error asking for it. */
@@ -32,6 +33,16 @@ const TAG_TIEPOINT = 'ModelTiepoint';
 const TAG_TRANSFORMATION = 'ModelTransformation';
 const WGS84_A = 6378137;
 const DEG = Math.PI / 180;
+
+/** EPSG unit-of-measure codes for lengths → metres (EPSG 9001 metre, 9002 foot, 9003 US survey foot, 9036 kilometre). */
+const LINEAR_UNIT_M: Record<number, number> = { 9001: 1, 9002: 0.3048, 9003: 1200 / 3937, 9036: 1000 };
+
+function unitToMetres(source: string, key: string, code: unknown): number {
+  if (code === undefined || code === null) return 1;
+  const f = LINEAR_UNIT_M[Number(code)];
+  if (f === undefined) fail(source, `${key} ${String(code)} is not a length unit this reader knows (metre, foot, US survey foot, kilometre); reproject to metres first (gdalwarp)`);
+  return f;
+}
 
 function fail(source: string, message: string): never {
   throw new TerrainInputError(`${source}: ${message}`);
@@ -155,7 +166,7 @@ async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadO
   const modelType = Number(geoKeys.GTModelTypeGeoKey ?? 0);
   const noData = parseNoData(await tag(image, 'GDAL_NODATA'));
   const isNoData = isNoDataFactory(noData, sampleFormat, bits);
-  const verticalScale = options.verticalScale ?? 1;
+  const verticalScale = options.verticalScale ?? unitToMetres(source, 'VerticalUnitsGeoKey', geoKeys.VerticalUnitsGeoKey);
   if (!Number.isFinite(verticalScale) || verticalScale === 0) {
     fail(source, `invalid verticalScale: ${verticalScale} (must be a finite non-zero number of metres per unit)`);
   }
@@ -190,7 +201,9 @@ async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadO
       geoTransform,
       ...(Number.isInteger(epsg) && epsg > 0 && epsg < 32767 ? { projectedEpsg: epsg } : {}),
     };
-    spec = { width: w, height: h, pixelSizeX_m: affine.dx, pixelSizeY_m: affine.dy, originEast_m: wx0, originNorth_m: wy0, georeference };
+    // Projected CRS in feet or kilometres: the local frame is in metres, the georeference keeps file units.
+    const f = modelType === 1 ? unitToMetres(source, 'ProjLinearUnitsGeoKey', geoKeys.ProjLinearUnitsGeoKey) : 1;
+    spec = { width: w, height: h, pixelSizeX_m: affine.dx * f, pixelSizeY_m: affine.dy * f, originEast_m: wx0 * f, originNorth_m: wy0 * f, georeference };
   }
   const grid = makeGrid(spec, heights, mask);
   requireSomeData(grid, source);
@@ -206,6 +219,9 @@ function geographicSpec(
 ) {
   const epsg = Number(geoKeys.GeographicTypeGeoKey);
   const semiMajor = Number(geoKeys.GeogSemiMajorAxisGeoKey);
+  if (options.bodyRadius_m !== undefined && !(Number.isFinite(options.bodyRadius_m) && options.bodyRadius_m > 0)) {
+    fail(source, `invalid bodyRadius_m: ${options.bodyRadius_m} (must be a finite number of metres > 0)`);
+  }
   const radius = options.bodyRadius_m ?? (Number.isFinite(semiMajor) && semiMajor > 0 ? semiMajor : epsg === 4326 ? WGS84_A : NaN);
   if (!Number.isFinite(radius) || radius <= 0) {
     fail(source, `is in geographic degrees (GeographicTypeGeoKey ${Number.isFinite(epsg) ? epsg : 'unset'}) with no body radius; pass bodyRadius_m (CLI: --body-radius-m)`);

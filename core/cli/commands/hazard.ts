@@ -33,6 +33,8 @@ Options:
   --roughness max|rms       roughness measure                         (default max)
   --window C0,R0,C1,R1      read only this pixel window of a GeoTIFF (needed above 4096 × 4096 cells)
   --body-radius-m R         body radius for geographic (degree) GeoTIFFs without one
+  --vertical-scale K        GeoTIFF: metres per height unit (default: the file's VerticalUnitsGeoKey, else 1;
+                            e.g. 0.3048 for heights stored in feet without saying so)
   --pixel-size-m P          PNG heightmaps: ground size of a pixel, m                            [PNG: required]
   --height-scale-m K        PNG heightmaps: metres per sample step                               [PNG: required]
   --height-offset-m Z       PNG heightmaps: height of sample 0, m     (default 0)
@@ -45,7 +47,7 @@ type Flags = Record<string, string | true>;
 
 const VALUE_FLAGS = new Set([
   'out', 'max-slope-deg', 'max-roughness-m', 'lander-diameter-m', 'margin-m', 'roughness', 'window',
-  'body-radius-m', 'pixel-size-m', 'height-scale-m', 'height-offset-m', 'study',
+  'body-radius-m', 'vertical-scale', 'pixel-size-m', 'height-scale-m', 'height-offset-m', 'study',
 ]);
 const BOOLEAN_FLAGS = new Set(['overwrite']);
 
@@ -116,8 +118,12 @@ async function readDem(path: string, flags: Flags): Promise<{ grid: ElevationGri
     if (parts.length !== 4 || !parts.every(Number.isInteger)) throw new UsageError(`--window: '${flags.window}' must be four integers C0,R0,C1,R1`);
     window = parts as [number, number, number, number];
   }
-  const bodyRadius_m = num(flags, 'body-radius-m');
-  const grid = await readGeoTiff(bytes, { sourceName: name, ...(window ? { window } : {}), ...(bodyRadius_m !== undefined ? { bodyRadius_m } : {}) });
+  const grid = await readGeoTiff(bytes, {
+    sourceName: name,
+    window,
+    bodyRadius_m: num(flags, 'body-radius-m'),
+    verticalScale: num(flags, 'vertical-scale'),
+  });
   return { grid, format: 'geotiff' };
 }
 

@@ -120,6 +120,18 @@ describe.skipIf(!gdalAvailable())('GeoTIFFs written by GDAL', () => {
     expect(g.pixelSizeX_m / g.pixelSizeY_m).toBeCloseTo((0.001 * Math.cos(Math.PI / 4)) / 0.0005, 9);
   });
 
+  it('projected CRS in US survey feet (EPSG:2227, ProjLinearUnitsGeoKey 9003): pixel sizes in metres', async () => {
+    const asc = tmp.path('ft.asc');
+    writeAsciiGrid(asc, W, H, values);
+    const tif = tmp.path('ft.tif');
+    gdal('gdal_translate', ['-q', '-ot', 'Float32', '-a_nodata', '-99999', '-a_srs', 'EPSG:2227', '-a_ullr', '6000000', '2000000', String(6000000 + 10 * W), String(2000000 - 10 * H), asc, tif]);
+    const g = await readGeoTiff(bytes(tif));
+    // 1 US survey foot = 1200/3937 m exactly (US survey foot definition, NIST).
+    expect(g.pixelSizeX_m).toBeCloseTo((10 * 1200) / 3937, 12);
+    expect(g.originEast_m).toBeCloseTo((6000000 * 1200) / 3937, 6);
+    expect(g.georeference?.geoTransform).toEqual([6000000, 10, 0, 2000000, 0, -10]);
+  });
+
   it('refuses multi-band, rotated, enormous and all-nodata files with a clear message', async () => {
     const multi = tmp.path('multi.tif');
     gdal('gdal_create', ['-q', '-of', 'GTiff', '-outsize', '8', '8', '-bands', '3', '-ot', 'Byte', '-a_srs', 'EPSG:32633', '-a_ullr', '0', '8', '8', '0', multi]);
