@@ -33,6 +33,8 @@ Options:
   --roughness max|rms       roughness measure                         (default max)
   --window C0,R0,C1,R1      read only this pixel window of a GeoTIFF (needed above 4096 × 4096 cells)
   --body-radius-m R         body radius for geographic (degree) GeoTIFFs without one
+  --origin-lat-deg A, --origin-lon-deg B
+                            geographic GeoTIFFs: origin of the local east–north frame (default: grid centre)
   --vertical-scale K        GeoTIFF: metres per height unit (default: the file's VerticalUnitsGeoKey, else 1;
                             e.g. 0.3048 for heights stored in feet without saying so)
   --pixel-size-m P          PNG heightmaps: ground size of a pixel, m                            [PNG: required]
@@ -47,7 +49,7 @@ type Flags = Record<string, string | true>;
 
 const VALUE_FLAGS = new Set([
   'out', 'max-slope-deg', 'max-roughness-m', 'lander-diameter-m', 'margin-m', 'roughness', 'window',
-  'body-radius-m', 'vertical-scale', 'pixel-size-m', 'height-scale-m', 'height-offset-m', 'study',
+  'body-radius-m', 'origin-lat-deg', 'origin-lon-deg', 'vertical-scale', 'pixel-size-m', 'height-scale-m', 'height-offset-m', 'study',
 ]);
 const BOOLEAN_FLAGS = new Set(['overwrite']);
 
@@ -122,6 +124,8 @@ async function readDem(path: string, flags: Flags): Promise<{ grid: ElevationGri
     sourceName: name,
     window,
     bodyRadius_m: num(flags, 'body-radius-m'),
+    originLatitude_deg: num(flags, 'origin-lat-deg'),
+    originLongitude_deg: num(flags, 'origin-lon-deg'),
     verticalScale: num(flags, 'vertical-scale'),
   });
   return { grid, format: 'geotiff' };

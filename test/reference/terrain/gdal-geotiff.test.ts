@@ -120,6 +120,21 @@ describe.skipIf(!gdalAvailable())('GeoTIFFs written by GDAL', () => {
     expect(g.pixelSizeX_m / g.pixelSizeY_m).toBeCloseTo((0.001 * Math.cos(Math.PI / 4)) / 0.0005, 9);
   });
 
+  it('geographic DEM on a sphere of radius 1 737 400 m (GDAL writes GeogSemiMajorAxisGeoKey): that radius is used', async () => {
+    const asc = tmp.path('sphere.asc');
+    writeAsciiGrid(asc, W, H, values);
+    const tif = tmp.path('sphere.tif');
+    gdal('gdal_translate', ['-q', '-ot', 'Float32', '-a_nodata', '-99999', '-a_srs', '+proj=longlat +R=1737400 +no_defs', '-a_ullr', '20', String(0.01 * H), String(20 + 0.01 * W), '0', asc, tif]);
+    const g = await readGeoTiff(bytes(tif), { originLatitude_deg: 0, originLongitude_deg: 20 });
+    expect(g.georeference?.localFrame?.bodyRadius_m).toBe(1737400);
+    // At the equator a 0.01° pixel spans R·0.01·π/180 both ways.
+    expect(g.pixelSizeX_m).toBeCloseTo((1737400 * 0.01 * Math.PI) / 180, 6);
+    expect(g.pixelSizeY_m).toBeCloseTo((1737400 * 0.01 * Math.PI) / 180, 6);
+    expect(g.originEast_m).toBe(0);
+    expect(g.originNorth_m).toBeCloseTo((1737400 * 0.01 * H * Math.PI) / 180, 6);
+    await expect(readGeoTiff(bytes(tif), { bodyRadius_m: -1 })).rejects.toThrow('invalid bodyRadius_m: -1');
+  });
+
   it('projected CRS in US survey feet (EPSG:2227, ProjLinearUnitsGeoKey 9003): pixel sizes in metres', async () => {
     const asc = tmp.path('ft.asc');
     writeAsciiGrid(asc, W, H, values);
