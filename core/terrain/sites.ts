@@ -1,7 +1,8 @@
 /**
  * Safe reachable set and candidate landing sites. The footprint engine is not part of core/terrain:
  * these functions take a plain reachability grid (reachable flags + propellant per cell) laid on the
- * same grid as the hazard map (resample the terrain to the footprint grid first, see resample.ts).
+ * same grid as the hazard map (lay the footprint's target grid onto the terrain grid first with
+ * `resampleReachability` in resample.ts, so hazards keep the DEM's resolution).
  */
 import type { ElevationGrid } from './grid.ts';
 import { TerrainInputError, cellEast, cellNorth, sampleBilinear } from './grid.ts';
@@ -29,7 +30,7 @@ export interface SafeReachableSet {
 function checkSameGrid(hazard: HazardMap, reach: ReachabilityGrid): void {
   if (reach.width !== hazard.width || reach.height !== hazard.height) {
     throw new TerrainInputError(
-      `reachability grid is ${reach.width} × ${reach.height} but the hazard map is ${hazard.width} × ${hazard.height}; resample the terrain to the footprint grid first`,
+      `reachability grid is ${reach.width} × ${reach.height} but the hazard map is ${hazard.width} × ${hazard.height}; lay the footprint onto the terrain grid first (resampleReachability)`,
     );
   }
   const n = hazard.width * hazard.height;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  HAZARD_SLOPE, HAZARD_UNKNOWN, decimatedMesh, generateDemoTerrain, gridFromFunction, resampleHazardFlags, resampleHeights,
+  HAZARD_SLOPE, HAZARD_UNKNOWN, decimatedMesh, generateDemoTerrain, gridFromFunction, resampleHazardFlags, resampleHeights, resampleReachability,
 } from '../../../core/terrain/index.ts';
 
 describe('resampling', () => {
@@ -24,6 +24,27 @@ describe('resampling', () => {
     expect(Array.from(out)).toEqual([0, HAZARD_SLOPE, 0, 0]);
     const over = resampleHazardFlags(flags, src, { width: 3, height: 1, pixelSizeX_m: 4, pixelSizeY_m: 4 });
     expect(over[2] & HAZARD_UNKNOWN).toBeTruthy(); // covers 8–12 m, past the 10 m source
+  });
+});
+
+describe('footprint results onto the terrain grid', () => {
+  it('propellant is bilinear (exact for a linear field) and reachability conservative at the edge', () => {
+    // A 5 × 4 target grid at 20 m; propellant linear in east and north; the east column unreachable.
+    const W = 5, H = 4;
+    const prop = (e: number, n: number) => 300 + 0.5 * e - 0.25 * n;
+    const reach = { width: W, height: H, reachable: new Uint8Array(W * H), propellant_kg: new Float32Array(W * H) };
+    for (let r = 0; r < H; r++) for (let c = 0; c < W; c++) {
+      reach.reachable[r * W + c] = c < W - 1 ? 1 : 0;
+      reach.propellant_kg[r * W + c] = prop((c + 0.5) * 20, -(r + 0.5) * 20);
+    }
+    const terrain = gridFromFunction({ width: 100, height: 80, pixelSizeX_m: 1, pixelSizeY_m: 1 }, () => 0);
+    const out = resampleReachability(reach, { width: W, height: H, pixelSizeX_m: 20, pixelSizeY_m: 20 }, terrain);
+    // Inside the reachable targets' centres (10…70 m east, −10…−70 m north): reachable, propellant exact.
+    const k = 40 * 100 + 30; // centre (30.5, −40.5)
+    expect(out.reachable[k]).toBe(1);
+    expect(out.propellant_kg[k]).toBeCloseTo(prop(30.5, -40.5), 3);
+    expect(out.reachable[40 * 100 + 75]).toBe(0); // between the last reachable column (70 m) and the unreachable one (90 m)
+    expect(out.reachable[40 * 100 + 5]).toBe(0); // west of the first target centre (10 m): outside
   });
 });
 

@@ -46,10 +46,10 @@ describe('safe reachable set and candidate sites', () => {
     expect(sites[0].height_m).toBe(50);
   });
 
-  it('refuses a reachability grid of another size, pointing to resampling', () => {
+  it('refuses a reachability grid of another size, pointing to resampleReachability', () => {
     const bad: ReachabilityGrid = { width: 10, height: 10, reachable: new Uint8Array(100), propellant_kg: new Float32Array(100) };
     expect(() => safeReachableSet(map, bad)).toThrow(TerrainInputError);
-    expect(() => safeReachableSet(map, bad)).toThrow(/resample the terrain/);
+    expect(() => safeReachableSet(map, bad)).toThrow(/resampleReachability/);
   });
 
   it('terrain clearance flags nodes below terrain + clearance and nodes off the grid', () => {
