@@ -7,7 +7,7 @@
  */
 import { fromArrayBuffer } from 'geotiff';
 import type { GeoTIFFImage } from 'geotiff';
-import type { ElevationGrid, GridGeoreference } from './grid.ts';
+import type { ElevationGrid, GridGeoreference, GridSpec } from './grid.ts';
 import { MAX_GRID_CELLS, TerrainInputError, checkDimensions, makeGrid, requireSomeData } from './grid.ts';
 import { registerBoundedLzw } from './lzw.ts';
 
@@ -163,6 +163,9 @@ async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadO
   const geoKeys = image.getGeoKeys() ?? {};
   const pixelIsPoint = geoKeys.GTRasterTypeGeoKey === 2;
   const affine = await readAffine(image, source, pixelIsPoint);
+  if (!affine) {
+    fail(source, 'has no georeferencing (ModelPixelScale/ModelTiepoint or ModelTransformation), so the pixel size is unknown; add it (gdal_translate -a_ullr … -a_srs …) or use a PNG heightmap with an explicit pixel size');
+  }
   const modelType = Number(geoKeys.GTModelTypeGeoKey ?? 0);
   const noData = parseNoData(await tag(image, 'GDAL_NODATA'));
   const isNoData = isNoDataFactory(noData, sampleFormat, bits);
@@ -184,10 +187,7 @@ async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadO
     } else heights[k] = v * verticalScale;
   }
 
-  if (!affine) {
-    fail(source, 'has no georeferencing (ModelPixelScale/ModelTiepoint or ModelTransformation), so the pixel size is unknown; add it (gdal_translate -a_ullr … -a_srs …) or use a PNG heightmap with an explicit pixel size');
-  }
-  let spec;
+  let spec: GridSpec;
   const wx0 = affine.x0 + c0 * affine.dx;
   const wy0 = affine.y0 - r0 * affine.dy;
   // Geotransform of the window read (corner of its pixel 0,0), in the source CRS.

@@ -111,7 +111,8 @@ async function readDem(path: string, flags: Flags): Promise<{ grid: ElevationGri
     const grid = await readPngHeightmap(bytes, { pixelSize_m, heightScale_m, heightOffset_m: num(flags, 'height-offset-m') ?? 0, sourceName: name });
     return { grid, format: 'png-heightmap' };
   }
-  if (bytes[0] === 0x7b || bytes[0] === 0x20 || bytes[0] === 0x0a) {
+  const head = new TextDecoder().decode(bytes.subarray(0, 64)).replace(/^\uFEFF/, '').trimStart();
+  if (head.startsWith('{')) {
     return { grid: readJsonGrid(new TextDecoder().decode(bytes)), format: 'landreach-json-grid' };
   }
   let window: [number, number, number, number] | undefined;
