@@ -127,10 +127,12 @@ export interface TrajectoryNode {
 }
 
 export interface ClearanceReport {
-  /** Smallest (node height − terrain height) over nodes above the grid, m; NaN when none is over the grid. */
+  /** Smallest (trajectory height − terrain height) over nodes and segment samples above the grid, m; NaN when none is. */
   minClearance_m: number;
   /** Indices of nodes lower than terrain + required clearance. */
   violations: number[];
+  /** Indices i of segments (node i → i + 1) that dip below terrain + clearance between their nodes. */
+  segmentViolations: number[];
   /** Indices of nodes outside the grid or over no-data (clearance unknown). */
   unknown: number[];
   ok: boolean;
@@ -138,22 +140,47 @@ export interface ClearanceReport {
 
 /**
  * Terrain clearance along a trajectory: flags every node below the (bilinear) terrain surface plus
- * `clearance_m`. The final touchdown node(s) can be excluded with `skipLast` (default 1), since they
- * sit on the surface by construction.
+ * `clearance_m`, and every straight segment between nodes that does so anywhere, sampled at the DEM's
+ * pixel size (a ridge narrower than the node spacing is not missed). The final touchdown node(s) can
+ * be excluded with `skipLast` (default 1), since they sit on the surface by construction; segments
+ * into skipped nodes are not checked.
  */
 export function checkTerrainClearance(grid: ElevationGrid, nodes: readonly TrajectoryNode[], clearance_m: number, skipLast = 1): ClearanceReport {
   if (!Number.isFinite(clearance_m) || clearance_m < 0) throw new TerrainInputError(`invalid clearance_m: ${clearance_m} (must be a number ≥ 0)`);
   const violations: number[] = [];
+  const segmentViolations: number[] = [];
   const unknown: number[] = [];
   let minClearance = Infinity;
   const last = nodes.length - Math.max(0, skipLast);
+  const step = Math.min(grid.pixelSizeX_m, grid.pixelSizeY_m);
   for (let i = 0; i < last; i++) {
     const p = nodes[i];
     const ground = sampleBilinear(grid, p.east_m, p.north_m);
-    if (Number.isNaN(ground)) { unknown.push(i); continue; }
-    const gap = p.up_m - ground;
-    if (gap < minClearance) minClearance = gap;
-    if (gap < clearance_m) violations.push(i);
+    if (Number.isNaN(ground)) unknown.push(i);
+    else {
+      const gap = p.up_m - ground;
+      if (gap < minClearance) minClearance = gap;
+      if (gap < clearance_m) violations.push(i);
+    }
+    if (i + 1 >= last) continue;
+    const q = nodes[i + 1];
+    const samples = Math.min(100000, Math.ceil(Math.hypot(q.east_m - p.east_m, q.north_m - p.north_m) / step));
+    let dips = false;
+    for (let s = 1; s < samples; s++) {
+      const t = s / samples;
+      const g = sampleBilinear(grid, p.east_m + t * (q.east_m - p.east_m), p.north_m + t * (q.north_m - p.north_m));
+      if (Number.isNaN(g)) continue;
+      const gap = p.up_m + t * (q.up_m - p.up_m) - g;
+      if (gap < minClearance) minClearance = gap;
+      if (gap < clearance_m) dips = true;
+    }
+    if (dips) segmentViolations.push(i);
   }
-  return { minClearance_m: minClearance === Infinity ? NaN : minClearance, violations, unknown, ok: violations.length === 0 && unknown.length === 0 };
+  return {
+    minClearance_m: minClearance === Infinity ? NaN : minClearance,
+    violations,
+    segmentViolations,
+    unknown,
+    ok: violations.length === 0 && segmentViolations.length === 0 && unknown.length === 0,
+  };
 }

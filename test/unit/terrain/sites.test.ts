@@ -66,4 +66,18 @@ describe('safe reachable set and candidate sites', () => {
     expect(rep.minClearance_m).toBeCloseTo(8, 5);
     expect(rep.ok).toBe(false);
   });
+
+  it('catches a thin ridge between two nodes that both clear it', () => {
+    // Flat ground at 0 m with a 2 m-wide, 30 m-tall wall at east 50–52 m; nodes at east 10 and 90 m, 20 m up.
+    const g = gridFromFunction({ width: 100, height: 10, pixelSizeX_m: 1, pixelSizeY_m: 1 }, (x) => (x > 50 && x < 52 ? 30 : 0));
+    const rep = checkTerrainClearance(g, [
+      { east_m: 10, north_m: -5, up_m: 20 },
+      { east_m: 90, north_m: -5, up_m: 20 },
+      { east_m: 95, north_m: -5, up_m: 0 },
+    ], 5);
+    expect(rep.violations).toEqual([]);
+    expect(rep.segmentViolations).toEqual([0]);
+    expect(rep.minClearance_m).toBeCloseTo(-10, 5); // 20 m − 30 m at the wall's cell centres
+    expect(rep.ok).toBe(false);
+  });
 });
