@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../core/cli/main.ts';
 import { gridFromFunction, readGeoTiff, writeJsonGrid } from '../../../core/terrain/index.ts';
+import { encodeGreyPng } from './png-encode.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'landreach-hazard-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -49,5 +50,18 @@ describe('landreach hazard', () => {
     expect(await run(demPath, '--out', join(dir, 'b'), '--study', 's.json')).toMatchObject({ code: 2, err: expect.stringMatching(/footprint engine/) });
     expect(await run(join(dir, 'missing.tif'), '--out', join(dir, 'b'))).toMatchObject({ code: 2, err: expect.stringMatching(/cannot read DEM .*ENOENT/) });
     expect(existsSync(join(dir, 'b', 'slope.tif'))).toBe(false);
+  });
+
+  it('reads a 16-bit PNG heightmap only with a pixel size and height scale', async () => {
+    const png = join(dir, 'flat.png');
+    writeFileSync(png, encodeGreyPng(20, 20, new Array(400).fill(5000), 16));
+    const x = io();
+    expect(await main(['hazard', png, '--out', join(dir, 'p')], x.io)).toBe(2);
+    expect(x.out.stderr).toMatch(/give --pixel-size-m and --height-scale-m/);
+    const y = io();
+    expect(await main(['hazard', png, '--out', join(dir, 'p'), '--pixel-size-m', '1', '--height-scale-m', '0.01'], y.io)).toBe(0);
+    const summary = JSON.parse(readFileSync(join(dir, 'p', 'hazard-summary.json'), 'utf8'));
+    expect(summary.input.format).toBe('png-heightmap');
+    expect(summary.results.safeCells).toBe(16 * 16); // flat: all but the 2-cell unknown ring
   });
 });

@@ -59,6 +59,17 @@ describe('decimated display mesh', () => {
     expect(m.maxVerticalError_m).toBeLessThan(1e-4);
   });
 
+  it('no-data blocks carry NaN height and no triangles', () => {
+    const g = gridFromFunction({ width: 8, height: 8, pixelSizeX_m: 1, pixelSizeY_m: 1 }, (x, y) => (x < 4 && y > -4 ? NaN : 1));
+    const m = decimatedMesh(g, 16); // stride 2: 4 × 4 vertices; the north-west 2 × 2 vertices are no-data
+    expect(m.stride).toBe(2);
+    expect(Number.isNaN(m.positions[2])).toBe(true);
+    // 3 × 3 quads, 18 triangles; a triangle survives only if its three vertices are valid: quads
+    // (0,0), (1,0), (0,1) lose both, quad (1,1) loses the one through vertex (1,1): 7 dropped.
+    expect(m.indices.length / 3).toBe(18 - 7);
+    for (const i of m.indices) expect(Number.isNaN(m.positions[3 * i + 2])).toBe(false);
+  });
+
   it('keeps the largest features and drops sub-stride detail', () => {
     // A 10 m-tall hill (Gaussian, σ = 40 m) and a 1 m-tall, 1 m-wide spike on a 2 m grid, stride 4 (8 m).
     const hill = (x: number, y: number) => 10 * Math.exp(-((x - 204) ** 2 + (y + 204) ** 2) / (2 * 40 * 40));
