@@ -144,6 +144,12 @@ export function gridFromFunction(spec: GridSpec, f: (east_m: number, north_m: nu
   return makeGrid(spec, heights);
 }
 
+/** Size and placement of a grid (the fields a file or report carries besides the heights). */
+export function gridGeometry(grid: ElevationGrid) {
+  const { width, height, pixelSizeX_m, pixelSizeY_m, originEast_m, originNorth_m } = grid;
+  return { width, height, pixelSizeX_m, pixelSizeY_m, originEast_m, originNorth_m };
+}
+
 /** East coordinate of the centre of column `col`. */
 export function cellEast(grid: ElevationGrid, col: number): number {
   return grid.originEast_m + (col + 0.5) * grid.pixelSizeX_m;

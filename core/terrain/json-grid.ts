@@ -8,7 +8,7 @@
  * }
  */
 import type { ElevationGrid } from './grid.ts';
-import { TerrainInputError, checkDimensions, makeGrid, requireSomeData } from './grid.ts';
+import { TerrainInputError, checkDimensions, gridGeometry, makeGrid, requireSomeData } from './grid.ts';
 
 export const JSON_GRID_FORMAT = 'landreach-elevation-grid';
 
@@ -71,12 +71,7 @@ export function writeJsonGrid(grid: ElevationGrid): string {
   return JSON.stringify({
     format: JSON_GRID_FORMAT,
     version: 1,
-    width: grid.width,
-    height: grid.height,
-    pixelSizeX_m: grid.pixelSizeX_m,
-    pixelSizeY_m: grid.pixelSizeY_m,
-    originEast_m: grid.originEast_m,
-    originNorth_m: grid.originNorth_m,
+    ...gridGeometry(grid),
     heights_m: Array.from(grid.heights, (v, k) => (grid.noData[k] ? null : v)),
   });
 }

@@ -9,7 +9,7 @@ import { UsageError } from '../command.ts';
 import type { ElevationGrid, HazardLimits, HazardMap } from '../../terrain/index.ts';
 import {
   DEFAULT_HAZARD_LIMITS, HAZARD_MARGIN, HAZARD_ROUGHNESS, HAZARD_SLOPE, HAZARD_UNKNOWN, TerrainInputError,
-  gridRasterGeoreference, hazardMap, readGeoTiff, readJsonGrid, readPngHeightmap, toDegrees, validCount, writeGeoTiff,
+  gridGeometry, gridRasterGeoreference, hazardMap, readGeoTiff, readJsonGrid, readPngHeightmap, toDegrees, validCount, writeGeoTiff,
 } from '../../terrain/index.ts';
 
 const CAUTION = 'Preliminary design and trade studies only; not flight software. Verify with high-fidelity simulation and your organisation\'s assurance process.';
@@ -141,20 +141,16 @@ function stats(values: Float32Array, scale = 1) {
 export function hazardSummary(path: string, format: string, grid: ElevationGrid, map: HazardMap, given: HazardLimits) {
   const count = (bit: number) => map.flags.reduce((n, f) => n + (f & bit ? 1 : 0), 0);
   const deg = 180 / Math.PI;
+  const valid = validCount(grid);
   return {
     tool: 'landreach hazard',
     caution: CAUTION,
     input: {
       path,
       format,
-      width: grid.width,
-      height: grid.height,
-      pixelSizeX_m: grid.pixelSizeX_m,
-      pixelSizeY_m: grid.pixelSizeY_m,
-      originEast_m: grid.originEast_m,
-      originNorth_m: grid.originNorth_m,
-      validCells: validCount(grid),
-      noDataCells: grid.width * grid.height - validCount(grid),
+      ...gridGeometry(grid),
+      validCells: valid,
+      noDataCells: grid.width * grid.height - valid,
       georeference: grid.georeference ?? null,
     },
     limits: {
