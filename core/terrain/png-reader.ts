@@ -103,11 +103,10 @@ function unfilter(raw: Uint8Array, height: number, rowBytes: number, bpp: number
   return out;
 }
 
-function checkOption(name: string, v: number | undefined, positive: boolean): void {
+function checkOption(name: string, v: number | undefined, rule: 'positive' | 'non-zero' | 'finite'): void {
   if (v === undefined) return;
-  if (!Number.isFinite(v) || (positive && v <= 0) || (!positive && v === 0 && name === 'heightScale_m')) {
-    throw new TerrainInputError(`invalid ${name}: ${v} (must be a finite number${positive ? ' > 0' : ''})`);
-  }
+  const ok = Number.isFinite(v) && (rule === 'positive' ? v > 0 : rule === 'non-zero' ? v !== 0 : true);
+  if (!ok) throw new TerrainInputError(`invalid ${name}: ${v} (must be a finite number${rule === 'positive' ? ' > 0' : rule === 'non-zero' ? ', not 0' : ''})`);
 }
 
 /** Reads a greyscale PNG heightmap into an ElevationGrid. Errors are TerrainInputError. */
@@ -115,11 +114,12 @@ export async function readPngHeightmap(bytes: Uint8Array, options: PngHeightmapO
   const source = options.sourceName ?? 'PNG heightmap';
   if (options.pixelSize_m === undefined) throw new TerrainInputError('pixelSize_m is required for a PNG heightmap (a PNG has no georeference); e.g. --pixel-size-m 2');
   if (options.heightScale_m === undefined) throw new TerrainInputError('heightScale_m is required for a PNG heightmap (metres per sample step); e.g. --height-scale-m 0.01');
-  checkOption('pixelSize_m', options.pixelSize_m, true);
-  checkOption('pixelSizeY_m', options.pixelSizeY_m, true);
-  checkOption('heightScale_m', options.heightScale_m, false);
-  if (options.heightScale_m === 0) throw new TerrainInputError('invalid heightScale_m: 0 (must be non-zero)');
-  checkOption('heightOffset_m', options.heightOffset_m, false);
+  checkOption('pixelSize_m', options.pixelSize_m, 'positive');
+  checkOption('pixelSizeY_m', options.pixelSizeY_m, 'positive');
+  checkOption('heightScale_m', options.heightScale_m, 'non-zero');
+  checkOption('heightOffset_m', options.heightOffset_m, 'finite');
+  checkOption('originEast_m', options.originEast_m, 'finite');
+  checkOption('originNorth_m', options.originNorth_m, 'finite');
   if (bytes.length < 8 || SIGNATURE.some((b, i) => bytes[i] !== b)) fail(source, 'not a PNG file (bad signature)');
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   let pos = 8;

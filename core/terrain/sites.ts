@@ -88,17 +88,34 @@ export function rankSites(grid: ElevationGrid, hazard: HazardMap, reach: Reachab
   if (!Number.isInteger(count) || count < 1 || count > 1000) throw new TerrainInputError(`invalid count: ${count} (must be an integer from 1 to 1000)`);
   if (!Number.isFinite(margin) || margin < 0) throw new TerrainInputError(`invalid margin_m: ${margin} (must be a number ≥ 0)`);
   if (!Number.isFinite(sep) || sep < 0) throw new TerrainInputError(`invalid minSeparation_m: ${sep} (must be a number ≥ 0)`);
-  const candidates: number[] = [];
-  for (let k = 0; k < reach.reachable.length; k++) {
-    if (reach.reachable[k] && hazard.flags[k] === 0 && hazard.hazardDistance_m[k] >= margin && Number.isFinite(reach.propellant_kg[k])) {
-      candidates.push(k);
+  const eligible = (k: number) =>
+    reach.reachable[k] && hazard.flags[k] === 0 && hazard.hazardDistance_m[k] >= margin && Number.isFinite(reach.propellant_kg[k]);
+  let size = 0;
+  for (let k = 0; k < reach.reachable.length; k++) if (eligible(k)) size++;
+  const heap = new Int32Array(size);
+  for (let k = 0, j = 0; k < reach.reachable.length; k++) if (eligible(k)) heap[j++] = k;
+  // Increasing propellant, then larger hazard distance, then index. A binary heap (built in O(n), popped
+  // lazily) instead of a full sort: only the first few hundred candidates are ever looked at.
+  const prop = reach.propellant_kg, dist = hazard.hazardDistance_m;
+  const before = (p: number, q: number) => prop[p] < prop[q] || (prop[p] === prop[q] && (dist[p] > dist[q] || (dist[p] === dist[q] && p < q)));
+  const siftDown = (i: number) => {
+    while (true) {
+      const l = 2 * i + 1, r = l + 1;
+      let m = i;
+      if (l < size && before(heap[l], heap[m])) m = l;
+      if (r < size && before(heap[r], heap[m])) m = r;
+      if (m === i) return;
+      const t = heap[i]; heap[i] = heap[m]; heap[m] = t;
+      i = m;
     }
-  }
-  candidates.sort((p, q) => reach.propellant_kg[p] - reach.propellant_kg[q] || hazard.hazardDistance_m[q] - hazard.hazardDistance_m[p] || p - q);
+  };
+  for (let i = (size >> 1) - 1; i >= 0; i--) siftDown(i);
   const sites: CandidateSite[] = [];
   const deg = 180 / Math.PI;
-  for (const k of candidates) {
-    if (sites.length >= count) break;
+  while (size > 0 && sites.length < count) {
+    const k = heap[0];
+    heap[0] = heap[--size];
+    siftDown(0);
     const col = k % grid.width;
     const row = (k - col) / grid.width;
     const east = cellEast(grid, col);
@@ -110,8 +127,8 @@ export function rankSites(grid: ElevationGrid, hazard: HazardMap, reach: Reachab
       east_m: east,
       north_m: north,
       height_m: grid.heights[k],
-      propellant_kg: reach.propellant_kg[k],
-      hazardDistance_m: hazard.hazardDistance_m[k],
+      propellant_kg: prop[k],
+      hazardDistance_m: dist[k],
       footprintSlope_deg: hazard.footprintSlope_rad[k] * deg,
       roughness_m: hazard.roughness_m[k],
     });

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import type { ReachabilityGrid } from '../../../core/terrain/index.ts';
 import { TerrainInputError, checkTerrainClearance, gridFromFunction, hazardMap, rankSites, safeReachableSet } from '../../../core/terrain/index.ts';
 
@@ -44,6 +45,27 @@ describe('safe reachable set and candidate sites', () => {
     }
     expect(sites[0].east_m).toBe(30.5);
     expect(sites[0].height_m).toBe(50);
+  });
+
+  it('equals a plain sort-and-thin on random propellant fields (property)', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 0, max: 20 }), { minLength: 1600, maxLength: 1600 }), fc.integer({ min: 1, max: 12 }), (p, count) => {
+        const R = reach();
+        R.propellant_kg = Float32Array.from(p); // many ties: exercises the tie-breaks
+        const got = rankSites(grid, map, R, { count, margin_m: 3, minSeparation_m: 5 });
+        const order = [...Array(1600).keys()]
+          .filter((k) => R.reachable[k] && map.flags[k] === 0 && map.hazardDistance_m[k] >= 3)
+          .sort((a, b) => R.propellant_kg[a] - R.propellant_kg[b] || map.hazardDistance_m[b] - map.hazardDistance_m[a] || a - b);
+        const want: number[] = [];
+        for (const k of order) {
+          if (want.length >= count) break;
+          const e = (k % 40) + 0.5, n = -(Math.floor(k / 40) + 0.5);
+          if (want.every((j) => ((j % 40) + 0.5 - e) ** 2 + (-(Math.floor(j / 40) + 0.5) - n) ** 2 >= 25)) want.push(k);
+        }
+        expect(got.map((s) => s.row * 40 + s.col)).toEqual(want);
+      }),
+      { numRuns: 50, seed: 21 },
+    );
   });
 
   it('refuses a reachability grid of another size, pointing to resampleReachability', () => {
