@@ -34,6 +34,13 @@ const TAG_TRANSFORMATION = 'ModelTransformation';
 const WGS84_A = 6378137;
 const DEG = Math.PI / 180;
 
+/**
+ * TIFF Compression values read: none, LZW (our bounded decoder), Deflate (both codes), PackBits, LERC.
+ * Refused: JPEG and WebP (lossy, 8-bit: not elevation), and ZSTD, whose decoder in the package has no
+ * output bound on a corrupt frame (seeded fuzzing ran it out of memory).
+ */
+const COMPRESSIONS: Record<number, string> = { 1: 'none', 5: 'LZW', 8: 'Deflate', 32946: 'Deflate', 32773: 'PackBits', 34887: 'LERC' };
+
 /** EPSG unit-of-measure codes for lengths → metres (EPSG 9001 metre, 9002 foot, 9003 US survey foot, 9036 kilometre). */
 const LINEAR_UNIT_M: Record<number, number> = { 9001: 1, 9002: 0.3048, 9003: 1200 / 3937, 9036: 1000 };
 
@@ -149,6 +156,10 @@ async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadO
   const bits = image.getBitsPerSample(0);
   if (![8, 16, 32, 64].includes(bits) || ![1, 2, 3].includes(sampleFormat) || (sampleFormat === 3 && bits < 32)) {
     fail(source, `unsupported sample type (SampleFormat ${sampleFormat}, ${bits} bits); use 8/16/32-bit integers or 32/64-bit floats`);
+  }
+  const compression = Number(image.getFileDirectory().getValue('Compression' as never) ?? 1);
+  if (!(compression in COMPRESSIONS)) {
+    fail(source, `uses TIFF compression ${compression}, which this reader does not decode (it reads none, LZW, Deflate, PackBits and LERC); re-save it, e.g. gdal_translate -co COMPRESS=DEFLATE`);
   }
   const [c0, r0, c1, r1] = options.window ?? [0, 0, fullW, fullH];
   if (![c0, r0, c1, r1].every(Number.isInteger) || c0 < 0 || r0 < 0 || c1 > fullW || r1 > fullH || c1 <= c0 || r1 <= r0) {

@@ -1,6 +1,6 @@
 /**
  * Seeded fuzzing (fast-check) of the GeoTIFF reader on files GDAL 3.6 writes with compression and
- * tiling (deflate + float predictor, LZW, PackBits): corrupted or truncated bytes must give a grid or
+ * tiling (deflate + float predictor, LZW, PackBits, LERC): corrupted or truncated bytes must give a grid or
  * a TerrainInputError — never another error type, never a hang.
  */
 import { afterAll, describe, expect, it } from 'vitest';
@@ -17,6 +17,7 @@ describe.skipIf(!gdalAvailable())('GeoTIFF reader fuzzing on GDAL-written compre
     ['deflate', ['-ot', 'Float32', '-co', 'COMPRESS=DEFLATE', '-co', 'PREDICTOR=3', '-co', 'TILED=YES', '-co', 'BLOCKXSIZE=16', '-co', 'BLOCKYSIZE=16']],
     ['lzw', ['-ot', 'Int16', '-co', 'COMPRESS=LZW', '-co', 'PREDICTOR=2']],
     ['packbits', ['-ot', 'Int16', '-co', 'COMPRESS=PACKBITS']],
+    ['lerc', ['-ot', 'Float32', '-co', 'COMPRESS=LERC', '-co', 'MAX_Z_ERROR=0.01']],
   ];
   for (const [name, options] of variants) {
     it(`${name}: corrupted or truncated files fail cleanly`, async () => {

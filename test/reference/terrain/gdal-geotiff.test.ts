@@ -87,6 +87,15 @@ describe.skipIf(!gdalAvailable())('GeoTIFFs written by GDAL', () => {
     expectMatchesXyz(await readGeoTiff(bytes(floats)), floats, -99999);
   });
 
+  it('LERC (lossless here) reads GDAL\'s values; ZSTD and JPEG are refused with the fix', async () => {
+    const lerc = makeTif('lerc', ['-ot', 'Float32', '-a_nodata', '-99999', '-co', 'COMPRESS=LERC', '-co', 'MAX_Z_ERROR=0']);
+    expectMatchesXyz(await readGeoTiff(bytes(lerc)), lerc, -99999);
+    const zstd = makeTif('zstd', ['-ot', 'Float32', '-co', 'COMPRESS=ZSTD']);
+    await expect(readGeoTiff(bytes(zstd))).rejects.toThrow(/compression 50000.*gdal_translate -co COMPRESS=DEFLATE/);
+    const jpeg = makeTif('jpeg', ['-ot', 'Byte', '-scale', '-co', 'COMPRESS=JPEG']);
+    await expect(readGeoTiff(bytes(jpeg))).rejects.toThrow(/compression 7/);
+  });
+
   it('PixelIsPoint: the tiepoint names a pixel centre; cell centres match GDAL', async () => {
     const tif = makeTif('point', ['-ot', 'Float32', '-a_nodata', '-99999', '-mo', 'AREA_OR_POINT=Point']);
     const info = gdalinfoJson(tif);
