@@ -19,6 +19,7 @@ const USAGE = `Usage: landreach hazard DEM --out DIR [options]
 Reads an elevation model (single-band GeoTIFF, 16-bit greyscale PNG heightmap, or Landreach JSON grid)
 and writes into DIR:
   slope.tif        Horn (1981) slope at DEM resolution, degrees (Float32; NaN at edges / next to no-data)
+  footprint-slope.tif  slope of the plane fitted over the lander footprint, degrees (what the mask uses)
   roughness.tif    max (or RMS) residual above/below the plane fitted over the lander footprint, m
   hazard.tif       hazard flags (UInt8): 0 safe, +1 slope, +2 roughness, +4 unknown (no data or edge),
                    8 within the safety margin of a hazard
@@ -171,7 +172,7 @@ export function hazardSummary(path: string, format: string, grid: ElevationGrid,
       footprintSlope_deg: stats(map.footprintSlope_rad, deg),
       roughness_m: stats(map.roughness_m),
     },
-    outputs: { slope: 'slope.tif', roughness: 'roughness.tif', hazard: 'hazard.tif' },
+    outputs: { slope: 'slope.tif', footprintSlope: 'footprint-slope.tif', roughness: 'roughness.tif', hazard: 'hazard.tif' },
     hazardCodes: { 0: 'safe', 1: 'slope', 2: 'roughness', 4: 'unknown (no data or footprint off the grid)', 8: 'within the safety margin' },
   };
 }
@@ -194,7 +195,14 @@ async function run(args: string[], io: CliIo): Promise<number> {
     safetyMargin_m: num(flags, 'margin-m'),
     roughnessMeasure: roughness as 'max' | 'rms' | undefined,
   };
-  const outputs = ['slope.tif', 'roughness.tif', 'hazard.tif', 'hazard-summary.json'].map((f) => join(outDir, f));
+  const files = {
+    slope: join(outDir, 'slope.tif'),
+    footprintSlope: join(outDir, 'footprint-slope.tif'),
+    roughness: join(outDir, 'roughness.tif'),
+    hazard: join(outDir, 'hazard.tif'),
+    summary: join(outDir, 'hazard-summary.json'),
+  };
+  const outputs = Object.values(files);
   if (outputs.includes(demPath)) throw new UsageError(`--out would overwrite the input DEM '${demPath}'; choose another folder`);
   if (!flags.overwrite) {
     for (const p of outputs) if (await exists(p)) throw new UsageError(`'${p}' already exists; pass --overwrite to replace it or choose another --out`);
@@ -207,11 +215,12 @@ async function run(args: string[], io: CliIo): Promise<number> {
     const geo = gridRasterGeoreference(grid);
     await mkdir(outDir, { recursive: true });
     const common = { width: grid.width, height: grid.height, georeference: geo };
-    await writeAtomic(outputs[0], writeGeoTiff({ ...common, data: toDegrees(map.slope_rad), noData: NaN, description: 'Horn (1981) slope, degrees' }));
-    await writeAtomic(outputs[1], writeGeoTiff({ ...common, data: map.roughness_m, noData: NaN, description: `footprint roughness (${map.limits.roughnessMeasure}), metres` }));
-    await writeAtomic(outputs[2], writeGeoTiff({ ...common, data: map.flags, description: 'hazard flags: 0 safe, 1 slope, 2 roughness, 4 unknown, 8 margin' }));
+    await writeAtomic(files.slope, writeGeoTiff({ ...common, data: toDegrees(map.slope_rad), noData: NaN, description: 'Horn (1981) slope, degrees' }));
+    await writeAtomic(files.footprintSlope, writeGeoTiff({ ...common, data: toDegrees(map.footprintSlope_rad), noData: NaN, description: `footprint-plane slope over ${map.limits.landerDiameter_m} m, degrees` }));
+    await writeAtomic(files.roughness, writeGeoTiff({ ...common, data: map.roughness_m, noData: NaN, description: `footprint roughness (${map.limits.roughnessMeasure}), metres` }));
+    await writeAtomic(files.hazard, writeGeoTiff({ ...common, data: map.flags, description: 'hazard flags: 0 safe, 1 slope, 2 roughness, 4 unknown, 8 margin' }));
     const summary = hazardSummary(demPath, format, grid, map, limits);
-    await writeAtomic(outputs[3], JSON.stringify(summary, null, 2) + '\n');
+    await writeAtomic(files.summary, JSON.stringify(summary, null, 2) + '\n');
     io.stdout(`safe fraction ${(100 * map.safeFraction).toFixed(2)} % (${map.safeCells} of ${grid.width * grid.height} cells); wrote ${outDir}\n`);
     if (!map.roughnessAssessed) io.stderr('note: the DEM is coarser than half the lander diameter, so roughness was not assessed\n');
     return 0;

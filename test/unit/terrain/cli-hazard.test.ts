@@ -34,6 +34,8 @@ describe('landreach hazard', () => {
     expect(out.stdout).toMatch(/safe fraction/);
     const slope = await readGeoTiff(new Uint8Array(readFileSync(join(dir, 'a', 'slope.tif'))));
     expect(slope.heights[10 * 40 + 5]).toBeCloseTo(12, 3); // degrees
+    const fp = await readGeoTiff(new Uint8Array(readFileSync(join(dir, 'a', 'footprint-slope.tif'))));
+    expect(fp.heights[10 * 40 + 5]).toBeCloseTo(12, 3);
     const hazard = await readGeoTiff(new Uint8Array(readFileSync(join(dir, 'a', 'hazard.tif'))));
     expect(hazard.heights[10 * 40 + 5]).toBe(1); // slope hazard
     expect(hazard.heights[10 * 40 + 30]).toBe(0); // flat and safe
