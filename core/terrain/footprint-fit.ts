@@ -118,10 +118,7 @@ export function fitFootprint(grid: ElevationGrid, diameter_m: number, measure: R
       const k = r * w + c;
       slope[k] = Math.atan(Math.sqrt(b * b + cc * cc));
       const a = s / n + zRef; // plane height at the centre
-      const step = b * dx;
-      const acc = rms
-        ? residualSumSquares(z, w, r, c, rr, half, a, b * dx, cc * dy, step)
-        : residualMaxAbs(z, w, r, c, rr, half, a, b * dx, cc * dy, step);
+      const acc = rms ? residualSumSquares(z, w, r, c, rr, half, a, b * dx, cc * dy) : residualMaxAbs(z, w, r, c, rr, half, a, b * dx, cc * dy);
       rough[k] = rms ? Math.sqrt(acc / n) : acc;
     }
   }
@@ -129,10 +126,11 @@ export function fitFootprint(grid: ElevationGrid, diameter_m: number, measure: R
 }
 
 /**
- * Largest |z − plane| over the disc rows (plane = a + bx·(column offset) + cy·(north offset)); kept as a
- * small monomorphic function so the JIT compiles the hot loop tightly.
+ * Largest |z − plane| over the disc rows, plane = a + bx·(column offset) − cy·(row offset) (bx, cy: the
+ * plane's change per column east and per row north). This and residualSumSquares are the hot loops:
+ * two small monomorphic functions rather than one with a branch inside the loop.
  */
-function residualMaxAbs(z: Float32Array, w: number, r: number, c: number, rr: number, half: Int32Array, a: number, bx: number, cy: number, step: number): number {
+function residualMaxAbs(z: Float32Array, w: number, r: number, c: number, rr: number, half: Int32Array, a: number, bx: number, cy: number): number {
   let hi = 0, lo = 0;
   for (let i = 0; i < half.length; i++) {
     const hw = half[i];
@@ -144,13 +142,14 @@ function residualMaxAbs(z: Float32Array, w: number, r: number, c: number, rr: nu
       const e = z[q] - plane;
       if (e > hi) hi = e;
       else if (e < lo) lo = e;
-      plane += step;
+      plane += bx;
     }
   }
   return hi > -lo ? hi : -lo;
 }
 
-function residualSumSquares(z: Float32Array, w: number, r: number, c: number, rr: number, half: Int32Array, a: number, bx: number, cy: number, step: number): number {
+/** Σ (z − plane)² over the disc rows (same plane as residualMaxAbs). */
+function residualSumSquares(z: Float32Array, w: number, r: number, c: number, rr: number, half: Int32Array, a: number, bx: number, cy: number): number {
   let acc = 0;
   for (let i = 0; i < half.length; i++) {
     const hw = half[i];
@@ -161,7 +160,7 @@ function residualSumSquares(z: Float32Array, w: number, r: number, c: number, rr
     for (let q = first; q <= last; q++) {
       const e = z[q] - plane;
       acc += e * e;
-      plane += step;
+      plane += bx;
     }
   }
   return acc;
