@@ -7,12 +7,12 @@ import { resolve, join, basename } from 'node:path';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import type { ElevationGrid, HazardLimits, HazardMap } from '../../terrain/index.ts';
+import { CAUTION } from '../../study/provenance.ts';
 import {
   DEFAULT_HAZARD_LIMITS, HAZARD_MARGIN, HAZARD_ROUGHNESS, HAZARD_SLOPE, HAZARD_UNKNOWN, TerrainInputError,
   gridGeometry, gridRasterGeoreference, hazardMap, readGeoTiff, readJsonGrid, readPngHeightmap, toDegrees, validCount, writeGeoTiff,
 } from '../../terrain/index.ts';
 
-const CAUTION = 'Preliminary design and trade studies only; not flight software. Verify with high-fidelity simulation and your organisation\'s assurance process.';
 
 const USAGE = `Usage: landreach hazard DEM --out DIR [options]
 
