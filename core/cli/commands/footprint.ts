@@ -12,21 +12,17 @@ import { join } from 'node:path';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { readStudy, writeFilesAtomically } from '../files.ts';
-import { studyToDescent, type Study } from '../../study/index.ts';
+import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 import { footprintCsv, footprintGeoJson, footprintReport, type FootprintSummary } from '../../study/footprintExport.ts';
 import { footprintSvg, niceStep } from '../../study/footprintSvg.ts';
 import { sampleColormap, VIRIDIS } from '../../study/colormap.ts';
-import { computeFootprint, type FootprintProgress, type RowJob } from '../../footprint/engine.ts';
+import { runStudyFootprint } from '../footprintRun.ts';
 import { guaranteedDivertRadius, propellantRegions, regionBounds } from '../../footprint/contours.ts';
-import { countByStatus, TARGET, type FieldRow, type FootprintField } from '../../footprint/field.ts';
+import { countByStatus, TARGET, type FootprintField } from '../../footprint/field.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
-import type { DescentFootprintContext } from '../../footprint/descentEvaluator.ts';
-import { JobPool } from '../../parallel/pool.ts';
-import { nodeWorkerFactory } from '../../parallel/nodeWorker.ts';
 
-/** Nodes for footprint targets: at N = 30 the demo study's propellant is within 0.04 kg of N = 200 (DEVELOPERS.md). */
-export const FOOTPRINT_NODES = 30;
+import { FOOTPRINT_NODES } from '../footprintRun.ts';
 
 const USAGE = `Usage: landreach footprint STUDY.json --out DIR [options]
 
@@ -117,14 +113,6 @@ function parseArgs(args: string[]): Options {
   return o;
 }
 
-function progressLine(p: FootprintProgress): string {
-  const pct = (100 * p.targetsDone) / p.targetsTotal;
-  const width = 30;
-  const fill = Math.round((width * p.targetsDone) / p.targetsTotal);
-  const eta = Number.isFinite(p.remaining_s) ? `${p.remaining_s.toFixed(0)} s left` : '…';
-  return `[${'#'.repeat(fill)}${'.'.repeat(width - fill)}] ${pct.toFixed(0).padStart(3)} %  ${p.targetsDone}/${p.targetsTotal} targets  ${p.rate_per_s.toFixed(1)} /s  ${eta}`;
-}
-
 /** Six round contour levels from the cheapest target up to the budget. */
 export function defaultLevels(field: FootprintField, budget: number): number[] {
   let min = Infinity;
@@ -144,49 +132,17 @@ export const footprintCommand: CliCommand = {
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parseArgs(args);
     const study: Study = readStudy(o.study);
-    const d = studyToDescent(study);
     const reserve = o.reserve ?? study.vehicle.propellantReserve_kg;
     const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
     if (reserve >= usable) throw new UsageError(`--reserve-kg ${reserve}: must be below the usable propellant, ${usable} kg (wet minus dry mass)`);
     if (existsSync(o.out) && !statSync(o.out).isDirectory()) throw new UsageError(`--out ${o.out}: exists and is not a folder`);
     mkdirSync(o.out, { recursive: true });
     const budget = usable - reserve;
-    // Targets are solved against the dry mass alone; the reserve is a contour level, so one run serves any reserve.
-    const context: DescentFootprintContext = {
-      setup: { ...d.setup, nodes: o.nodes, vehicle: { ...d.setup.vehicle, dryMass: study.vehicle.dryMass_kg } },
-      ignition: d.ignition,
-      targetHeight_m: d.target[2],
-    };
     const grid = makeTargetGrid({ halfWidthEast_m: o.extent, halfWidthNorth_m: o.extent, nx: o.nx, ny: o.ny });
     const inputs = { study, grid: { nx: o.nx, ny: o.ny, extent_m: o.extent }, nodes: o.nodes, reserve_kg: reserve };
     const hash = await inputsHash(inputs);
-    const pool = new JobPool<RowJob, FieldRow>(nodeWorkerFactory(new URL('../../footprint/nodeWorker.mjs', import.meta.url)), o.workers);
-    const controller = new AbortController();
-    const onSigint = () => {
-      io.stderr('\nstopping: writing the rows that finished…\n');
-      controller.abort();
-    };
-    process.once('SIGINT', onSigint);
     io.stderr(`footprint of '${study.name}': ${o.nx} × ${o.ny} targets, ±${o.extent} m, N = ${o.nodes}, ${o.workers} worker(s)\n`);
-    let lastPrint = 0;
-    let run;
-    try {
-      run = await computeFootprint(grid, pool, {
-        context,
-        signal: controller.signal,
-        onRow: (_r, p) => {
-          const now = Date.now();
-          if (io.interactive) io.stderr(`\r${progressLine(p)}`);
-          else if (now - lastPrint > 2000 || p.rowsDone === p.rowsTotal) {
-            io.stderr(progressLine(p) + '\n');
-            lastPrint = now;
-          }
-        },
-      });
-    } finally {
-      process.removeListener('SIGINT', onSigint);
-      pool.close();
-    }
+    const run = await runStudyFootprint(study, grid, { nodes: o.nodes, workers: o.workers }, io);
     if (io.interactive) io.stderr('\n');
     const field = run.field;
     const counts = countByStatus(field);
