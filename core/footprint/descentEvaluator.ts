@@ -70,7 +70,8 @@ export function descentEvaluator(ctx: DescentFootprintContext): TargetEvaluator 
     const out: TargetOutcome = {
       code: res.status === 'solved' ? TARGET.reachable : res.status === 'unreachable' ? TARGET.unreachable : TARGET.failed,
       propellant_kg: res.status === 'solved' ? res.propellant : NaN,
-      timeOfFlight_s: res.status === 'solved' ? res.timeOfFlight : NaN,
+      // Unreachable: the time of flight of the closest-approach (minimum-landing-error) trajectory.
+      timeOfFlight_s: res.status === 'solved' || res.status === 'unreachable' ? res.timeOfFlight : NaN,
       peakTilt_deg: res.status === 'solved' ? r.peakTilt * RAD : NaN,
       miss_m: res.status === 'solved' ? 0 : res.status === 'unreachable' ? res.miss : NaN,
       solves: res.solves,
