@@ -1,0 +1,78 @@
+/**
+ * Pure helpers for the scene's view furniture: preset camera poses, scale bar, north arrow.
+ * Scene frame: x east, y north, z up.
+ */
+
+export interface SceneBounds {
+  minEast: number;
+  maxEast: number;
+  minNorth: number;
+  maxNorth: number;
+  minZ: number;
+  maxZ: number;
+}
+
+export interface CameraPose {
+  position: [number, number, number];
+  target: [number, number, number];
+}
+
+export type ViewPreset = 'top' | 'oblique';
+
+/**
+ * Camera pose that frames the bounds. `top`: straight down, north up. `oblique`: from the
+ * south-south-west, 35° above the horizon (shows relief without hiding the far side).
+ */
+export function presetPose(preset: ViewPreset, b: SceneBounds, verticalFov_deg: number, aspect: number): CameraPose {
+  const cx = (b.minEast + b.maxEast) / 2;
+  const cy = (b.minNorth + b.maxNorth) / 2;
+  const cz = (b.minZ + b.maxZ) / 2;
+  const halfWidth = (b.maxEast - b.minEast) / 2;
+  const halfHeight = (b.maxNorth - b.minNorth) / 2;
+  const fov = (verticalFov_deg * Math.PI) / 180;
+  // Distance at which the larger half-extent fills the view (horizontal fov from the aspect ratio).
+  const hfov = 2 * Math.atan(Math.tan(fov / 2) * aspect);
+  const fit = Math.max(halfHeight / Math.tan(fov / 2), halfWidth / Math.tan(hfov / 2)) * 1.08;
+  if (preset === 'top') return { position: [cx, cy, b.maxZ + fit], target: [cx, cy, cz] };
+  const elevation = (35 * Math.PI) / 180;
+  const azimuth = (200 * Math.PI) / 180; // direction from target to camera, clockwise from north
+  const d = fit * 1.25;
+  return {
+    position: [cx + d * Math.cos(elevation) * Math.sin(azimuth), cy + d * Math.cos(elevation) * Math.cos(azimuth), cz + d * Math.sin(elevation)],
+    target: [cx, cy, cz],
+  };
+}
+
+/** Largest 1, 2 or 5 × 10ᵏ not above `max`. */
+export function niceLength(max: number): number {
+  if (!(max > 0) || !Number.isFinite(max)) throw new Error(`invalid scale length: ${max} (must be a positive number)`);
+  const magnitude = 10 ** Math.floor(Math.log10(max));
+  for (const m of [5, 2, 1]) if (m * magnitude <= max * (1 + 1e-12)) return m * magnitude;
+  return magnitude;
+}
+
+export function formatDistance(metres: number): string {
+  return metres >= 1000 ? `${Number((metres / 1000).toPrecision(6))} km` : `${Number(metres.toPrecision(6))} m`;
+}
+
+/** A scale bar at most `maxPixels` long for a view showing `metresPerPixel` at its centre. */
+export function scaleBar(metresPerPixel: number, maxPixels: number): { length_m: number; pixels: number; label: string } {
+  const length_m = niceLength(metresPerPixel * maxPixels);
+  return { length_m, pixels: length_m / metresPerPixel, label: formatDistance(length_m) };
+}
+
+/** Ground metres per screen pixel at distance `distance_m` for a perspective camera. */
+export function metresPerPixel(distance_m: number, verticalFov_deg: number, viewportHeight_px: number): number {
+  return (2 * distance_m * Math.tan((verticalFov_deg * Math.PI) / 360)) / viewportHeight_px;
+}
+
+/**
+ * Screen angle of north, radians clockwise from screen-up, from the camera's world matrix
+ * (column-major 4×4, as three.js Matrix4.elements). North (0, 1, 0) is projected onto the camera's
+ * right (column 0) and up (column 1) axes.
+ */
+export function northAngle(cameraWorld: ArrayLike<number>): number {
+  const right = cameraWorld[1]; // right-axis north component
+  const up = cameraWorld[5]; // up-axis north component
+  return Math.atan2(right, up);
+}
