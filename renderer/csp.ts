@@ -27,11 +27,15 @@ export const DEV_SERVER_CSP = PRODUCTION_CSP.replace("style-src 'self'", "style-
   "connect-src 'self' ws://127.0.0.1:*",
 );
 
-/** Insert the CSP meta as the first element of <head> (it must precede every script and style). */
+/**
+ * Insert the CSP meta right after the charset declaration (or first in <head>): it must precede
+ * every script and style to govern them.
+ */
 export function injectCsp(html: string, policy: string): string {
   if (/http-equiv=["']Content-Security-Policy["']/i.test(html)) throw new Error('index.html already has a CSP meta; the build adds it');
   const meta = `<meta http-equiv="Content-Security-Policy" content="${policy}" />`;
-  const out = html.replace(/<head>/i, `<head>\n    ${meta}`);
+  const charset = /<meta charset=[^>]*>/i;
+  const out = charset.test(html) ? html.replace(charset, (m) => `${m}\n    ${meta}`) : html.replace(/<head>/i, `<head>\n    ${meta}`);
   if (out === html) throw new Error('index.html has no <head> to put the CSP meta in');
   return out;
 }

@@ -42,12 +42,14 @@ export function markerLine(label: string, x: number, y0: number, y1: number, col
 }
 
 export function linearAxis(title: string, extra: Partial<ScaleOptionsByType<'linear'>> = {}): ScaleOptionsByType<'linear'> {
+  const { ticks, grid, ...rest } = extra;
   return {
     type: 'linear',
     title: { display: true, text: title, color: CHART_INK.text },
-    ticks: { color: CHART_INK.text },
-    grid: { color: CHART_INK.grid },
-    ...extra,
+    ...rest,
+    // Nested options are merged so a caller's tick count or grid flag keeps the house colours.
+    ticks: { color: CHART_INK.text, ...(ticks ?? {}) },
+    grid: { color: CHART_INK.grid, ...(grid ?? {}) },
   } as ScaleOptionsByType<'linear'>;
 }
 

@@ -47,13 +47,14 @@ export function throttleChart(t: Pick<TrajectorySeries, 'time_s' | 'thrust_N'> |
   }
   datasets.push(limitLine(`Maximum throttle ${limits.throttleMax}`, limits.throttleMax, t0, t1, SERIES.vermillion));
   datasets.push(limitLine(`Minimum throttle ${limits.throttleMin}`, limits.throttleMin, t0, t1, SERIES.skyBlue));
-  const top = 1.05;
+  const top = 1;
   return lineChart(
     datasets,
     linearAxis('Time since ignition (s)', { min: t0, max: t1 }),
     {
-      y: linearAxis('Throttle fraction', { min: 0, max: top }),
-      thrust: linearAxis('Thrust (kN)', { position: 'right', min: 0, max: (top * limits.thrustMax_N) / 1000, grid: { drawOnChartArea: false } as never }),
+      // Same tick count on both axes so the thrust ticks sit on the throttle grid lines.
+      y: linearAxis('Throttle fraction', { min: 0, max: top, ticks: { count: 6 } as never }),
+      thrust: linearAxis('Thrust (kN)', { position: 'right', min: 0, max: (top * limits.thrustMax_N) / 1000, ticks: { count: 6 } as never, grid: { drawOnChartArea: false } as never }),
     },
     'Throttle and thrust',
   );

@@ -36,7 +36,7 @@ export function presetPose(preset: ViewPreset, b: SceneBounds, verticalFov_deg: 
   if (preset === 'top') return { position: [cx, cy, b.maxZ + fit], target: [cx, cy, cz] };
   const elevation = (35 * Math.PI) / 180;
   const azimuth = (200 * Math.PI) / 180; // direction from target to camera, clockwise from north
-  const d = fit * 1.25;
+  const d = fit;
   return {
     position: [cx + d * Math.cos(elevation) * Math.sin(azimuth), cy + d * Math.cos(elevation) * Math.cos(azimuth), cz + d * Math.sin(elevation)],
     target: [cx, cy, cz],
@@ -75,4 +75,11 @@ export function northAngle(cameraWorld: ArrayLike<number>): number {
   const right = cameraWorld[1]; // right-axis north component
   const up = cameraWorld[5]; // up-axis north component
   return Math.atan2(right, up);
+}
+
+/** Keep screen labels at least `spacing_px` apart, in the given order of priority. */
+export function declutter<T extends { x: number; y: number }>(labels: readonly T[], spacing_px: number): T[] {
+  const kept: T[] = [];
+  for (const label of labels) if (kept.every((k) => Math.hypot(k.x - label.x, k.y - label.y) >= spacing_px)) kept.push(label);
+  return kept;
 }

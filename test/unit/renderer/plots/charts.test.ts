@@ -25,6 +25,9 @@ describe('throttle chart', () => {
     const scales = throttleChart(t, limits).options!.scales! as Record<string, { min?: number; max?: number; title?: { text?: string } }>;
     expect(scales.y.max! * limits.thrustMax_N / 1000).toBeCloseTo(scales.thrust.max!, 10);
     expect(scales.thrust.title!.text).toBe('Thrust (kN)');
+    // Both axes keep the house tick colour when a tick count is given.
+    const ticks = scales as unknown as Record<string, { ticks: { color: string; count?: number } }>;
+    expect(ticks.thrust.ticks).toMatchObject({ count: 6, color: ticks.x.ticks.color });
     expect(scales.x.title!.text).toBe('Time since ignition (s)');
   });
 

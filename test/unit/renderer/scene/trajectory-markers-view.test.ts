@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { PerspectiveCamera, Vector3 } from 'three';
 import { buildTrajectoryGeometry } from '../../../../renderer/scene/trajectory-lines.ts';
 import { dropLinePositions, ellipsePositions } from '../../../../renderer/scene/markers.ts';
-import { metresPerPixel, niceLength, northAngle, presetPose, scaleBar } from '../../../../renderer/scene/view.ts';
+import { declutter, metresPerPixel, niceLength, northAngle, presetPose, scaleBar } from '../../../../renderer/scene/view.ts';
 
 describe('trajectory geometry', () => {
   const n = 11;
@@ -69,6 +69,11 @@ describe('view furniture', () => {
     expect([0.7, 1, 1.9, 2, 4.99, 5, 9.99, 730, 1000, 2600].map(niceLength)).toEqual([0.5, 1, 1, 2, 2, 5, 5, 500, 1000, 2000]);
     expect(scaleBar(10, 120)).toEqual({ length_m: 1000, pixels: 100, label: '1 km' });
     expect(scaleBar(3, 120)).toEqual({ length_m: 200, pixels: 200 / 3, label: '200 m' });
+  });
+
+  it('drops labels closer than the spacing to one already kept', () => {
+    const labels = [{ x: 0, y: 0, v: 1 }, { x: 30, y: 0, v: 2 }, { x: 50, y: 0, v: 3 }, { x: 0, y: 49, v: 4 }];
+    expect(declutter(labels, 48).map((l) => l.v)).toEqual([1, 3, 4]);
   });
 
   it('computes ground metres per pixel of a perspective view: 2 d tan(fov/2) / height', () => {

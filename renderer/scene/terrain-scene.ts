@@ -1,0 +1,223 @@
+/**
+ * The live three.js scene: renderer, camera, controls, lights and the objects made by the pure
+ * builders. Renders on demand (only after a change), so an idle workspace costs no CPU. Owned by
+ * SceneView.svelte, which creates it on mount and disposes it on destroy.
+ */
+import {
+  AmbientLight,
+  BufferGeometry,
+  Color,
+  DirectionalLight,
+  Line,
+  LineBasicMaterial,
+  LineSegments,
+  Mesh,
+  MeshLambertMaterial,
+  PerspectiveCamera,
+  Scene,
+  SphereGeometry,
+  SRGBColorSpace,
+  WebGLRenderer,
+  type Material,
+  type Object3D,
+} from 'three';
+import { OrbitControls } from 'three/addons/controls/OrbitControls.js';
+import { buildContourGeometry, computeContours, niceThresholds, type ContourLabel } from './contour-lines.ts';
+import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
+import { dropLinePositions, lineGeometry, ringPositions } from './markers.ts';
+import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
+import { declutter, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
+
+export const SCENE_BACKGROUND = '#0b0f13';
+const FOV_DEG = 40;
+/** Contour labels closer than this on screen are dropped (the first one placed wins). */
+const LABEL_SPACING_PX = 48;
+
+export interface ViewInfo {
+  scaleBar: { pixels: number; label: string };
+  northAngle_rad: number;
+  contourLabels: { value: number; x: number; y: number }[];
+}
+
+export interface IgnitionMarker {
+  east_m: number;
+  north_m: number;
+  altitude_m: number;
+}
+
+export class TerrainScene {
+  private readonly renderer: WebGLRenderer;
+  private readonly scene = new Scene();
+  private readonly camera = new PerspectiveCamera(FOV_DEG, 1, 1, 1e6);
+  private readonly controls: OrbitControls;
+  private grid: ElevationGrid | null = null;
+  private terrain: Mesh | null = null;
+  private contours: LineSegments | null = null;
+  private labels: ContourLabel[] = [];
+  private markers: Object3D[] = [];
+  private ignition: IgnitionMarker | null = null;
+  private exaggeration = 1;
+  private frame = 0;
+  private disposed = false;
+  /** Frames drawn so far (the browser tests read it to know the scene has drawn). */
+  framesDrawn = 0;
+
+  constructor(
+    private readonly canvas: HTMLCanvasElement,
+    private readonly onview: (info: ViewInfo) => void,
+  ) {
+    // preserveDrawingBuffer: figure export and the pixel-readback test read the canvas after drawing.
+    this.renderer = new WebGLRenderer({ canvas, antialias: true, preserveDrawingBuffer: true });
+    this.renderer.outputColorSpace = SRGBColorSpace;
+    this.renderer.setClearColor(new Color(SCENE_BACKGROUND));
+    this.camera.up.set(0, 0, 1);
+    this.controls = new OrbitControls(this.camera, canvas);
+    this.controls.enableDamping = false;
+    this.controls.screenSpacePanning = true;
+    this.controls.addEventListener('change', () => this.requestRender());
+    this.scene.add(new AmbientLight(0xffffff, 0.55));
+    // Sun from the north-west, 45° up: the cartographic hillshade convention.
+    const sun = new DirectionalLight(0xffffff, 2.2);
+    sun.position.set(-1, 1, Math.SQRT2);
+    this.scene.add(sun);
+  }
+
+  setTerrain(grid: ElevationGrid, exaggeration: number): void {
+    this.grid = grid;
+    this.exaggeration = exaggeration;
+    this.removeObject(this.terrain);
+    const geometry = buildTerrainGeometry(grid, { exaggeration });
+    this.terrain = new Mesh(geometry, new MeshLambertMaterial({ vertexColors: true }));
+    this.scene.add(this.terrain);
+    this.rebuildOverlays();
+    this.setView('oblique');
+  }
+
+  setExaggeration(exaggeration: number): void {
+    if (!this.grid || !this.terrain || exaggeration === this.exaggeration) return;
+    this.exaggeration = exaggeration;
+    setTerrainExaggeration(this.terrain.geometry, this.grid, exaggeration);
+    this.rebuildOverlays();
+    this.requestRender();
+  }
+
+  setIgnition(marker: IgnitionMarker | null): void {
+    this.ignition = marker;
+    this.rebuildMarkers();
+    this.requestRender();
+  }
+
+  setView(preset: ViewPreset): void {
+    const bounds = this.bounds();
+    if (!bounds) return;
+    const pose = presetPose(preset, bounds, FOV_DEG, this.camera.aspect || 1);
+    this.camera.position.set(...pose.position);
+    this.controls.target.set(...pose.target);
+    this.camera.near = Math.max(1, this.camera.position.distanceTo(this.controls.target) / 1000);
+    this.camera.far = this.camera.position.distanceTo(this.controls.target) * 20;
+    this.camera.updateProjectionMatrix();
+    this.controls.update();
+    this.requestRender();
+  }
+
+  resize(width: number, height: number): void {
+    if (width < 1 || height < 1) return;
+    this.renderer.setPixelRatio(Math.min(2, globalThis.devicePixelRatio || 1));
+    this.renderer.setSize(width, height, false);
+    this.camera.aspect = width / height;
+    this.camera.updateProjectionMatrix();
+    this.requestRender();
+  }
+
+  requestRender(): void {
+    if (this.frame || this.disposed) return;
+    this.frame = requestAnimationFrame(() => {
+      this.frame = 0;
+      this.draw();
+    });
+  }
+
+  dispose(): void {
+    this.disposed = true;
+    if (this.frame) cancelAnimationFrame(this.frame);
+    this.controls.dispose();
+    this.scene.traverse((object) => {
+      const { geometry, material } = object as Partial<Mesh>;
+      (geometry as BufferGeometry | undefined)?.dispose();
+      (Array.isArray(material) ? material : material ? [material] : []).forEach((m: Material) => m.dispose());
+    });
+    this.renderer.dispose();
+  }
+
+  private draw(): void {
+    this.renderer.render(this.scene, this.camera);
+    this.framesDrawn++;
+    const height = this.canvas.clientHeight || 1;
+    const distance = this.camera.position.distanceTo(this.controls.target);
+    const bar = scaleBar(metresPerPixel(distance, this.camera.fov, height), 140);
+    const labels = declutter(
+      this.labels.flatMap((label) => {
+        const v = this.camera.position.clone().set(...label.position).project(this.camera);
+        if (v.z > 1 || Math.abs(v.x) > 1 || Math.abs(v.y) > 1) return [];
+        return [{ value: label.value, x: ((v.x + 1) / 2) * this.canvas.clientWidth, y: ((1 - v.y) / 2) * height }];
+      }),
+      LABEL_SPACING_PX,
+    );
+    this.onview({ scaleBar: bar, northAngle_rad: northAngle(this.camera.matrixWorld.elements), contourLabels: labels });
+  }
+
+  private bounds(): SceneBounds | null {
+    if (!this.grid) return null;
+    const g = this.grid;
+    const [lo, hi] = heightRange(g.heights);
+    return {
+      minEast: g.west_m,
+      maxEast: g.west_m + (g.width - 1) * g.pixelSize_m,
+      minNorth: g.north_m - (g.height - 1) * g.pixelSize_m,
+      maxNorth: g.north_m,
+      minZ: lo * this.exaggeration,
+      maxZ: Math.max(hi * this.exaggeration, this.ignition ? (sampleHeight(g, 0, 0) + this.ignition.altitude_m) * this.exaggeration : -Infinity),
+    };
+  }
+
+  private rebuildOverlays(): void {
+    if (!this.grid) return;
+    this.removeObject(this.contours);
+    const [lo, hi] = heightRange(this.grid.heights);
+    const polygons = computeContours(this.grid.heights, this.grid.width, this.grid.height, niceThresholds(lo, hi, 8));
+    const { geometry, labels } = buildContourGeometry(polygons, this.grid, { exaggeration: this.exaggeration, lift_m: 1.5 });
+    this.contours = new LineSegments(geometry, new LineBasicMaterial({ color: 0xf4f1ea, transparent: true, opacity: 0.55 }));
+    this.labels = labels;
+    this.scene.add(this.contours);
+    this.rebuildMarkers();
+  }
+
+  private rebuildMarkers(): void {
+    for (const m of this.markers) this.removeObject(m);
+    this.markers = [];
+    const grid = this.grid;
+    if (!grid) return;
+    const ex = this.exaggeration;
+    const ground = (e: number, n: number) => ((Number.isNaN(sampleHeight(grid, e, n)) ? 0 : sampleHeight(grid, e, n)) + 2) * ex;
+    const span = (grid.width - 1) * grid.pixelSize_m;
+    const target = new Line(lineGeometry(ringPositions(0, 0, span / 60, 48, ground)), new LineBasicMaterial({ color: 0xffffff }));
+    this.markers.push(target);
+    if (this.ignition) {
+      const { east_m, north_m, altitude_m } = this.ignition;
+      const z = (sampleHeight(grid, 0, 0) + altitude_m) * ex;
+      const ball = new Mesh(new SphereGeometry(span / 150, 16, 12), new MeshLambertMaterial({ color: 0xe2a65a, emissive: 0x5a3a10 }));
+      ball.position.set(east_m, north_m, z);
+      const drop = new Line(lineGeometry(dropLinePositions(east_m, north_m, z, ground(east_m, north_m))), new LineBasicMaterial({ color: 0xe2a65a, transparent: true, opacity: 0.7 }));
+      this.markers.push(ball, drop);
+    }
+    for (const m of this.markers) this.scene.add(m);
+  }
+
+  private removeObject(object: Object3D | null): void {
+    if (!object) return;
+    this.scene.remove(object);
+    const { geometry, material } = object as Partial<Mesh>;
+    (geometry as BufferGeometry | undefined)?.dispose();
+    (Array.isArray(material) ? material : material ? [material] : []).forEach((m: Material) => m.dispose());
+  }
+}

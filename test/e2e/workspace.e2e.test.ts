@@ -1,0 +1,120 @@
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
+import * as fs from 'node:fs/promises';
+import { openSession, screenshot, type Session } from './browser.ts';
+import { PRODUCTION_CSP } from '../../renderer/csp.ts';
+import { CAUTION_TEXT } from '../../renderer/caution.ts';
+
+let session: Session;
+
+beforeAll(async () => {
+  session = await openSession(inject('baseUrl'));
+});
+afterAll(async () => {
+  await session?.close();
+});
+
+const field = (id: string) => session.page.locator(`[data-field="${id}"]`);
+
+describe('workspace in Chromium', () => {
+  it('loads the built page under the production CSP without errors', async () => {
+    const { page } = session;
+    await page.getByTestId('status-ok').waitFor();
+    expect(await page.title()).toMatch(/Landreach/);
+    const csp = await page.locator('meta[http-equiv="Content-Security-Policy"]').getAttribute('content');
+    expect(csp).toBe(PRODUCTION_CSP);
+    for (const group of ['planet', 'vehicle', 'ignition', 'constraints', 'reserve', 'grid', 'terrain']) {
+      expect(await page.locator(`details[data-group="${group}"]`).count(), group).toBe(1);
+    }
+    expect(session.problems).toEqual([]);
+  });
+
+  it('shows the caution in the about box', async () => {
+    const { page } = session;
+    await page.getByTestId('about').click();
+    const dialog = page.getByTestId('about-dialog');
+    await dialog.waitFor({ state: 'visible' });
+    expect(await dialog.textContent()).toContain(CAUTION_TEXT);
+    await screenshot(page, 'about-box');
+    await dialog.getByRole('button', { name: 'Close' }).click();
+    await dialog.waitFor({ state: 'hidden' });
+  });
+
+  it('shows an inline error naming the problem and the fix, and undo restores the value', async () => {
+    const { page } = session;
+    const input = field('vehicle.isp_s').locator('input');
+    expect(await input.inputValue()).toBe('228');
+    await input.fill('20');
+    const message = field('vehicle.isp_s').locator('.message');
+    await message.waitFor();
+    expect(await message.textContent()).toMatch(/20 s is below the allowed range\. Enter a value from 50 to 500 s\./);
+    expect(await input.getAttribute('aria-invalid')).toBe('true');
+    expect(await page.getByTestId('status-problems').textContent()).toMatch(/1 input needs fixing/);
+    await screenshot(page, 'field-error');
+    await page.keyboard.press('Control+z');
+    expect(await input.inputValue()).toBe('228');
+    await message.waitFor({ state: 'detached' });
+    await page.getByTestId('status-ok').waitFor();
+    await page.keyboard.press('Control+Shift+z');
+    expect(await input.inputValue()).toBe('20');
+    await page.getByTestId('undo').click();
+    expect(await input.inputValue()).toBe('228');
+  });
+
+  it('shows a cross-field error on the field to fix', async () => {
+    const { page } = session;
+    const dry = field('vehicle.dryMass_kg');
+    await dry.locator('input').fill('2500');
+    expect(await dry.locator('.message').textContent()).toMatch(/Dry mass 2500 kg must be less than the mass at ignition 2400 kg/);
+    await page.keyboard.press('Control+z');
+    await page.getByTestId('status-ok').waitFor();
+  });
+
+  it('draws the terrain: pixel readback of the WebGL canvas finds coloured terrain, not background', async () => {
+    const { page } = session;
+    await page.waitForFunction(() => {
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene?: { framesDrawn: number } };
+      return (canvas?.landreachScene?.framesDrawn ?? 0) > 0;
+    });
+    const stats = await page.evaluate(() => {
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement;
+      const copy = document.createElement('canvas');
+      copy.width = canvas.width;
+      copy.height = canvas.height;
+      const ctx = copy.getContext('2d')!;
+      ctx.drawImage(canvas, 0, 0);
+      const { data } = ctx.getImageData(0, 0, copy.width, copy.height);
+      const background = [0x0b, 0x0f, 0x13];
+      let drawn = 0;
+      const hues = new Set<string>();
+      for (let i = 0; i < data.length; i += 4) {
+        const d = Math.max(Math.abs(data[i] - background[0]), Math.abs(data[i + 1] - background[1]), Math.abs(data[i + 2] - background[2]));
+        if (d > 24) {
+          drawn++;
+          hues.add(`${data[i] >> 5},${data[i + 1] >> 5},${data[i + 2] >> 5}`);
+        }
+      }
+      return { width: copy.width, height: copy.height, fraction: drawn / (data.length / 4), colours: hues.size };
+    });
+    expect(stats.width).toBeGreaterThan(300);
+    // The oblique preset frames the whole terrain: it must cover a good part of the view…
+    expect(stats.fraction).toBeGreaterThan(0.25);
+    // …and show the colour map's range, not one flat colour.
+    expect(stats.colours).toBeGreaterThan(12);
+    await screenshot(page, 'scene-oblique');
+    await page.getByTestId('view-top').click();
+    await page.waitForTimeout(200);
+    await screenshot(page, 'scene-top');
+    expect(await page.getByTestId('scale-bar').textContent()).toMatch(/\d+ (m|km)/);
+  });
+
+  it('saves through the browser fallback as a download holding a valid study', async () => {
+    const { page } = session;
+    await page.getByTestId('study-name').fill('Rim trade (invented)');
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('save').click()]);
+    expect(download.suggestedFilename()).toBe('rim-trade-invented.landreach.json');
+    const doc = JSON.parse(await fs.readFile((await download.path())!, 'utf8'));
+    expect(doc).toMatchObject({ format: 'landreach-study', version: 1, name: 'Rim trade (invented)', vehicle: { isp_s: 228 } });
+    expect(await page.getByTestId('file-state').textContent()).toMatch(/rim-trade-invented\.landreach\.json\s*$/);
+    expect(session.problems).toEqual([]);
+  });
+});
