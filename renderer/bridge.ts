@@ -21,7 +21,6 @@ declare global {
   }
 }
 
-declare const __APP_VERSION__: string;
 
 const RECOVERY_KEY = 'landreach.recovery';
 const STUDY_EXTENSION = '.landreach.json';
