@@ -17,6 +17,8 @@ import {
   Scene,
   SphereGeometry,
   SRGBColorSpace,
+  Vector2,
+  Vector3,
   WebGLRenderer,
   type Material,
   type Object3D,
@@ -26,7 +28,7 @@ import { buildContourGeometry, computeContours, niceThresholds, type ContourLabe
 import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
 import { dropLinePositions, lineGeometry, ringPositions } from './markers.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
-import { declutter, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
+import { declutter, distanceToGround, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
 
 export const SCENE_BACKGROUND = '#0b0f13';
 const FOV_DEG = 40;
@@ -37,6 +39,12 @@ export interface ViewInfo {
   scaleBar: { pixels: number; label: string };
   northAngle_rad: number;
   contourLabels: { value: number; x: number; y: number }[];
+}
+
+/** A rendered frame and the view furniture that belongs on it, in the frame's pixels. */
+export interface SceneSnapshot {
+  image: HTMLCanvasElement;
+  info: ViewInfo;
 }
 
 export interface IgnitionMarker {
@@ -129,6 +137,36 @@ export class TerrainScene {
     this.requestRender();
   }
 
+  /**
+   * Render once at `size` (or the current view size) and return a copy of the pixels, then restore
+   * the view. Used for figure export at a chosen resolution.
+   */
+  snapshot(size: { width: number; height: number } | null): SceneSnapshot {
+    const previous = this.renderer.getSize(new Vector2());
+    const ratio = this.renderer.getPixelRatio();
+    const aspect = this.camera.aspect;
+    if (size) {
+      this.renderer.setPixelRatio(1);
+      this.renderer.setSize(size.width, size.height, false);
+      this.camera.aspect = size.width / size.height;
+      this.camera.updateProjectionMatrix();
+    }
+    this.renderer.render(this.scene, this.camera);
+    const image = document.createElement('canvas');
+    image.width = this.canvas.width;
+    image.height = this.canvas.height;
+    image.getContext('2d')!.drawImage(this.canvas, 0, 0);
+    const info = this.viewInfo(image.width, image.height, image.width / 8);
+    if (size) {
+      this.renderer.setPixelRatio(ratio);
+      this.renderer.setSize(previous.x, previous.y, false);
+      this.camera.aspect = aspect;
+      this.camera.updateProjectionMatrix();
+    }
+    this.requestRender();
+    return { image, info };
+  }
+
   requestRender(): void {
     if (this.frame || this.disposed) return;
     this.frame = requestAnimationFrame(() => {
@@ -152,18 +190,24 @@ export class TerrainScene {
   private draw(): void {
     this.renderer.render(this.scene, this.camera);
     this.framesDrawn++;
-    const height = this.canvas.clientHeight || 1;
-    const distance = this.camera.position.distanceTo(this.controls.target);
-    const bar = scaleBar(metresPerPixel(distance, this.camera.fov, height), 140);
+    this.onview(this.viewInfo(this.canvas.clientWidth || 1, this.canvas.clientHeight || 1, 140));
+  }
+
+  /** Scale bar, north arrow and contour label positions for a view `width` × `height` pixels. */
+  private viewInfo(width: number, height: number, maxBar_px: number): ViewInfo {
+    const forward = this.camera.getWorldDirection(new Vector3());
+    const groundZ = this.grid ? (Number.isNaN(sampleHeight(this.grid, 0, 0)) ? 0 : sampleHeight(this.grid, 0, 0)) * this.exaggeration : 0;
+    const distance = distanceToGround(this.camera.position.toArray(), forward.toArray(), groundZ) ?? this.camera.position.distanceTo(this.controls.target);
+    const bar = scaleBar(metresPerPixel(distance, this.camera.fov, height), maxBar_px);
     const labels = declutter(
       this.labels.flatMap((label) => {
         const v = this.camera.position.clone().set(...label.position).project(this.camera);
         if (v.z > 1 || Math.abs(v.x) > 1 || Math.abs(v.y) > 1) return [];
-        return [{ value: label.value, x: ((v.x + 1) / 2) * this.canvas.clientWidth, y: ((1 - v.y) / 2) * height }];
+        return [{ value: label.value, x: ((v.x + 1) / 2) * width, y: ((1 - v.y) / 2) * height }];
       }),
-      LABEL_SPACING_PX,
+      (LABEL_SPACING_PX * height) / Math.max(1, this.canvas.clientHeight || height),
     );
-    this.onview({ scaleBar: bar, northAngle_rad: northAngle(this.camera.matrixWorld.elements), contourLabels: labels });
+    return { scaleBar: bar, northAngle_rad: northAngle(this.camera.matrixWorld.elements), contourLabels: labels };
   }
 
   private bounds(): SceneBounds | null {
@@ -176,6 +220,7 @@ export class TerrainScene {
       minNorth: g.north_m - (g.height - 1) * g.pixelSize_m,
       maxNorth: g.north_m,
       minZ: lo * this.exaggeration,
+      focusZ: ((lo + hi) / 2) * this.exaggeration,
       maxZ: Math.max(hi * this.exaggeration, this.ignition ? (sampleHeight(g, 0, 0) + this.ignition.altitude_m) * this.exaggeration : -Infinity),
     };
   }

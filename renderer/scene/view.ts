@@ -10,6 +10,8 @@ export interface SceneBounds {
   maxNorth: number;
   minZ: number;
   maxZ: number;
+  /** Height the camera orbits around (default: middle of minZ…maxZ); the ground, not a point in the air. */
+  focusZ?: number;
 }
 
 export interface CameraPose {
@@ -26,7 +28,7 @@ export type ViewPreset = 'top' | 'oblique';
 export function presetPose(preset: ViewPreset, b: SceneBounds, verticalFov_deg: number, aspect: number): CameraPose {
   const cx = (b.minEast + b.maxEast) / 2;
   const cy = (b.minNorth + b.maxNorth) / 2;
-  const cz = (b.minZ + b.maxZ) / 2;
+  const cz = b.focusZ ?? (b.minZ + b.maxZ) / 2;
   const halfWidth = (b.maxEast - b.minEast) / 2;
   const halfHeight = (b.maxNorth - b.minNorth) / 2;
   const fov = (verticalFov_deg * Math.PI) / 180;
@@ -82,4 +84,16 @@ export function declutter<T extends { x: number; y: number }>(labels: readonly T
   const kept: T[] = [];
   for (const label of labels) if (kept.every((k) => Math.hypot(k.x - label.x, k.y - label.y) >= spacing_px)) kept.push(label);
   return kept;
+}
+
+/**
+ * Distance from the camera along its view direction to the horizontal plane z = groundZ, or null
+ * when the view does not point down at it. The scale bar is true on that plane.
+ */
+export function distanceToGround(position: readonly number[], direction: readonly number[], groundZ: number): number | null {
+  const length = Math.hypot(direction[0], direction[1], direction[2]);
+  const dz = direction[2] / length;
+  if (dz > -1e-6) return null;
+  const t = (groundZ - position[2]) / dz;
+  return t > 0 ? t : null;
 }

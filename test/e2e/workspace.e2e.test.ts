@@ -2,7 +2,8 @@ import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import * as fs from 'node:fs/promises';
 import { openSession, screenshot, type Session } from './browser.ts';
 import { PRODUCTION_CSP } from '../../renderer/csp.ts';
-import { CAUTION_TEXT } from '../../renderer/caution.ts';
+import { CAUTION_LINE, CAUTION_TEXT } from '../../renderer/caution.ts';
+import { pngSize, readPngText } from '../../renderer/export/png-metadata.ts';
 
 let session: Session;
 
@@ -115,6 +116,25 @@ describe('workspace in Chromium', () => {
     const doc = JSON.parse(await fs.readFile((await download.path())!, 'utf8'));
     expect(doc).toMatchObject({ format: 'landreach-study', version: 1, name: 'Rim trade (invented)', vehicle: { isp_s: 228 } });
     expect(await page.getByTestId('file-state').textContent()).toMatch(/rim-trade-invented\.landreach\.json\s*$/);
+    expect(session.problems).toEqual([]);
+  });
+
+  it('exports the scene as a 1920 × 1080 PNG with a caption band and text metadata', async () => {
+    const { page } = session;
+    await page.getByTestId('figure-size').selectOption('full-hd');
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-png').click()]);
+    expect(download.suggestedFilename()).toBe('rim-trade-invented-scene.png');
+    const file = (await download.path())!;
+    const png = new Uint8Array(await fs.readFile(file));
+    const size = pngSize(png);
+    expect(size.width).toBe(1920);
+    // The caption band is added below the 1080-pixel scene.
+    expect(size.height).toBeGreaterThan(1080);
+    const text = readPngText(png);
+    expect(text).toMatchObject({ Title: 'Rim trade (invented)', Disclaimer: CAUTION_LINE });
+    expect(text.Software).toMatch(/^Landreach \d+\.\d+\.\d+$/);
+    expect(text.Description).toMatch(/^Study inputs SHA-256 prefix [0-9a-f]{12}$/);
+    await fs.copyFile(file, new URL('../../test-artifacts/exported-scene.png', import.meta.url));
     expect(session.problems).toEqual([]);
   });
 });

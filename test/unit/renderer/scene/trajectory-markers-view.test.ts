@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { PerspectiveCamera, Vector3 } from 'three';
 import { buildTrajectoryGeometry } from '../../../../renderer/scene/trajectory-lines.ts';
 import { dropLinePositions, ellipsePositions } from '../../../../renderer/scene/markers.ts';
-import { declutter, metresPerPixel, niceLength, northAngle, presetPose, scaleBar } from '../../../../renderer/scene/view.ts';
+import { declutter, distanceToGround, metresPerPixel, niceLength, northAngle, presetPose, scaleBar } from '../../../../renderer/scene/view.ts';
 
 describe('trajectory geometry', () => {
   const n = 11;
@@ -69,6 +69,19 @@ describe('view furniture', () => {
     expect([0.7, 1, 1.9, 2, 4.99, 5, 9.99, 730, 1000, 2600].map(niceLength)).toEqual([0.5, 1, 1, 2, 2, 5, 5, 500, 1000, 2000]);
     expect(scaleBar(10, 120)).toEqual({ length_m: 1000, pixels: 100, label: '1 km' });
     expect(scaleBar(3, 120)).toEqual({ length_m: 200, pixels: 200 / 3, label: '200 m' });
+  });
+
+  it('measures the scale-bar distance to the ground plane along the view direction', () => {
+    expect(distanceToGround([0, 0, 1000], [0, 0, -1], 100)).toBeCloseTo(900, 10);
+    // 30° below the horizon from 500 m above the ground: slant range 500 / sin 30° = 1000 m.
+    expect(distanceToGround([0, 0, 600], [Math.cos(Math.PI / 6), 0, -Math.sin(Math.PI / 6)], 100)).toBeCloseTo(1000, 9);
+    expect(distanceToGround([0, 0, 600], [1, 0, 0], 100)).toBeNull();
+    expect(distanceToGround([0, 0, 50], [0, 0, -1], 100)).toBeNull();
+  });
+
+  it('orbits around the focus height when given', () => {
+    const pose = presetPose('top', { minEast: -1, maxEast: 1, minNorth: -1, maxNorth: 1, minZ: 0, maxZ: 100, focusZ: 10 }, 45, 1);
+    expect(pose.target).toEqual([0, 0, 10]);
   });
 
   it('drops labels closer than the spacing to one already kept', () => {
