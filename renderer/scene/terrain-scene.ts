@@ -28,7 +28,7 @@ import { buildContourGeometry, computeContours, niceThresholds, type ContourLabe
 import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
 import { dropLinePositions, lineGeometry, ringPositions } from './markers.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
-import { declutter, distanceToGround, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
+import { declutter, distanceToGround, fitPose, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
 
 export const SCENE_BACKGROUND = '#0b0f13';
 const FOV_DEG = 40;
@@ -118,7 +118,7 @@ export class TerrainScene {
   setView(preset: ViewPreset): void {
     const bounds = this.bounds();
     if (!bounds) return;
-    const pose = presetPose(preset, bounds, FOV_DEG, this.camera.aspect || 1);
+    const pose = fitPose(presetPose(preset, bounds, FOV_DEG, this.camera.aspect || 1), bounds, FOV_DEG, this.camera.aspect || 1);
     this.camera.position.set(...pose.position);
     this.controls.target.set(...pose.target);
     this.camera.near = Math.max(1, this.camera.position.distanceTo(this.controls.target) / 1000);
@@ -165,6 +165,16 @@ export class TerrainScene {
     }
     this.requestRender();
     return { image, info };
+  }
+
+  /** Drawing-buffer pixel where the terrain surface at (east, north) appears, or null if off-view. */
+  projectGroundPoint(east: number, north: number): { x: number; y: number } | null {
+    if (!this.grid) return null;
+    const h = sampleHeight(this.grid, east, north);
+    if (Number.isNaN(h)) return null;
+    const v = new Vector3(east, north, h * this.exaggeration).project(this.camera);
+    if (v.z > 1 || Math.abs(v.x) > 1 || Math.abs(v.y) > 1) return null;
+    return { x: ((v.x + 1) / 2) * this.canvas.width, y: ((1 - v.y) / 2) * this.canvas.height };
   }
 
   requestRender(): void {

@@ -2,6 +2,7 @@
  * Pure helpers for the scene's view furniture: preset camera poses, scale bar, north arrow.
  * Scene frame: x east, y north, z up.
  */
+import { PerspectiveCamera, Vector3 } from 'three';
 
 export interface SceneBounds {
   minEast: number;
@@ -96,4 +97,38 @@ export function distanceToGround(position: readonly number[], direction: readonl
   if (dz > -1e-6) return null;
   const t = (groundZ - position[2]) / dz;
   return t > 0 ? t : null;
+}
+
+/**
+ * Move the camera along the line from `pose.target` through `pose.position` until every corner of
+ * `bounds` projects inside ±`margin` of the view (normalised device coordinates), as close as
+ * possible. Bisection on the distance; 40 halvings are far below a pixel.
+ */
+export function fitPose(pose: CameraPose, b: SceneBounds, verticalFov_deg: number, aspect: number, margin = 0.9): CameraPose {
+  const camera = new PerspectiveCamera(verticalFov_deg, aspect, 0.1, 1e9);
+  camera.up.set(0, 0, 1);
+  const target = new Vector3(...pose.target);
+  const dir = new Vector3(...pose.position).sub(target).normalize();
+  const corners: Vector3[] = [];
+  for (const e of [b.minEast, b.maxEast]) for (const n of [b.minNorth, b.maxNorth]) for (const z of [b.minZ, b.maxZ]) corners.push(new Vector3(e, n, z));
+  const fits = (d: number) => {
+    camera.position.copy(target).addScaledVector(dir, d);
+    camera.lookAt(target);
+    camera.updateMatrixWorld();
+    return corners.every((c) => {
+      const p = c.clone().project(camera);
+      return p.z < 1 && p.z > -1 && Math.abs(p.x) <= margin && Math.abs(p.y) <= margin;
+    });
+  };
+  const size = Math.hypot(b.maxEast - b.minEast, b.maxNorth - b.minNorth, b.maxZ - b.minZ);
+  let lo = 0;
+  let hi = size * 50;
+  if (!fits(hi)) return pose;
+  for (let k = 0; k < 40; k++) {
+    const mid = (lo + hi) / 2;
+    if (fits(mid)) hi = mid;
+    else lo = mid;
+  }
+  const position = target.clone().addScaledVector(dir, hi);
+  return { position: [position.x, position.y, position.z], target: pose.target };
 }

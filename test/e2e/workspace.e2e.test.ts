@@ -77,7 +77,8 @@ describe('workspace in Chromium', () => {
       return (canvas?.landreachScene?.framesDrawn ?? 0) > 0;
     });
     const stats = await page.evaluate(() => {
-      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement;
+      type Scene = { projectGroundPoint(e: number, n: number): { x: number; y: number } | null };
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: Scene };
       const copy = document.createElement('canvas');
       copy.width = canvas.width;
       copy.height = canvas.height;
@@ -85,21 +86,29 @@ describe('workspace in Chromium', () => {
       ctx.drawImage(canvas, 0, 0);
       const { data } = ctx.getImageData(0, 0, copy.width, copy.height);
       const background = [0x0b, 0x0f, 0x13];
+      const differs = (i: number) => Math.max(Math.abs(data[i] - background[0]), Math.abs(data[i + 1] - background[1]), Math.abs(data[i + 2] - background[2])) > 24;
       let drawn = 0;
       const hues = new Set<string>();
       for (let i = 0; i < data.length; i += 4) {
-        const d = Math.max(Math.abs(data[i] - background[0]), Math.abs(data[i + 1] - background[1]), Math.abs(data[i + 2] - background[2]));
-        if (d > 24) {
+        if (differs(i)) {
           drawn++;
           hues.add(`${data[i] >> 5},${data[i + 1] >> 5},${data[i + 2] >> 5}`);
         }
       }
-      return { width: copy.width, height: copy.height, fraction: drawn / (data.length / 4), colours: hues.size };
+      // Where the scene says the ground is, the pixel must be terrain, not background.
+      const probes = [[-2500, 2500], [2500, 2500], [-2500, -2500], [2500, -2500], [0, 1500]].map(([e, n]) => {
+        const p = canvas.landreachScene.projectGroundPoint(e, n);
+        return p ? differs(4 * (Math.floor(p.y) * copy.width + Math.floor(p.x))) : null;
+      });
+      return { width: copy.width, height: copy.height, fraction: drawn / (data.length / 4), colours: hues.size, probes, corner: differs(0) };
     });
     expect(stats.width).toBeGreaterThan(300);
-    // The oblique preset frames the whole terrain: it must cover a good part of the view…
-    expect(stats.fraction).toBeGreaterThan(0.25);
-    // …and show the colour map's range, not one flat colour.
+    // The oblique preset frames the whole 8 km terrain and the ignition point above it.
+    expect(stats.fraction).toBeGreaterThan(0.15);
+    expect(stats.probes).toEqual([true, true, true, true, true]);
+    // The top-left corner of the view is outside the terrain: background.
+    expect(stats.corner).toBe(false);
+    // The colour map's range shows, not one flat colour.
     expect(stats.colours).toBeGreaterThan(12);
     await screenshot(page, 'scene-oblique');
     await page.getByTestId('view-top').click();

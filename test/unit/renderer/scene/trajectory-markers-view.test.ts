@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { PerspectiveCamera, Vector3 } from 'three';
 import { buildTrajectoryGeometry } from '../../../../renderer/scene/trajectory-lines.ts';
 import { dropLinePositions, ellipsePositions } from '../../../../renderer/scene/markers.ts';
-import { declutter, distanceToGround, metresPerPixel, niceLength, northAngle, presetPose, scaleBar } from '../../../../renderer/scene/view.ts';
+import { declutter, distanceToGround, fitPose, metresPerPixel, niceLength, northAngle, presetPose, scaleBar } from '../../../../renderer/scene/view.ts';
 
 describe('trajectory geometry', () => {
   const n = 11;
@@ -77,6 +77,28 @@ describe('view furniture', () => {
     expect(distanceToGround([0, 0, 600], [Math.cos(Math.PI / 6), 0, -Math.sin(Math.PI / 6)], 100)).toBeCloseTo(1000, 9);
     expect(distanceToGround([0, 0, 600], [1, 0, 0], 100)).toBeNull();
     expect(distanceToGround([0, 0, 50], [0, 0, -1], 100)).toBeNull();
+  });
+
+  it('fits the oblique view: every corner inside the margin, and 1 % closer one is outside', () => {
+    const bounds = { minEast: -4000, maxEast: 4000, minNorth: -4000, maxNorth: 4000, minZ: -300, maxZ: 3600, focusZ: 30 };
+    const aspect = 1.8;
+    const pose = fitPose(presetPose('oblique', bounds, 40, aspect), bounds, 40, aspect, 0.9);
+    const project = (p: readonly number[]) => {
+      const camera = new PerspectiveCamera(40, aspect, 0.1, 1e9);
+      camera.up.set(0, 0, 1);
+      camera.position.set(p[0], p[1], p[2]);
+      camera.lookAt(...pose.target);
+      camera.updateMatrixWorld();
+      let worst = 0;
+      for (const e of [-4000, 4000]) for (const n of [-4000, 4000]) for (const z of [-300, 3600]) {
+        const v = new Vector3(e, n, z).project(camera);
+        worst = Math.max(worst, Math.abs(v.x), Math.abs(v.y));
+      }
+      return worst;
+    };
+    expect(project(pose.position)).toBeLessThanOrEqual(0.9 + 1e-9);
+    const closer = pose.position.map((v, i) => pose.target[i] + (v - pose.target[i]) * 0.99);
+    expect(project(closer)).toBeGreaterThan(0.9);
   });
 
   it('orbits around the focus height when given', () => {
