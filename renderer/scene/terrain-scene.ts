@@ -26,7 +26,9 @@ import {
 import { OrbitControls } from 'three/addons/controls/OrbitControls.js';
 import { buildContourGeometry, computeContours, niceThresholds, type ContourLabel } from './contour-lines.ts';
 import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
-import { dropLinePositions, lineGeometry, ringPositions } from './markers.ts';
+import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from './markers.ts';
+import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-lines.ts';
+import { SERIES } from '../plots/palette.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
 import { declutter, distanceToGround, fitPose, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
 
@@ -47,6 +49,24 @@ export interface SceneSnapshot {
   info: ViewInfo;
 }
 
+/** A trajectory to draw: samples relative to the target, as core/descent returns them. */
+export interface SceneTrajectory {
+  samples: TrajectorySamples;
+  thrustMax_N: number;
+  /** CSS colour; defaults cycle through the colour-blind-safe series palette. */
+  color?: string;
+}
+
+/** Landing dispersion ellipse around the nominal target. */
+export interface LandingEllipse {
+  semiMajor_m: number;
+  semiMinor_m: number;
+  /** Major-axis direction, degrees clockwise from north. */
+  azimuth_deg: number;
+}
+
+const TRAJECTORY_COLOURS = [SERIES.orange, SERIES.skyBlue, SERIES.purple, SERIES.yellow, SERIES.green];
+
 export interface IgnitionMarker {
   east_m: number;
   north_m: number;
@@ -64,6 +84,8 @@ export class TerrainScene {
   private labels: ContourLabel[] = [];
   private markers: Object3D[] = [];
   private ignition: IgnitionMarker | null = null;
+  private trajectories: SceneTrajectory[] = [];
+  private ellipse: LandingEllipse | null = null;
   private exaggeration = 1;
   private frame = 0;
   private disposed = false;
@@ -111,6 +133,19 @@ export class TerrainScene {
 
   setIgnition(marker: IgnitionMarker | null): void {
     this.ignition = marker;
+    this.rebuildMarkers();
+    this.requestRender();
+  }
+
+  /** Show these trajectories (replacing any shown), each as a path with thrust vectors. */
+  setTrajectories(trajectories: SceneTrajectory[]): void {
+    this.trajectories = trajectories;
+    this.rebuildMarkers();
+    this.requestRender();
+  }
+
+  setLandingEllipse(ellipse: LandingEllipse | null): void {
+    this.ellipse = ellipse;
     this.rebuildMarkers();
     this.requestRender();
   }
@@ -171,8 +206,18 @@ export class TerrainScene {
   projectGroundPoint(east: number, north: number): { x: number; y: number } | null {
     if (!this.grid) return null;
     const h = sampleHeight(this.grid, east, north);
-    if (Number.isNaN(h)) return null;
-    const v = new Vector3(east, north, h * this.exaggeration).project(this.camera);
+    return Number.isNaN(h) ? null : this.projectHeight(east, north, h);
+  }
+
+  /** Drawing-buffer pixel of a point `up_m` above the nominal target's ground (trajectory frame). */
+  projectAboveTarget(east: number, north: number, up_m: number): { x: number; y: number } | null {
+    if (!this.grid) return null;
+    const base = sampleHeight(this.grid, 0, 0);
+    return this.projectHeight(east, north, (Number.isNaN(base) ? 0 : base) + up_m);
+  }
+
+  private projectHeight(east: number, north: number, height_m: number): { x: number; y: number } | null {
+    const v = new Vector3(east, north, height_m * this.exaggeration).project(this.camera);
     if (v.z > 1 || Math.abs(v.x) > 1 || Math.abs(v.y) > 1) return null;
     return { x: ((v.x + 1) / 2) * this.canvas.width, y: ((1 - v.y) / 2) * this.canvas.height };
   }
@@ -260,10 +305,20 @@ export class TerrainScene {
     if (this.ignition) {
       const { east_m, north_m, altitude_m } = this.ignition;
       const z = (sampleHeight(grid, 0, 0) + altitude_m) * ex;
-      const ball = new Mesh(new SphereGeometry(span / 150, 16, 12), new MeshLambertMaterial({ color: 0xe2a65a, emissive: 0x5a3a10 }));
+      const ball = new Mesh(new SphereGeometry(span / 150, 16, 12), new MeshLambertMaterial({ color: 0xf4f1ea, emissive: 0x404040 }));
       ball.position.set(east_m, north_m, z);
-      const drop = new Line(lineGeometry(dropLinePositions(east_m, north_m, z, ground(east_m, north_m))), new LineBasicMaterial({ color: 0xe2a65a, transparent: true, opacity: 0.7 }));
+      const drop = new Line(lineGeometry(dropLinePositions(east_m, north_m, z, ground(east_m, north_m))), new LineBasicMaterial({ color: 0xf4f1ea, transparent: true, opacity: 0.6 }));
       this.markers.push(ball, drop);
+    }
+    const base = Number.isNaN(sampleHeight(grid, 0, 0)) ? 0 : sampleHeight(grid, 0, 0);
+    this.trajectories.forEach((t, k) => {
+      const color = new Color(t.color ?? TRAJECTORY_COLOURS[k % TRAJECTORY_COLOURS.length]);
+      const { path, vectors } = buildTrajectoryGeometry(t.samples, { baseHeight_m: base, exaggeration: ex, vectorEvery: 5, vectorLength_m: span / 25, thrustMax_N: t.thrustMax_N });
+      this.markers.push(new Line(path, new LineBasicMaterial({ color })), new LineSegments(vectors, new LineBasicMaterial({ color, transparent: true, opacity: 0.75 })));
+    });
+    if (this.ellipse) {
+      const { semiMajor_m, semiMinor_m, azimuth_deg } = this.ellipse;
+      this.markers.push(new Line(lineGeometry(ellipsePositions(0, 0, semiMajor_m, semiMinor_m, azimuth_deg, 96, ground)), new LineBasicMaterial({ color: 0xffffff })));
     }
     for (const m of this.markers) this.scene.add(m);
   }

@@ -117,6 +117,54 @@ describe('workspace in Chromium', () => {
     expect(await page.getByTestId('scale-bar').textContent()).toMatch(/\d+ (m|km)/);
   });
 
+  it('draws a trajectory handed to the scene as a path in the first series colour', async () => {
+    const { page } = session;
+    await page.getByTestId('view-oblique').click();
+    // A synthetic straight descent (not a solver result): it only exercises the drawing path.
+    const found = await page.evaluate(async () => {
+      type Scene = {
+        framesDrawn: number;
+        setTrajectories(t: unknown[]): void;
+        projectAboveTarget(e: number, n: number, up: number): { x: number; y: number } | null;
+      };
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: Scene };
+      const scene = canvas.landreachScene;
+      const n = 41;
+      const time_s = Float64Array.from({ length: n }, (_, i) => i);
+      const position_m = new Float64Array(3 * n);
+      const thrust_N = new Float64Array(3 * n);
+      for (let i = 0; i < n; i++) {
+        const f = 1 - i / (n - 1);
+        position_m.set([-1200 * f, -400 * f, 1800 * f], 3 * i);
+        thrust_N.set([0, 0, 9000], 3 * i);
+      }
+      const before = scene.framesDrawn;
+      scene.setTrajectories([{ samples: { time_s, position_m, thrust_N }, thrustMax_N: 18000 }]);
+      while (scene.framesDrawn === before) await new Promise((r) => requestAnimationFrame(r));
+      const copy = document.createElement('canvas');
+      copy.width = canvas.width;
+      copy.height = canvas.height;
+      const ctx = copy.getContext('2d')!;
+      ctx.drawImage(canvas, 0, 0);
+      const hits: boolean[] = [];
+      for (const f of [0.25, 0.5, 0.75]) {
+        const p = scene.projectAboveTarget(-1200 * f, -400 * f, 1800 * f)!;
+        const { data } = ctx.getImageData(Math.round(p.x) - 3, Math.round(p.y) - 3, 7, 7);
+        let hit = false;
+        // Okabe–Ito orange (230, 159, 0): red well above green, blue low; viridis never looks like that.
+        for (let i = 0; i < data.length; i += 4) if (data[i] - data[i + 1] > 40 && data[i] - data[i + 2] > 100) hit = true;
+        hits.push(hit);
+      }
+      return hits;
+    });
+    expect(found).toEqual([true, true, true]);
+    await screenshot(page, 'scene-trajectory');
+    await page.evaluate(() => {
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { setTrajectories(t: unknown[]): void } };
+      canvas.landreachScene.setTrajectories([]);
+    });
+  });
+
   it('saves through the browser fallback as a download holding a valid study', async () => {
     const { page } = session;
     await page.getByTestId('study-name').fill('Rim trade (invented)');
