@@ -27,12 +27,12 @@ const INK = '#dbe3ea';
 const PANEL = 'rgba(16, 20, 24, 0.85)';
 
 function drawLegend(ctx: CanvasRenderingContext2D, legend: FigureLegend, x: number, y: number, s: number): void {
-  const width = 300 * s;
+  ctx.font = `${Math.round(13 * s)}px system-ui, sans-serif`;
+  const width = Math.max(300 * s, ctx.measureText(legend.title).width + 20 * s);
   const height = 64 * s;
   ctx.fillStyle = PANEL;
   ctx.fillRect(x, y - height, width, height);
   ctx.fillStyle = INK;
-  ctx.font = `${Math.round(13 * s)}px system-ui, sans-serif`;
   ctx.textBaseline = 'top';
   ctx.textAlign = 'left';
   ctx.fillText(legend.title, x + 10 * s, y - height + 8 * s);
@@ -90,9 +90,13 @@ function drawNorthArrow(ctx: CanvasRenderingContext2D, angle: number, cx: number
   ctx.fillText('N', cx, cy + 14 * s);
 }
 
-export async function composeFigurePng(snap: SceneSnapshot, legend: FigureLegend, facts: CaptionFacts): Promise<Uint8Array> {
-  const { image } = snap;
-  const s = Math.max(1, image.height / 900);
+/**
+ * Compose a figure from `image` with the caption band. With `scene`, the scene's legend, scale bar,
+ * north arrow and contour labels are drawn in too.
+ */
+export async function composeFigurePng(image: HTMLCanvasElement, facts: CaptionFacts, scene?: { snapshot: SceneSnapshot; legend: FigureLegend }): Promise<Uint8Array> {
+  // Furniture scales with the figure width, so a 2× chart or a 4K scene keeps readable text.
+  const s = Math.max(1, image.width / 1000);
   const band = Math.round(46 * s);
   const canvas = document.createElement('canvas');
   canvas.width = image.width;
@@ -101,18 +105,20 @@ export async function composeFigurePng(snap: SceneSnapshot, legend: FigureLegend
   if (!ctx) throw new Error('figure export: the browser gave no 2D canvas');
   ctx.drawImage(image, 0, 0);
 
-  ctx.font = `${Math.round(11 * s)}px ui-monospace, monospace`;
-  ctx.textAlign = 'center';
-  ctx.textBaseline = 'middle';
-  ctx.shadowColor = '#000';
-  ctx.shadowBlur = 3 * s;
-  ctx.fillStyle = '#f4f1ea';
-  for (const label of snap.info.contourLabels) ctx.fillText(`${label.value} m`, label.x, label.y);
-  ctx.shadowBlur = 0;
-
-  drawLegend(ctx, legend, 12 * s, image.height - 12 * s, s);
-  drawScaleBar(ctx, snap, image.width - 16 * s, image.height - 8 * s, s);
-  drawNorthArrow(ctx, snap.info.northAngle_rad, image.width - 34 * s, 36 * s, s);
+  if (scene) {
+    const snap = scene.snapshot;
+    ctx.font = `${Math.round(11 * s)}px ui-monospace, monospace`;
+    ctx.textAlign = 'center';
+    ctx.textBaseline = 'middle';
+    ctx.shadowColor = '#000';
+    ctx.shadowBlur = 3 * s;
+    ctx.fillStyle = '#f4f1ea';
+    for (const label of snap.info.contourLabels) ctx.fillText(`${label.value} m`, label.x, label.y);
+    ctx.shadowBlur = 0;
+    drawLegend(ctx, scene.legend, 12 * s, image.height - 12 * s, s);
+    drawScaleBar(ctx, snap, image.width - 16 * s, image.height - 8 * s, s);
+    drawNorthArrow(ctx, snap.info.northAngle_rad, image.width - 34 * s, 36 * s, s);
+  }
 
   ctx.fillStyle = '#101418';
   ctx.fillRect(0, image.height, canvas.width, band);

@@ -27,6 +27,9 @@ function norms(v: ArrayLike<number>, n: number): Float64Array {
   return out;
 }
 
+/** Legend numbers without float noise. */
+const formatValue = (x: number) => String(Number(x.toPrecision(6)));
+
 function span(time: ArrayLike<number>, fallbackEnd_s: number): [number, number] {
   return time.length ? [time[0], time[time.length - 1]] : [0, fallbackEnd_s];
 }
@@ -45,8 +48,8 @@ export function throttleChart(t: Pick<TrajectorySeries, 'time_s' | 'thrust_N'> |
     const throttle = norms(t.thrust_N, time.length).map((f) => f / limits.thrustMax_N);
     datasets.push(series('Throttle', toPoints(time, throttle), SERIES.orange));
   }
-  datasets.push(limitLine(`Maximum throttle ${limits.throttleMax}`, limits.throttleMax, t0, t1, SERIES.vermillion));
-  datasets.push(limitLine(`Minimum throttle ${limits.throttleMin}`, limits.throttleMin, t0, t1, SERIES.skyBlue));
+  datasets.push(limitLine(`Maximum throttle ${formatValue(limits.throttleMax)}`, limits.throttleMax, t0, t1, SERIES.vermillion));
+  datasets.push(limitLine(`Minimum throttle ${formatValue(limits.throttleMin)}`, limits.throttleMin, t0, t1, SERIES.skyBlue));
   const top = 1;
   return lineChart(
     datasets,
@@ -60,34 +63,39 @@ export function throttleChart(t: Pick<TrajectorySeries, 'time_s' | 'thrust_N'> |
   );
 }
 
-export function massChart(t: Pick<TrajectorySeries, 'time_s' | 'mass_kg'>, dryMass_kg: number, reserve_kg: number): LineConfig {
-  const n = t.time_s.length;
-  const m0 = n ? t.mass_kg[0] : 0;
-  const used = Float64Array.from({ length: n }, (_, i) => m0 - t.mass_kg[i]);
-  const [t0, t1] = span(t.time_s, 1);
+/** Mass and propellant used; with no trajectory, only the dry-mass-plus-reserve floor over [0, emptyEnd_s]. */
+export function massChart(t: Pick<TrajectorySeries, 'time_s' | 'mass_kg'> | null, dryMass_kg: number, reserve_kg: number, emptyEnd_s = 100): LineConfig {
+  const time = t?.time_s ?? [];
+  const [t0, t1] = span(time, emptyEnd_s);
+  const datasets = [];
+  if (t) {
+    const n = t.time_s.length;
+    const m0 = n ? t.mass_kg[0] : 0;
+    const used = Float64Array.from({ length: n }, (_, i) => m0 - t.mass_kg[i]);
+    datasets.push(series('Mass', toPoints(t.time_s, t.mass_kg), SERIES.blue), series('Propellant used', toPoints(t.time_s, used), SERIES.orange, 'used'));
+  }
+  datasets.push(limitLine(`Dry mass + reserve ${formatValue(dryMass_kg + reserve_kg)} kg`, dryMass_kg + reserve_kg, t0, t1, SERIES.vermillion));
   return lineChart(
-    [
-      series('Mass', toPoints(t.time_s, t.mass_kg), SERIES.blue),
-      series('Propellant used', toPoints(t.time_s, used), SERIES.orange, 'used'),
-      limitLine(`Dry mass + reserve ${dryMass_kg + reserve_kg} kg`, dryMass_kg + reserve_kg, t0, t1, SERIES.vermillion),
-    ],
+    datasets,
     linearAxis('Time since ignition (s)', { min: t0, max: t1 }),
     { y: linearAxis('Mass (kg)'), used: linearAxis('Propellant used (kg)', { position: 'right', min: 0, grid: { drawOnChartArea: false } as never }) },
     'Mass and propellant',
   );
 }
 
-export function altitudeSpeedChart(t: Pick<TrajectorySeries, 'time_s' | 'position_m' | 'velocity_mps'>, speedMax_mps: number): LineConfig {
-  const n = t.time_s.length;
-  const altitude = Float64Array.from({ length: n }, (_, i) => t.position_m[3 * i + 2]);
-  const speed = norms(t.velocity_mps, n);
-  const [t0, t1] = span(t.time_s, 1);
+/** Altitude and speed; with no trajectory, only the speed limit over [0, emptyEnd_s]. */
+export function altitudeSpeedChart(t: Pick<TrajectorySeries, 'time_s' | 'position_m' | 'velocity_mps'> | null, speedMax_mps: number, emptyEnd_s = 100): LineConfig {
+  const time = t?.time_s ?? [];
+  const [t0, t1] = span(time, emptyEnd_s);
+  const datasets = [];
+  if (t) {
+    const n = t.time_s.length;
+    const altitude = Float64Array.from({ length: n }, (_, i) => t.position_m[3 * i + 2]);
+    datasets.push(series('Altitude', toPoints(t.time_s, altitude), SERIES.green), series('Speed', toPoints(t.time_s, norms(t.velocity_mps, n)), SERIES.purple, 'speed'));
+  }
+  datasets.push(limitLine(`Speed limit ${formatValue(speedMax_mps)} m/s`, speedMax_mps, t0, t1, SERIES.vermillion, 'speed'));
   return lineChart(
-    [
-      series('Altitude', toPoints(t.time_s, altitude), SERIES.green),
-      series('Speed', toPoints(t.time_s, speed), SERIES.purple, 'speed'),
-      limitLine(`Speed limit ${speedMax_mps} m/s`, speedMax_mps, t0, t1, SERIES.vermillion, 'speed'),
-    ],
+    datasets,
     linearAxis('Time since ignition (s)', { min: t0, max: t1 }),
     { y: linearAxis('Altitude above target (m)', { min: 0 }), speed: linearAxis('Speed (m/s)', { position: 'right', min: 0, grid: { drawOnChartArea: false } as never }) },
     'Altitude and speed',
@@ -104,11 +112,14 @@ export function tiltAngles_deg(thrust_N: ArrayLike<number>, n: number): Float64A
   return out;
 }
 
-export function tiltChart(t: Pick<TrajectorySeries, 'time_s' | 'thrust_N'>, pointingLimit_deg: number): LineConfig {
-  const n = t.time_s.length;
-  const [t0, t1] = span(t.time_s, 1);
+/** Thrust tilt from vertical; with no trajectory, only the pointing limit over [0, emptyEnd_s]. */
+export function tiltChart(t: Pick<TrajectorySeries, 'time_s' | 'thrust_N'> | null, pointingLimit_deg: number, emptyEnd_s = 100): LineConfig {
+  const time = t?.time_s ?? [];
+  const [t0, t1] = span(time, emptyEnd_s);
+  const datasets = t ? [series('Thrust tilt', toPoints(t.time_s, tiltAngles_deg(t.thrust_N, t.time_s.length)), SERIES.blue)] : [];
+  datasets.push(limitLine(`Tilt limit ${formatValue(pointingLimit_deg)}°`, pointingLimit_deg, t0, t1, SERIES.vermillion));
   return lineChart(
-    [series('Thrust tilt', toPoints(t.time_s, tiltAngles_deg(t.thrust_N, n)), SERIES.blue), limitLine(`Tilt limit ${pointingLimit_deg}°`, pointingLimit_deg, t0, t1, SERIES.vermillion)],
+    datasets,
     linearAxis('Time since ignition (s)', { min: t0, max: t1 }),
     { y: linearAxis('Tilt from vertical (°)', { min: 0, max: Math.max(10, Math.ceil((pointingLimit_deg * 1.15) / 5) * 5) }) },
     'Thrust tilt',

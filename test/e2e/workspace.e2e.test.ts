@@ -194,4 +194,22 @@ describe('workspace in Chromium', () => {
     await fs.copyFile(file, new URL('../../test-artifacts/exported-scene.png', import.meta.url));
     expect(session.problems).toEqual([]);
   });
+
+  it('switches trajectory charts and exports one at twice its on-screen size with the caption', async () => {
+    const { page } = session;
+    await page.getByTestId('chart-tab-tilt').click();
+    const canvas = page.locator('[data-testid="trajectory-plot"] canvas');
+    await page.waitForFunction(() => document.querySelector('[data-testid="trajectory-plot"] canvas')?.getAttribute('aria-label') === 'Thrust tilt');
+    const box = (await canvas.boundingBox())!;
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-chart').click()]);
+    expect(download.suggestedFilename()).toBe('rim-trade-invented-tilt-chart.png');
+    const png = new Uint8Array(await fs.readFile((await download.path())!));
+    const size = pngSize(png);
+    expect(size.width).toBe(Math.round(box.width * 2));
+    expect(size.height).toBeGreaterThan(Math.round(box.height * 2));
+    expect(readPngText(png).Disclaimer).toBe(CAUTION_LINE);
+    await fs.copyFile((await download.path())!, new URL('../../test-artifacts/exported-tilt-chart.png', import.meta.url));
+    await screenshot(page, 'chart-tilt');
+    expect(session.problems).toEqual([]);
+  });
 });

@@ -65,6 +65,15 @@ describe('other descent charts', () => {
   });
 });
 
+describe('charts without a trajectory', () => {
+  it('show only the limits that come from the inputs, over the flight-time window', () => {
+    expect(massChart(null, 1700, 80, 90).data.datasets.map((d) => [d.label, d.data.at(-1)])).toEqual([['Dry mass + reserve 1780 kg', { x: 90, y: 1780 }]]);
+    expect(altitudeSpeedChart(null, 110, 90).data.datasets.map((d) => d.label)).toEqual(['Speed limit 110 m/s']);
+    expect(tiltChart(null, 45, 90).data.datasets.map((d) => d.label)).toEqual(['Tilt limit 45°']);
+    expect(throttleChart(null, { thrustMax_N: 1, throttleMin: 0.1 + 0.2, throttleMax: 0.8 }).data.datasets[1].label).toBe('Minimum throttle 0.3');
+  });
+});
+
 describe('study charts', () => {
   it('footprint area in km² against reserve', () => {
     const config = footprintAreaChart([0, 50, 100], [4e6, 3.5e6, 2e6]);
