@@ -38,8 +38,8 @@ export interface IpcDependencies {
   recovery: RecoveryStore;
   session: DocumentSession;
   fs?: FileSystem;
-  /** Called after the recent list or the document state changed (menu rebuild, window title). */
-  onChange?: () => void;
+  /** Called after the recent list changed (rebuild the menu) or the document state changed (retitle). */
+  onChange?: (what: 'recent' | 'document') => void;
 }
 
 export type InvokeHandler = (event: SenderInfo, ...args: unknown[]) => Promise<unknown>;
@@ -73,7 +73,7 @@ export function createIpcHandlers(deps: IpcDependencies): Record<string, InvokeH
       const text = await readStudyFile(file, fs);
       session.currentPath = path.resolve(file);
       await recent.add(file);
-      deps.onChange?.();
+      deps.onChange?.('recent');
       return { status: 'opened', path: session.currentPath, name: path.basename(file), text };
     } catch (error) {
       return { status: 'error', message: errorMessage(error) };
@@ -87,7 +87,7 @@ export function createIpcHandlers(deps: IpcDependencies): Record<string, InvokeH
       session.dirty = false;
       await recent.add(file);
       await recovery.clear();
-      deps.onChange?.();
+      deps.onChange?.('recent');
       return { status: 'written', path: session.currentPath, name: path.basename(file) };
     } catch (error) {
       return { status: 'error', message: errorMessage(error) };
@@ -122,7 +122,7 @@ export function createIpcHandlers(deps: IpcDependencies): Record<string, InvokeH
     [INVOKE_CHANNELS.newStudy]: guarded(async () => {
       session.currentPath = null;
       session.dirty = false;
-      deps.onChange?.();
+      deps.onChange?.('document');
     }),
     [INVOKE_CHANNELS.exportFile]: guarded(async (request) => {
       const { kind, suggestedName, data } = expectExportRequest(request);
@@ -146,7 +146,7 @@ export function createIpcHandlers(deps: IpcDependencies): Record<string, InvokeH
       const { dirty, title } = expectDocumentState(state);
       session.dirty = dirty;
       session.title = title;
-      deps.onChange?.();
+      deps.onChange?.('document');
     }),
     [INVOKE_CHANNELS.appVersion]: guarded(async () => deps.appVersion),
   };

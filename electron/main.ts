@@ -25,7 +25,13 @@ function send(command: MenuCommand, detail: MenuCommandDetail = {}): void {
   mainWindow?.webContents.send(MENU_CHANNEL, command, detail);
 }
 
-function refresh(recent: RecentFiles): void {
+function retitle(): void {
+  if (!mainWindow) return;
+  mainWindow.setTitle(`${documentSession.dirty ? '• ' : ''}${documentSession.title} — Landreach`);
+  mainWindow.setDocumentEdited(documentSession.dirty);
+}
+
+function rebuildMenu(recent: RecentFiles): void {
   const template = buildMenuTemplate({
     platform: process.platform,
     appName: app.getName(),
@@ -35,14 +41,10 @@ function refresh(recent: RecentFiles): void {
     // The renderer owns the unsaved-changes question, so it is asked to open; it calls openRecent.
     openRecent: (file) => send('open-recent', { path: file }),
     clearRecent: () => {
-      void Promise.all(recent.entries().map((f) => recent.remove(f))).then(() => refresh(recent));
+      void recent.clear().then(() => rebuildMenu(recent));
     },
   });
   Menu.setApplicationMenu(Menu.buildFromTemplate(template));
-  if (mainWindow) {
-    mainWindow.setTitle(`${documentSession.dirty ? '• ' : ''}${documentSession.title} — Landreach`);
-    mainWindow.setDocumentEdited(documentSession.dirty);
-  }
 }
 
 function createDialogs(): Dialogs {
@@ -72,7 +74,7 @@ async function start(): Promise<void> {
     recent,
     recovery,
     session: documentSession,
-    onChange: () => refresh(recent),
+    onChange: (what) => (what === 'recent' ? rebuildMenu(recent) : retitle()),
   });
 
   mainWindow = new BrowserWindow(createWindowOptions(path.join(here, 'preload.cjs')));
@@ -95,7 +97,8 @@ async function start(): Promise<void> {
   mainWindow.on('closed', () => {
     mainWindow = null;
   });
-  refresh(recent);
+  rebuildMenu(recent);
+  retitle();
   await mainWindow.loadURL(appUrl);
 }
 

@@ -69,6 +69,11 @@ export class RecentFiles {
     return this.entries();
   }
 
+  async clear(): Promise<void> {
+    this.list = [];
+    await this.persist();
+  }
+
   private async persist(): Promise<void> {
     await this.fs.mkdir(path.dirname(this.storeFile), { recursive: true });
     await atomicWriteFile(this.storeFile, JSON.stringify({ files: this.list }, null, 2), this.fs);

@@ -32,6 +32,7 @@ export function suggestedFileName(studyName: string): string {
 
 export class AppController {
   private lastAutosave: string | null = null;
+  private lastDocumentState = '';
 
   constructor(
     private readonly workspace: Workspace,
@@ -130,8 +131,12 @@ export class AppController {
     await this.bridge.clearRecovery();
   }
 
+  /** Tell the shell the title and dirty flag, only when one of them changed (not on every keystroke). */
   async syncDocumentState(): Promise<void> {
-    const snap = this.workspace.snapshot();
-    await this.bridge.setDocumentState({ dirty: snap.dirty, title: snap.draft.name });
+    const state = { dirty: this.workspace.dirty, title: this.workspace.draft.name };
+    const key = JSON.stringify(state);
+    if (key === this.lastDocumentState) return;
+    this.lastDocumentState = key;
+    await this.bridge.setDocumentState(state);
   }
 }

@@ -19,7 +19,7 @@ let session: DocumentSession;
 let nextOpen: string | null;
 let nextSave: string | null;
 let saveDialogNames: string[];
-let changes: number;
+let changes: string[];
 
 beforeEach(async () => {
   dir = await fs.mkdtemp(path.join(os.tmpdir(), 'landreach-ipc-'));
@@ -27,7 +27,7 @@ beforeEach(async () => {
   nextOpen = null;
   nextSave = null;
   saveDialogNames = [];
-  changes = 0;
+  changes = [];
   handlers = createIpcHandlers({
     appUrl: APP,
     appVersion: '9.9.9',
@@ -41,7 +41,7 @@ beforeEach(async () => {
     recent: new RecentFiles(path.join(dir, 'settings', 'recent.json')),
     recovery: new RecoveryStore(path.join(dir, 'settings', 'recovery.json')),
     session,
-    onChange: () => changes++,
+    onChange: (what) => changes.push(what),
   });
 });
 afterEach(async () => {
@@ -76,6 +76,7 @@ describe('open and save', () => {
     expect(result).toEqual({ status: 'opened', path: file, name: 'site.landreach.json', text: study() });
     expect(session.currentPath).toBe(file);
     expect(await call(INVOKE_CHANNELS.listRecent)).toEqual([file]);
+    expect(changes).toEqual(['recent']);
   });
 
   it('reports a corrupt study as an error result, not an exception', async () => {
@@ -155,7 +156,7 @@ describe('document state and version', () => {
   it('records dirty flag and title and notifies', async () => {
     await call(INVOKE_CHANNELS.setDocumentState, { dirty: true, title: 'Crater rim trade' });
     expect(session).toMatchObject({ dirty: true, title: 'Crater rim trade' });
-    expect(changes).toBe(1);
+    expect(changes).toEqual(['document']);
     expect(await call(INVOKE_CHANNELS.appVersion)).toBe('9.9.9');
   });
 

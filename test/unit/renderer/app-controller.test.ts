@@ -110,6 +110,21 @@ describe('file actions', () => {
   });
 });
 
+describe('document state', () => {
+  it('tells the shell only when the title or dirty flag changes', async () => {
+    const states: unknown[] = [];
+    const { workspace, controller } = setup({ setDocumentState: async (s) => void states.push(s) });
+    await controller.syncDocumentState();
+    workspace.edit('vehicle.isp_s', '3');
+    await controller.syncDocumentState();
+    workspace.edit('vehicle.isp_s', '30');
+    await controller.syncDocumentState();
+    workspace.rename('B');
+    await controller.syncDocumentState();
+    expect(states).toEqual([{ dirty: false, title: 'Untitled study' }, { dirty: true, title: 'Untitled study' }, { dirty: true, title: 'B' }]);
+  });
+});
+
 describe('file names from study names', () => {
   it('keeps letters and digits, folds accents, never returns empty', () => {
     expect(suggestedFileName('Crater rim — trade A')).toBe('crater-rim-trade-a');
