@@ -5,6 +5,7 @@
  */
 import {
   AmbientLight,
+  BufferAttribute,
   BufferGeometry,
   Color,
   DirectionalLight,
@@ -30,6 +31,7 @@ import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from
 import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-lines.ts';
 import { SERIES } from '../plots/palette.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
+import { colorizeLinear } from './colormap.ts';
 import { declutter, distanceToGround, fitPose, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
 
 export const SCENE_BACKGROUND = '#0b0f13';
@@ -55,6 +57,12 @@ export interface SceneTrajectory {
   thrustMax_N: number;
   /** CSS colour; defaults cycle through the colour-blind-safe series palette. */
   color?: string;
+}
+
+/** A field draped on the terrain instead of its height: one value per terrain sample (NaN = none). */
+export interface SceneDrape {
+  values: Float32Array;
+  range: [number, number];
 }
 
 /** Landing dispersion ellipse around the nominal target. */
@@ -87,6 +95,7 @@ export class TerrainScene {
   private trajectories: SceneTrajectory[] = [];
   private ellipse: LandingEllipse | null = null;
   private exaggeration = 1;
+  private drape: SceneDrape | null = null;
   private frame = 0;
   private disposed = false;
   /** Frames drawn so far (the browser tests read it to know the scene has drawn). */
@@ -116,6 +125,7 @@ export class TerrainScene {
     this.grid = grid;
     this.exaggeration = exaggeration;
     this.removeObject(this.terrain);
+    this.drape = null;
     const geometry = buildTerrainGeometry(grid, { exaggeration });
     this.terrain = new Mesh(geometry, new MeshLambertMaterial({ vertexColors: true }));
     this.scene.add(this.terrain);
@@ -134,6 +144,19 @@ export class TerrainScene {
   setIgnition(marker: IgnitionMarker | null): void {
     this.ignition = marker;
     this.rebuildMarkers();
+    this.requestRender();
+  }
+
+  /** Colour the terrain by `drape` (e.g. propellant cost resampled onto the terrain), or by height when null. */
+  setDrape(drape: SceneDrape | null): void {
+    if (!this.grid || !this.terrain) return;
+    if (drape && drape.values.length !== this.grid.heights.length) {
+      throw new Error(`invalid drape: ${drape.values.length} values for ${this.grid.heights.length} terrain samples`);
+    }
+    this.drape = drape;
+    const [lo, hi] = drape?.range ?? heightRange(this.grid.heights);
+    const colors = colorizeLinear(drape?.values ?? this.grid.heights, lo, hi > lo ? hi : lo + 1);
+    this.terrain.geometry.setAttribute('color', new BufferAttribute(colors, 3));
     this.requestRender();
   }
 

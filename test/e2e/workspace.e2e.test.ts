@@ -117,6 +117,46 @@ describe('workspace in Chromium', () => {
     expect(await page.getByTestId('scale-bar').textContent()).toMatch(/\d+ (m|km)/);
   });
 
+  it('drapes a field on the terrain with viridis: low values dark purple, high values yellow', async () => {
+    const { page } = session;
+    // A synthetic field (not a solver result): the east coordinate, low in the west, high in the east.
+    const colours = await page.evaluate(async () => {
+      type Scene = {
+        framesDrawn: number;
+        setDrape(d: { values: Float32Array; range: [number, number] } | null): void;
+        projectGroundPoint(e: number, n: number): { x: number; y: number } | null;
+      };
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: Scene };
+      const scene = canvas.landreachScene;
+      const size = 161;
+      const values = new Float32Array(size * size);
+      for (let r = 0; r < size; r++) for (let c = 0; c < size; c++) values[r * size + c] = -4000 + c * 50;
+      const before = scene.framesDrawn;
+      scene.setDrape({ values, range: [-4000, 4000] });
+      while (scene.framesDrawn === before) await new Promise((r) => requestAnimationFrame(r));
+      const copy = document.createElement('canvas');
+      copy.width = canvas.width;
+      copy.height = canvas.height;
+      const ctx = copy.getContext('2d')!;
+      ctx.drawImage(canvas, 0, 0);
+      const at = (e: number, n: number) => {
+        const p = scene.projectGroundPoint(e, n)!;
+        return Array.from(ctx.getImageData(Math.round(p.x), Math.round(p.y), 1, 1).data.slice(0, 3));
+      };
+      const result = { west: at(-3700, 2000), east: at(3700, 2000) };
+      scene.setDrape(null);
+      return result;
+    });
+    // viridis starts at #440154 (purple: blue > green) and ends at #fde725 (yellow: red, green ≫ blue);
+    // lighting scales the brightness but keeps those orderings.
+    const [wr, wg, wb] = colours.west;
+    const [er, eg, eb] = colours.east;
+    expect(wb).toBeGreaterThan(wg);
+    expect(wr).toBeGreaterThan(wg);
+    expect(er).toBeGreaterThan(eb + 80);
+    expect(eg).toBeGreaterThan(eb + 80);
+  });
+
   it('draws a trajectory handed to the scene as a path in the first series colour', async () => {
     const { page } = session;
     await page.getByTestId('view-oblique').click();
