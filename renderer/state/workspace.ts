@@ -67,6 +67,16 @@ export class Workspace {
     this.changed();
   }
 
+  /** Set several fields at once (a preset) as one undoable step. Unknown ids are a program error. */
+  applyValues(values: Record<string, string>): void {
+    for (const id of Object.keys(values)) this.model.field(id);
+    const raw = { ...this.draft.raw, ...values };
+    if (this.model.fields.every((f) => raw[f.id] === this.draft.raw[f.id])) return;
+    this.history.seal();
+    this.history.record({ ...this.draft, raw });
+    this.changed();
+  }
+
   rename(name: string): void {
     if (this.draft.name === name) return;
     this.history.record({ ...this.draft, name }, 'name');

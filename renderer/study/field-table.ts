@@ -85,3 +85,56 @@ export const FIELDS: readonly FieldSpec[] = [
 
 /** Largest number of grid targets a study may ask for (401 × 401); beyond it the run is impractical. */
 export const MAX_GRID_TARGETS = 401 * 401;
+
+/**
+ * Presets: whole sets of inputs for INVENTED vehicles at INVENTED sites (illustrative round numbers,
+ * no real vehicle). Each lists only the values that differ from the field defaults.
+ */
+export interface Preset {
+  id: string;
+  label: string;
+  values: Record<string, number>;
+}
+
+export const PRESETS: readonly Preset[] = [
+  { id: 'demo-lander', label: 'Invented demo lander (defaults)', values: {} },
+  {
+    id: 'heavy-lander',
+    label: 'Invented heavy cargo lander',
+    values: {
+      'vehicle.wetMass_kg': 9500,
+      'vehicle.dryMass_kg': 6800,
+      'vehicle.isp_s': 320,
+      'vehicle.thrustMax_N': 60000,
+      'vehicle.throttleMin': 0.2,
+      'vehicle.throttleMax': 0.9,
+      'ignition.altitude_m': 3200,
+      'ignition.velocityEast_mps': 90,
+      'ignition.velocityUp_mps': -70,
+      'constraints.speedMax_mps': 160,
+      'constraints.flightTimeMax_s': 160,
+      'reserve.propellantReserve_kg': 250,
+    },
+  },
+  {
+    id: 'hopper',
+    label: 'Invented small hopper, low-gravity body',
+    values: {
+      'planet.surfaceGravity_mps2': 1.62,
+      'vehicle.wetMass_kg': 600,
+      'vehicle.dryMass_kg': 420,
+      'vehicle.isp_s': 210,
+      'vehicle.thrustMax_N': 2400,
+      'ignition.altitude_m': 600,
+      'ignition.east_m': -300,
+      'ignition.north_m': 0,
+      'ignition.velocityEast_mps': 20,
+      'ignition.velocityNorth_mps': 0,
+      'ignition.velocityUp_mps': -10,
+      'constraints.speedMax_mps': 40,
+      'reserve.propellantReserve_kg': 20,
+      'grid.halfWidth_m': 1000,
+      'grid.spacing_m': 50,
+    },
+  },
+];

@@ -70,6 +70,17 @@ describe('workspace in Chromium', () => {
     await page.getByTestId('status-ok').waitFor();
   });
 
+  it('applies an invented preset as one undoable step', async () => {
+    const { page } = session;
+    await page.getByTestId('preset').selectOption('heavy-lander');
+    expect(await field('vehicle.wetMass_kg').locator('input').inputValue()).toBe('9500');
+    expect(await field('vehicle.isp_s').locator('input').inputValue()).toBe('320');
+    await page.getByTestId('status-ok').waitFor();
+    await page.getByTestId('undo').click();
+    expect(await field('vehicle.wetMass_kg').locator('input').inputValue()).toBe('2400');
+    expect(await field('vehicle.isp_s').locator('input').inputValue()).toBe('228');
+  });
+
   it('draws the terrain: pixel readback of the WebGL canvas finds coloured terrain, not background', async () => {
     const { page } = session;
     await page.waitForFunction(() => {

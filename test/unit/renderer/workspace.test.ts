@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { Workspace } from '../../../renderer/state/workspace.ts';
-import { createLocalStudyModel } from '../../../renderer/study/study-model.ts';
+import { createLocalStudyModel, formatNumber } from '../../../renderer/study/study-model.ts';
+import { PRESETS } from '../../../renderer/study/field-table.ts';
 
 const model = createLocalStudyModel();
 
@@ -77,6 +78,20 @@ describe('workspace', () => {
     expect(w.draft.raw['vehicle.isp_s']).toBe('300');
     expect(w.snapshot().dirty).toBe(true);
     expect(() => w.restoreDraft('{')).toThrow(/recovery copy is damaged/);
+  });
+
+  it('applies every preset as one undoable step, each valid without warnings', () => {
+    for (const preset of PRESETS) {
+      const w = new Workspace(model);
+      w.edit('vehicle.isp_s', '300');
+      const raw = model.defaults();
+      for (const [id, value] of Object.entries(preset.values)) raw[id] = formatNumber(value);
+      w.applyValues(raw);
+      expect(w.snapshot().problems, preset.id).toEqual({});
+      w.undo();
+      expect(w.draft.raw['vehicle.isp_s'], preset.id).toBe('300');
+    }
+    expect(() => new Workspace(model).applyValues({ 'vehicle.bogus_kg': '1' })).toThrow(/unknown study field/);
   });
 
   it('notifies subscribers on every change, and not for no-op edits', () => {
