@@ -13,6 +13,7 @@ import {
   LineBasicMaterial,
   LineSegments,
   Mesh,
+  MeshBasicMaterial,
   MeshLambertMaterial,
   PerspectiveCamera,
   Scene,
@@ -32,6 +33,7 @@ import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-li
 import { SERIES } from '../plots/palette.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
 import { colorizeLinear } from './colormap.ts';
+import { buildHazardGeometry, hazardStripeTexture } from './hazard-overlay.ts';
 import { declutter, distanceToGround, fitPose, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
 
 export const SCENE_BACKGROUND = '#0b0f13';
@@ -96,6 +98,9 @@ export class TerrainScene {
   private ellipse: LandingEllipse | null = null;
   private exaggeration = 1;
   private drape: SceneDrape | null = null;
+  private hazardMask: Uint8Array | null = null;
+  private hazardVisible = false;
+  private hazardMesh: Mesh | null = null;
   private frame = 0;
   private disposed = false;
   /** Frames drawn so far (the browser tests read it to know the scene has drawn). */
@@ -126,6 +131,7 @@ export class TerrainScene {
     this.exaggeration = exaggeration;
     this.removeObject(this.terrain);
     this.drape = null;
+    this.hazardMask = null;
     const geometry = buildTerrainGeometry(grid, { exaggeration });
     this.terrain = new Mesh(geometry, new MeshLambertMaterial({ vertexColors: true }));
     this.scene.add(this.terrain);
@@ -157,6 +163,14 @@ export class TerrainScene {
     const [lo, hi] = drape?.range ?? heightRange(this.grid.heights);
     const colors = colorizeLinear(drape?.values ?? this.grid.heights, lo, hi > lo ? hi : lo + 1);
     this.terrain.geometry.setAttribute('color', new BufferAttribute(colors, 3));
+    this.requestRender();
+  }
+
+  /** Hazard mask, one value per terrain sample (non-zero = unsafe), or null for none. */
+  setHazard(mask: Uint8Array | null, visible: boolean): void {
+    this.hazardMask = mask;
+    this.hazardVisible = visible;
+    this.rebuildHazard();
     this.requestRender();
   }
 
@@ -312,7 +326,22 @@ export class TerrainScene {
     this.contours = new LineSegments(geometry, new LineBasicMaterial({ color: 0xf4f1ea, transparent: true, opacity: 0.55 }));
     this.labels = labels;
     this.scene.add(this.contours);
+    this.rebuildHazard();
     this.rebuildMarkers();
+  }
+
+  private rebuildHazard(): void {
+    if (this.hazardMesh) {
+      (this.hazardMesh.material as MeshBasicMaterial).map?.dispose();
+      this.removeObject(this.hazardMesh);
+      this.hazardMesh = null;
+    }
+    if (!this.grid || !this.hazardMask || !this.hazardVisible) return;
+    // About 40 stripes across the terrain, whatever its size.
+    const span = (this.grid.width - 1) * this.grid.pixelSize_m;
+    const geometry = buildHazardGeometry(this.grid, this.hazardMask, { exaggeration: this.exaggeration, lift_m: 1, stripe_m: span / 40 });
+    this.hazardMesh = new Mesh(geometry, new MeshBasicMaterial({ map: hazardStripeTexture(), transparent: true, depthWrite: false }));
+    this.scene.add(this.hazardMesh);
   }
 
   private rebuildMarkers(): void {

@@ -168,6 +168,54 @@ describe('workspace in Chromium', () => {
     expect(eg).toBeGreaterThan(eb + 80);
   });
 
+  it('stripes hazardous terrain cells when a hazard mask is shown, and only those', async () => {
+    const { page } = session;
+    const change = await page.evaluate(async () => {
+      type Scene = {
+        framesDrawn: number;
+        setHazard(mask: Uint8Array | null, visible: boolean): void;
+        projectGroundPoint(e: number, n: number): { x: number; y: number } | null;
+      };
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: Scene };
+      const scene = canvas.landreachScene;
+      const frame = async () => {
+        const before = scene.framesDrawn;
+        while (scene.framesDrawn === before) await new Promise((r) => requestAnimationFrame(r));
+        const copy = document.createElement('canvas');
+        copy.width = canvas.width;
+        copy.height = canvas.height;
+        copy.getContext('2d')!.drawImage(canvas, 0, 0);
+        return copy.getContext('2d')!;
+      };
+      const patchDiff = (a: CanvasRenderingContext2D, b: CanvasRenderingContext2D, e: number, n: number) => {
+        const p = scene.projectGroundPoint(e, n)!;
+        const x = Math.round(p.x) - 6;
+        const y = Math.round(p.y) - 6;
+        const da = a.getImageData(x, y, 13, 13).data;
+        const db = b.getImageData(x, y, 13, 13).data;
+        let max = 0;
+        for (let i = 0; i < da.length; i++) max = Math.max(max, Math.abs(da[i] - db[i]));
+        return max;
+      };
+      scene.setHazard(null, false);
+      const plain = await frame();
+      // Synthetic mask (not terrain analysis): every sample east of 1000 m is "unsafe".
+      const size = 161;
+      const mask = new Uint8Array(size * size);
+      for (let r = 0; r < size; r++) for (let c = 0; c < size; c++) mask[r * size + c] = -4000 + c * 50 > 1000 ? 1 : 0;
+      scene.setHazard(mask, true);
+      const striped = await frame();
+      return { hazardous: patchDiff(plain, striped, 2500, 0), safe: patchDiff(plain, striped, -2500, 0) };
+    });
+    await screenshot(page, 'scene-hazard-stripes');
+    await page.evaluate(() => {
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { setHazard(m: null, v: boolean): void } };
+      canvas.landreachScene.setHazard(null, false);
+    });
+    expect(change.hazardous).toBeGreaterThan(60);
+    expect(change.safe).toBe(0);
+  });
+
   it('draws a trajectory handed to the scene as a path in the first series colour', async () => {
     const { page } = session;
     await page.getByTestId('view-oblique').click();
