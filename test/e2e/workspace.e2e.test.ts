@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import * as fs from 'node:fs/promises';
+import { execFileSync } from 'node:child_process';
 import { openSession, screenshot, type Session } from './browser.ts';
 import { PRODUCTION_CSP } from '../../renderer/csp.ts';
 import { CAUTION_LINE, CAUTION_TEXT } from '../../renderer/caution.ts';
@@ -290,6 +291,9 @@ describe('workspace in Chromium', () => {
     expect(text).toMatchObject({ Title: 'Rim trade (invented)', Disclaimer: CAUTION_LINE });
     expect(text.Software).toMatch(/^Landreach \d+\.\d+\.\d+$/);
     expect(text.Description).toMatch(/^Study inputs SHA-256 prefix [0-9a-f]{12}$/);
+    // Outside check: Pillow (Debian python3-pil) decodes every pixel of the file and sees the same size.
+    const decoded = execFileSync('/usr/bin/python3', ['-c', 'import sys; from PIL import Image; im = Image.open(sys.argv[1]); im.load(); print(im.size[0], im.size[1], im.mode)', file], { encoding: 'utf8' });
+    expect(decoded.trim()).toBe(`${size.width} ${size.height} RGBA`);
     await fs.copyFile(file, new URL('../../test-artifacts/exported-scene.png', import.meta.url));
     expect(session.problems).toEqual([]);
   });
