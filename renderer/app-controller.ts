@@ -59,7 +59,12 @@ export class AppController {
     }
     const filled = this.workspace.snapshot().filledFromDefaults;
     if (filled.length) {
-      this.hooks.notify({ kind: 'warning', text: `${result.name} lacked ${filled.length} input${filled.length > 1 ? 's' : ''} (${filled.join(', ')}); defaults were filled in. Check them before computing.` });
+      const shown = filled.slice(0, 3).map((id) => this.workspace.fieldName(id));
+      const more = filled.length > shown.length ? ` and ${filled.length - shown.length} more` : '';
+      this.hooks.notify({
+        kind: 'warning',
+        text: `${result.name} lacked ${filled.length} input${filled.length > 1 ? 's' : ''} (${shown.join(', ')}${more}); defaults were filled in and marked. Check them before computing.`,
+      });
     } else {
       this.hooks.notify({ kind: 'info', text: `Opened ${result.name}.` });
     }

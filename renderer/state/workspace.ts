@@ -63,6 +63,8 @@ export class Workspace {
     this.model.field(fieldId); // unknown ids are a program error
     const draft = this.draft;
     if (draft.raw[fieldId] === raw) return;
+    // Touched by the user: no longer just a default filled in for a missing value.
+    this.filled = this.filled.filter((id) => id !== fieldId);
     this.history.record({ ...draft, raw: { ...draft.raw, [fieldId]: raw } }, `field:${fieldId}`);
     this.changed();
   }
@@ -120,6 +122,11 @@ export class Workspace {
     for (const issue of this.model.crossIssues(this.values()) as CrossIssue[]) {
       if (!problems[issue.field]) problems[issue.field] = { severity: issue.severity, message: issue.message };
     }
+    for (const id of this.filled) {
+      if (problems[id]) continue;
+      const spec = this.model.field(id);
+      problems[id] = { severity: 'warning', message: `Not in the opened file: the default ${this.draft.raw[id]}${spec.unit ? ` ${spec.unit}` : ''} was filled in. Check it, or type the value you mean.` };
+    }
     return problems;
   }
 
@@ -160,9 +167,17 @@ export class Workspace {
     return JSON.stringify({ format: DRAFT_FORMAT, fileName: this.fileName, ...this.draft });
   }
 
+  /** "Group › Label" of a field, for messages. */
+  fieldName(id: string): string {
+    const spec = this.model.field(id);
+    const group = this.model.groups.find((g) => g.id === spec.group);
+    return `${group?.title ?? spec.group} › ${spec.label}`;
+  }
+
   markSaved(fileName: string): void {
     this.saved = this.draft;
     this.fileName = fileName;
+    this.filled = [];
     this.changed();
   }
 

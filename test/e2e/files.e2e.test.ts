@@ -30,7 +30,8 @@ describe('files in the browser fallback', () => {
     expect(await input('vehicle.isp_s').inputValue()).toBe('305');
     expect(await input('vehicle.thrustMax_N').inputValue()).toBe('21000');
     // The file lacked most inputs: the user is told defaults were filled in.
-    expect(await page.getByTestId('notice').first().textContent()).toMatch(/ridge\.landreach\.json lacked \d+ inputs/);
+    expect(await page.getByTestId('notice').first().textContent()).toMatch(/ridge\.landreach\.json lacked 22 inputs \(Planet › Surface gravity, .* and 19 more\)/);
+    expect(await page.locator('[data-field="vehicle.wetMass_kg"] .message').textContent()).toMatch(/Not in the opened file: the default 2400 kg was filled in/);
     await screenshot(page, 'opened-study');
   });
 

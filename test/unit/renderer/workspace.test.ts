@@ -71,6 +71,20 @@ describe('workspace', () => {
     expect(other.draft.raw['vehicle.isp_s']).toBe('228');
   });
 
+  it('marks inputs a file lacked until the user touches them or saves', () => {
+    const w = new Workspace(model);
+    w.open(JSON.stringify({ format: 'landreach-study', version: 1, name: 'x', vehicle: { isp_s: 310 } }), 'x.json');
+    const problems = w.snapshot().problems;
+    expect(problems['vehicle.isp_s']).toBeUndefined();
+    expect(problems['vehicle.wetMass_kg']).toEqual({ severity: 'warning', message: 'Not in the opened file: the default 2400 kg was filled in. Check it, or type the value you mean.' });
+    expect(w.snapshot().errorCount).toBe(0);
+    w.edit('vehicle.wetMass_kg', '2500');
+    expect(w.snapshot().problems['vehicle.wetMass_kg']).toBeUndefined();
+    w.markSaved('x.json');
+    expect(w.snapshot().warningCount).toBe(0);
+    expect(w.fieldName('vehicle.isp_s')).toBe('Vehicle › Specific impulse');
+  });
+
   it('a failed open changes nothing', () => {
     const w = new Workspace(model);
     w.edit('vehicle.isp_s', '300');
