@@ -2,9 +2,9 @@
  * Main-process entry: wires Electron to the small modules beside it. This is the only file that
  * imports 'electron' at run time (besides the preload); everything it calls is tested without it.
  */
-import { app, BrowserWindow, dialog, ipcMain, Menu, session as electronSession, type WebContents } from 'electron';
+import { app, BrowserWindow, dialog, ipcMain, Menu, protocol, session as electronSession, type WebContents } from 'electron';
+import { readFile } from 'node:fs/promises';
 import * as path from 'node:path';
-import { pathToFileURL } from 'node:url';
 import { MENU_CHANNEL, type MenuCommand, type MenuCommandDetail } from './bridge-api.ts';
 import { registerIpcHandlers, type Dialogs, type DocumentSession } from './ipc.ts';
 import { buildMenuTemplate } from './menu.ts';
@@ -13,10 +13,26 @@ import { RecoveryStore } from './recovery.ts';
 import { applyContentsRules, applySessionRules, type GuardedContents } from './security.ts';
 import { createWindowOptions } from './window-options.ts';
 import { closeDecision } from './close-guard.ts';
+import { APP_SCHEME, APP_SCHEME_PRIVILEGES, APP_URL, resolveAppRequest } from './app-protocol.ts';
 
 const here = import.meta.dirname;
+const rendererDir = path.join(here, '..', 'dist');
 const devUrl = !app.isPackaged ? process.env.LANDREACH_DEV_URL : undefined;
-const appUrl = devUrl ?? pathToFileURL(path.join(here, '..', 'dist', 'index.html')).href;
+const appUrl = devUrl ?? APP_URL;
+
+// Must happen before the app is ready.
+protocol.registerSchemesAsPrivileged([APP_SCHEME_PRIVILEGES]);
+
+/** Serve app:// from the built renderer folder only (see app-protocol.ts). */
+async function serveAppRequest(request: Request): Promise<Response> {
+  const resolved = resolveAppRequest(request.url, rendererDir);
+  if (!resolved) return new Response('Not found', { status: 404 });
+  try {
+    return new Response(await readFile(resolved.file), { headers: { 'content-type': resolved.contentType } });
+  } catch {
+    return new Response('Not found', { status: 404 });
+  }
+}
 
 const documentSession: DocumentSession = { currentPath: null, dirty: false, title: 'Untitled study' };
 let mainWindow: BrowserWindow | null = null;
@@ -66,6 +82,7 @@ async function start(): Promise<void> {
   const recovery = new RecoveryStore(path.join(userData, 'recovery', 'unsaved-study.json'));
   await recent.load();
 
+  protocol.handle(APP_SCHEME, serveAppRequest);
   applySessionRules(electronSession.defaultSession);
   registerIpcHandlers(ipcMain, {
     appUrl,

@@ -19,6 +19,8 @@ const fake = vi.hoisted(() => {
     windows: [] as { options: Record<string, unknown>; listeners: Map<string, Listener>; loaded: string[]; titles: string[] }[],
     handlers: new Map<string, Listener>(),
     permissionRequest: null as null | Listener,
+    privileged: [] as unknown[],
+    protocolHandlers: new Map<string, Listener>(),
     permissionCheck: null as null | Listener,
     menus: 0,
     messageBoxAnswer: 0,
@@ -70,6 +72,10 @@ const fake = vi.hoisted(() => {
       showErrorBox: () => undefined,
     },
     ipcMain: { handle: (channel: string, l: Listener) => state.handlers.set(channel, l) },
+    protocol: {
+      registerSchemesAsPrivileged: (schemes: unknown[]) => state.privileged.push(...schemes),
+      handle: (scheme: string, l: Listener) => state.protocolHandlers.set(scheme, l),
+    },
     Menu: { buildFromTemplate: (t: unknown) => t, setApplicationMenu: () => void state.menus++ },
     session: {
       defaultSession: {
@@ -105,8 +111,12 @@ describe('main process wiring', () => {
     expect(String(web.preload)).toMatch(/preload\.cjs$/);
   });
 
-  it('loads the built page from disk', () => {
-    expect(fake.state.windows[0].loaded[0]).toMatch(/^file:\/\/.*\/dist\/index\.html$/);
+  it('loads the page from the privileged app:// scheme, served only from the renderer folder', async () => {
+    expect(fake.state.windows[0].loaded[0]).toBe('app://landreach/index.html');
+    expect(fake.state.privileged).toEqual([{ scheme: 'app', privileges: expect.objectContaining({ standard: true, secure: true }) }]);
+    const serve = fake.state.protocolHandlers.get('app')! as (r: Request) => Promise<Response>;
+    expect((await serve(new Request('app://landreach/%2e%2e%2f%2e%2e%2fpackage.json'))).status).toBe(404);
+    expect((await serve(new Request('app://landreach/no-such-file.js'))).status).toBe(404);
   });
 
   it('applies the navigation and window rules to every web contents created', () => {
