@@ -9,7 +9,6 @@ import {
   BufferGeometry,
   Color,
   DirectionalLight,
-  Line,
   LineBasicMaterial,
   LineSegments,
   Mesh,
@@ -17,7 +16,6 @@ import {
   MeshLambertMaterial,
   PerspectiveCamera,
   Scene,
-  SphereGeometry,
   SRGBColorSpace,
   Vector2,
   Vector3,
@@ -28,9 +26,7 @@ import {
 import { OrbitControls } from 'three/addons/controls/OrbitControls.js';
 import { buildContourGeometry, computeContours, niceThresholds, type ContourLabel } from './contour-lines.ts';
 import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
-import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from './markers.ts';
-import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-lines.ts';
-import { SERIES } from '../plots/palette.ts';
+import { buildMarkerObjects, type IgnitionMarker, type LandingEllipse, type SceneTrajectory } from './scene-objects.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
 import { colorizeLinear } from './colormap.ts';
 import { buildHazardGeometry, hazardStripeTexture } from './hazard-overlay.ts';
@@ -53,34 +49,12 @@ export interface SceneSnapshot {
   info: ViewInfo;
 }
 
-/** A trajectory to draw: samples relative to the target, as core/descent returns them. */
-export interface SceneTrajectory {
-  samples: TrajectorySamples;
-  thrustMax_N: number;
-  /** CSS colour; defaults cycle through the colour-blind-safe series palette. */
-  color?: string;
-}
+export type { IgnitionMarker, LandingEllipse, SceneTrajectory } from './scene-objects.ts';
 
 /** A field draped on the terrain instead of its height: one value per terrain sample (NaN = none). */
 export interface SceneDrape {
   values: Float32Array;
   range: [number, number];
-}
-
-/** Landing dispersion ellipse around the nominal target. */
-export interface LandingEllipse {
-  semiMajor_m: number;
-  semiMinor_m: number;
-  /** Major-axis direction, degrees clockwise from north. */
-  azimuth_deg: number;
-}
-
-const TRAJECTORY_COLOURS = [SERIES.orange, SERIES.skyBlue, SERIES.purple, SERIES.yellow, SERIES.green];
-
-export interface IgnitionMarker {
-  east_m: number;
-  north_m: number;
-  altitude_m: number;
 }
 
 export class TerrainScene {
@@ -346,34 +320,12 @@ export class TerrainScene {
 
   private rebuildMarkers(): void {
     for (const m of this.markers) this.removeObject(m);
-    this.markers = [];
-    const grid = this.grid;
-    if (!grid) return;
-    const ex = this.exaggeration;
-    const ground = (e: number, n: number) => ((Number.isNaN(sampleHeight(grid, e, n)) ? 0 : sampleHeight(grid, e, n)) + 2) * ex;
-    const span = (grid.width - 1) * grid.pixelSize_m;
-    const target = new Line(lineGeometry(ringPositions(0, 0, span / 60, 48, ground)), new LineBasicMaterial({ color: 0xffffff }));
-    this.markers.push(target);
-    if (this.ignition) {
-      const { east_m, north_m, altitude_m } = this.ignition;
-      const z = (sampleHeight(grid, 0, 0) + altitude_m) * ex;
-      const ball = new Mesh(new SphereGeometry(span / 150, 16, 12), new MeshLambertMaterial({ color: 0xf4f1ea, emissive: 0x404040 }));
-      ball.position.set(east_m, north_m, z);
-      const drop = new Line(lineGeometry(dropLinePositions(east_m, north_m, z, ground(east_m, north_m))), new LineBasicMaterial({ color: 0xf4f1ea, transparent: true, opacity: 0.6 }));
-      this.markers.push(ball, drop);
-    }
-    const base = Number.isNaN(sampleHeight(grid, 0, 0)) ? 0 : sampleHeight(grid, 0, 0);
-    this.trajectories.forEach((t, k) => {
-      const color = new Color(t.color ?? TRAJECTORY_COLOURS[k % TRAJECTORY_COLOURS.length]);
-      const { path, vectors } = buildTrajectoryGeometry(t.samples, { baseHeight_m: base, exaggeration: ex, vectorEvery: 5, vectorLength_m: span / 25, thrustMax_N: t.thrustMax_N });
-      this.markers.push(new Line(path, new LineBasicMaterial({ color })), new LineSegments(vectors, new LineBasicMaterial({ color, transparent: true, opacity: 0.75 })));
-    });
-    if (this.ellipse) {
-      const { semiMajor_m, semiMinor_m, azimuth_deg } = this.ellipse;
-      this.markers.push(new Line(lineGeometry(ellipsePositions(0, 0, semiMajor_m, semiMinor_m, azimuth_deg, 96, ground)), new LineBasicMaterial({ color: 0xffffff })));
-    }
+    this.markers = this.grid
+      ? buildMarkerObjects(this.grid, this.exaggeration, { ignition: this.ignition, trajectories: this.trajectories, ellipse: this.ellipse })
+      : [];
     for (const m of this.markers) this.scene.add(m);
   }
+
 
   private removeObject(object: Object3D | null): void {
     if (!object) return;

@@ -1,0 +1,88 @@
+/**
+ * three.js objects for the markers over the terrain: nominal-target ring, ignition point with its
+ * drop line, trajectories (path + thrust vectors) and the landing ellipse. Built from plain data by
+ * the pure geometry builders; no renderer needed, so this is unit-tested in Node.
+ */
+import { Color, Line, LineBasicMaterial, LineSegments, Mesh, MeshLambertMaterial, SphereGeometry, type Object3D } from 'three';
+import { sampleHeight, type ElevationGrid } from './elevation-grid.ts';
+import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from './markers.ts';
+import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-lines.ts';
+import { SERIES } from '../plots/palette.ts';
+
+/** A trajectory to draw: samples relative to the target, as core/descent returns them. */
+export interface SceneTrajectory {
+  samples: TrajectorySamples;
+  thrustMax_N: number;
+  /** CSS colour; defaults cycle through the colour-blind-safe series palette. */
+  color?: string;
+}
+
+/** Landing dispersion ellipse around the nominal target. */
+export interface LandingEllipse {
+  semiMajor_m: number;
+  semiMinor_m: number;
+  /** Major-axis direction, degrees clockwise from north. */
+  azimuth_deg: number;
+}
+
+export interface IgnitionMarker {
+  east_m: number;
+  north_m: number;
+  altitude_m: number;
+}
+
+export interface MarkerInputs {
+  ignition: IgnitionMarker | null;
+  trajectories: readonly SceneTrajectory[];
+  ellipse: LandingEllipse | null;
+}
+
+/** Default trajectory colours, in order (Okabe–Ito, see plots/palette.ts). */
+export const TRAJECTORY_COLOURS = [SERIES.orange, SERIES.skyBlue, SERIES.purple, SERIES.yellow, SERIES.green] as const;
+const MARKER_INK = 0xf4f1ea;
+
+export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, inputs: MarkerInputs): Object3D[] {
+  const ex = exaggeration;
+  const heightAt = (e: number, n: number) => {
+    const h = sampleHeight(grid, e, n);
+    return Number.isNaN(h) ? 0 : h;
+  };
+  // Lines sit 2 m above the ground so the terrain does not swallow them.
+  const ground = (e: number, n: number) => (heightAt(e, n) + 2) * ex;
+  const span = (grid.width - 1) * grid.pixelSize_m;
+  const base = heightAt(0, 0);
+  const objects: Object3D[] = [];
+
+  const target = new Line(lineGeometry(ringPositions(0, 0, span / 60, 48, ground)), new LineBasicMaterial({ color: 0xffffff }));
+  target.name = 'nominal-target';
+  objects.push(target);
+
+  if (inputs.ignition) {
+    const { east_m, north_m, altitude_m } = inputs.ignition;
+    const z = (base + altitude_m) * ex;
+    const ball = new Mesh(new SphereGeometry(span / 150, 16, 12), new MeshLambertMaterial({ color: MARKER_INK, emissive: 0x404040 }));
+    ball.position.set(east_m, north_m, z);
+    ball.name = 'ignition-point';
+    const drop = new Line(lineGeometry(dropLinePositions(east_m, north_m, z, ground(east_m, north_m))), new LineBasicMaterial({ color: MARKER_INK, transparent: true, opacity: 0.6 }));
+    drop.name = 'ignition-drop-line';
+    objects.push(ball, drop);
+  }
+
+  inputs.trajectories.forEach((t, k) => {
+    const color = new Color(t.color ?? TRAJECTORY_COLOURS[k % TRAJECTORY_COLOURS.length]);
+    const { path, vectors } = buildTrajectoryGeometry(t.samples, { baseHeight_m: base, exaggeration: ex, vectorEvery: 5, vectorLength_m: span / 25, thrustMax_N: t.thrustMax_N });
+    const line = new Line(path, new LineBasicMaterial({ color }));
+    line.name = `trajectory-${k}`;
+    const arrows = new LineSegments(vectors, new LineBasicMaterial({ color, transparent: true, opacity: 0.75 }));
+    arrows.name = `thrust-vectors-${k}`;
+    objects.push(line, arrows);
+  });
+
+  if (inputs.ellipse) {
+    const { semiMajor_m, semiMinor_m, azimuth_deg } = inputs.ellipse;
+    const ellipse = new Line(lineGeometry(ellipsePositions(0, 0, semiMajor_m, semiMinor_m, azimuth_deg, 96, ground)), new LineBasicMaterial({ color: 0xffffff }));
+    ellipse.name = 'landing-ellipse';
+    objects.push(ellipse);
+  }
+  return objects;
+}
