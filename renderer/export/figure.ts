@@ -114,6 +114,8 @@ export async function composeFigurePng(image: HTMLCanvasElement, facts: CaptionF
     ctx.shadowBlur = 3 * s;
     ctx.fillStyle = '#f4f1ea';
     for (const label of snap.info.contourLabels) ctx.fillText(`${label.value} m`, label.x, label.y);
+    ctx.fillStyle = '#8c9aa7';
+    for (const label of snap.info.axisLabels) ctx.fillText(label.text, label.x, label.y);
     ctx.shadowBlur = 0;
     drawLegend(ctx, scene.legend, 12 * s, image.height - 12 * s, s);
     drawScaleBar(ctx, snap, image.width - 16 * s, image.height - 8 * s, s);

@@ -3,8 +3,9 @@
  * drop line, trajectories (path + thrust vectors) and the landing ellipse. Built from plain data by
  * the pure geometry builders; no renderer needed, so this is unit-tested in Node.
  */
-import { Color, Line, LineBasicMaterial, LineSegments, Mesh, MeshLambertMaterial, SphereGeometry, type Object3D } from 'three';
-import { sampleHeight, type ElevationGrid } from './elevation-grid.ts';
+import { BufferAttribute, BufferGeometry, Color, Line, LineBasicMaterial, LineSegments, Mesh, MeshLambertMaterial, SphereGeometry, type Object3D } from 'three';
+import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
+import { formatAxisTick, niceTicks } from './view.ts';
 import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from './markers.ts';
 import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-lines.ts';
 import { SERIES } from '../plots/palette.ts';
@@ -85,4 +86,42 @@ export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, in
     objects.push(ellipse);
   }
   return objects;
+}
+
+export interface AxisLabel {
+  text: string;
+  position: [number, number, number];
+}
+
+/**
+ * Metre-ticked axes framing the terrain: an east axis along the south edge and a north axis along
+ * the west edge, at a level just below the lowest ground so relief never hides them, with ticks
+ * pointing outwards and one label per tick (distances from the nominal target).
+ */
+export function buildAxisObjects(grid: ElevationGrid, exaggeration: number, tickCount = 6): { object: LineSegments; labels: AxisLabel[] } {
+  const west = grid.west_m;
+  const east = grid.west_m + (grid.width - 1) * grid.pixelSize_m;
+  const north = grid.north_m;
+  const south = grid.north_m - (grid.height - 1) * grid.pixelSize_m;
+  const [lo, hi] = heightRange(grid.heights);
+  const z = (lo - 0.02 * (hi - lo || 1)) * exaggeration;
+  const tick = Math.max(east - west, north - south) / 60;
+  const coords: number[] = [west, south, z, east, south, z, west, south, z, west, north, z];
+  const labels: AxisLabel[] = [];
+  for (const x of niceTicks(west, east, tickCount)) {
+    coords.push(x, south, z, x, south - tick, z);
+    labels.push({ text: formatAxisTick(x), position: [x, south - 3 * tick, z] });
+  }
+  for (const y of niceTicks(south, north, tickCount)) {
+    // The south-west corner already carries the east axis's first label.
+    if (Math.abs(y - south) < 1e-6 * (north - south)) continue;
+    coords.push(west, y, z, west - tick, y, z);
+    labels.push({ text: formatAxisTick(y), position: [west - 4 * tick, y, z] });
+  }
+  labels.push({ text: 'E', position: [east + 3 * tick, south, z] }, { text: 'N', position: [west, north + 3 * tick, z] });
+  const geometry = new BufferGeometry();
+  geometry.setAttribute('position', new BufferAttribute(new Float32Array(coords), 3));
+  const object = new LineSegments(geometry, new LineBasicMaterial({ color: 0x8c9aa7 }));
+  object.name = 'axes';
+  return { object, labels };
 }

@@ -26,7 +26,7 @@ import {
 import { OrbitControls } from 'three/addons/controls/OrbitControls.js';
 import { buildContourGeometry, computeContours, niceThresholds, type ContourLabel } from './contour-lines.ts';
 import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
-import { buildMarkerObjects, type IgnitionMarker, type LandingEllipse, type SceneTrajectory } from './scene-objects.ts';
+import { buildAxisObjects, buildMarkerObjects, type AxisLabel, type IgnitionMarker, type LandingEllipse, type SceneTrajectory } from './scene-objects.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
 import { colorizeLinear } from './colormap.ts';
 import { buildHazardGeometry, hazardStripeTexture } from './hazard-overlay.ts';
@@ -41,6 +41,7 @@ export interface ViewInfo {
   scaleBar: { pixels: number; label: string };
   northAngle_rad: number;
   contourLabels: { value: number; x: number; y: number }[];
+  axisLabels: { text: string; x: number; y: number }[];
 }
 
 /** A rendered frame and the view furniture that belongs on it, in the frame's pixels. */
@@ -66,6 +67,8 @@ export class TerrainScene {
   private terrain: Mesh | null = null;
   private contours: LineSegments | null = null;
   private labels: ContourLabel[] = [];
+  private axes: LineSegments | null = null;
+  private axisLabels: AxisLabel[] = [];
   private markers: Object3D[] = [];
   private ignition: IgnitionMarker | null = null;
   private trajectories: SceneTrajectory[] = [];
@@ -273,17 +276,24 @@ export class TerrainScene {
       }),
       (LABEL_SPACING_PX * height) / Math.max(1, this.canvas.clientHeight || height),
     );
-    return { scaleBar: bar, northAngle_rad: northAngle(this.camera.matrixWorld.elements), contourLabels: labels };
+    const axisLabels = this.axisLabels.flatMap((label) => {
+      const v = this.camera.position.clone().set(...label.position).project(this.camera);
+      if (v.z > 1 || Math.abs(v.x) > 1 || Math.abs(v.y) > 1) return [];
+      return [{ text: label.text, x: ((v.x + 1) / 2) * width, y: ((1 - v.y) / 2) * height }];
+    });
+    return { scaleBar: bar, northAngle_rad: northAngle(this.camera.matrixWorld.elements), contourLabels: labels, axisLabels };
   }
 
   private bounds(): SceneBounds | null {
     if (!this.grid) return null;
     const g = this.grid;
     const [lo, hi] = heightRange(g.heights);
+    // Room for the axis labels outside the south and west edges.
+    const margin = (Math.max(g.width, g.height) - 1) * g.pixelSize_m * 0.08;
     return {
-      minEast: g.west_m,
+      minEast: g.west_m - margin,
       maxEast: g.west_m + (g.width - 1) * g.pixelSize_m,
-      minNorth: g.north_m - (g.height - 1) * g.pixelSize_m,
+      minNorth: g.north_m - (g.height - 1) * g.pixelSize_m - margin,
       maxNorth: g.north_m,
       minZ: lo * this.exaggeration,
       focusZ: ((lo + hi) / 2) * this.exaggeration,
@@ -300,6 +310,11 @@ export class TerrainScene {
     this.contours = new LineSegments(geometry, new LineBasicMaterial({ color: 0xf4f1ea, transparent: true, opacity: 0.55 }));
     this.labels = labels;
     this.scene.add(this.contours);
+    this.removeObject(this.axes);
+    const axes = buildAxisObjects(this.grid, this.exaggeration);
+    this.axes = axes.object;
+    this.axisLabels = axes.labels;
+    this.scene.add(this.axes);
     this.rebuildHazard();
     this.rebuildMarkers();
   }

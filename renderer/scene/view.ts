@@ -132,3 +132,20 @@ export function fitPose(pose: CameraPose, b: SceneBounds, verticalFov_deg: numbe
   const position = target.clone().addScaledVector(dir, hi);
   return { position: [position.x, position.y, position.z], target: pose.target };
 }
+
+/** "Nice" tick values (1, 2, 2.5 or 5 × 10ᵏ apart) inside [lo, hi], about `count` of them, 0 included when in range. */
+export function niceTicks(lo: number, hi: number, count: number): number[] {
+  if (!(hi > lo) || count < 1) return [];
+  const raw = (hi - lo) / count;
+  const magnitude = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 2.5, 5, 10].map((m) => m * magnitude).find((x) => x >= raw) ?? 10 * magnitude;
+  const out: number[] = [];
+  for (let k = Math.ceil(lo / step); k * step <= hi + step * 1e-9; k++) out.push(Number((k * step).toPrecision(12)));
+  return out;
+}
+
+/** Signed distance label for an axis tick: "−2 km", "0 m", "500 m". */
+export function formatAxisTick(metres: number): string {
+  if (metres === 0) return '0 m';
+  return `${metres < 0 ? '−' : ''}${formatDistance(Math.abs(metres))}`;
+}

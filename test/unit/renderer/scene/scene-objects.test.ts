@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { Color, type Line, type LineBasicMaterial, type Mesh } from 'three';
-import { buildMarkerObjects, TRAJECTORY_COLOURS } from '../../../../renderer/scene/scene-objects.ts';
+import { buildAxisObjects, buildMarkerObjects, TRAJECTORY_COLOURS } from '../../../../renderer/scene/scene-objects.ts';
+import { formatAxisTick, niceTicks } from '../../../../renderer/scene/view.ts';
 import type { ElevationGrid } from '../../../../renderer/scene/elevation-grid.ts';
 
 // A tilted plane: height = 0.1 × east + 50, so the target's ground (0, 0) is at 50 m.
@@ -47,5 +48,26 @@ describe('marker objects', () => {
     const names = (e: boolean) => buildMarkerObjects(grid, 1, { ignition: null, trajectories: [], ellipse: e ? { semiMajor_m: 200, semiMinor_m: 80, azimuth_deg: 30 } : null }).map((o) => o.name);
     expect(names(true)).toContain('landing-ellipse');
     expect(names(false)).not.toContain('landing-ellipse');
+  });
+});
+
+describe('metre-ticked axes', () => {
+  it('ticks the south and west edges at nice distances, below the lowest ground', () => {
+    const { object, labels } = buildAxisObjects(grid, 2, 5);
+    const texts = labels.map((l) => l.text);
+    // The grid spans −500 … 500 m both ways; a step of 200 m gives −400 … 400.
+    expect(texts).toEqual(['−400 m', '−200 m', '0 m', '200 m', '400 m', '−400 m', '−200 m', '0 m', '200 m', '400 m', 'E', 'N']);
+    const p = object.geometry.getAttribute('position');
+    // Lowest ground is 0.1 × −500 + 50 = 0 m, highest 100 m: the frame sits 2 m below, exaggerated ×2.
+    for (let i = 0; i < p.count; i++) expect(p.getZ(i)).toBeCloseTo(2 * (0 - 0.02 * 100), 5);
+    // First east tick starts on the south edge at east = −400.
+    expect([p.getX(4), p.getY(4)]).toEqual([-400, -500]);
+  });
+
+  it('chooses 1-2-2.5-5 steps and signs labels', () => {
+    expect(niceTicks(-4000, 4000, 6)).toEqual([-4000, -2000, 0, 2000, 4000]);
+    expect(niceTicks(0, 1000, 4)).toEqual([0, 250, 500, 750, 1000]);
+    expect(niceTicks(3, 3, 4)).toEqual([]);
+    expect([-2000, 0, 750, 1500].map(formatAxisTick)).toEqual(['−2 km', '0 m', '750 m', '1.5 km']);
   });
 });
