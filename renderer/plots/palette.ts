@@ -15,3 +15,6 @@ export const SERIES = {
 
 /** Colours of the chart furniture on the app's dark panels. */
 export const CHART_INK = { text: '#c9d3dc', grid: 'rgba(201, 211, 220, 0.12)', limit: '#e8ecef' } as const;
+
+/** Trajectory colours, in order: the same in the 3D scene and in the charts, so a curve matches its path. */
+export const TRAJECTORY_COLOURS = [SERIES.orange, SERIES.skyBlue, SERIES.purple, SERIES.yellow, SERIES.green] as const;

@@ -8,7 +8,7 @@ import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.
 import { formatAxisTick, niceTicks } from './view.ts';
 import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from './markers.ts';
 import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-lines.ts';
-import { SERIES } from '../plots/palette.ts';
+import { TRAJECTORY_COLOURS } from '../plots/palette.ts';
 
 /** A trajectory to draw: samples relative to the target, as core/descent returns them. */
 export interface SceneTrajectory {
@@ -38,8 +38,7 @@ export interface MarkerInputs {
   ellipse: LandingEllipse | null;
 }
 
-/** Default trajectory colours, in order (Okabe–Ito, see plots/palette.ts). */
-export const TRAJECTORY_COLOURS = [SERIES.orange, SERIES.skyBlue, SERIES.purple, SERIES.yellow, SERIES.green] as const;
+export { TRAJECTORY_COLOURS };
 const MARKER_INK = 0xf4f1ea;
 
 export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, inputs: MarkerInputs): Object3D[] {
