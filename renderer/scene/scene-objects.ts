@@ -32,10 +32,18 @@ export interface IgnitionMarker {
   altitude_m: number;
 }
 
+/** A target the user picked on the terrain. */
+export interface PickedTarget {
+  east_m: number;
+  north_m: number;
+}
+
 export interface MarkerInputs {
   ignition: IgnitionMarker | null;
   trajectories: readonly SceneTrajectory[];
   ellipse: LandingEllipse | null;
+  /** Picked targets, drawn as double rings in the colour their trajectory will have. */
+  picks?: readonly PickedTarget[];
 }
 
 export { TRAJECTORY_COLOURS };
@@ -76,6 +84,15 @@ export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, in
     const arrows = new LineSegments(vectors, new LineBasicMaterial({ color, transparent: true, opacity: 0.75 }));
     arrows.name = `thrust-vectors-${k}`;
     objects.push(line, arrows);
+  });
+
+  (inputs.picks ?? []).forEach((p, k) => {
+    const material = new LineBasicMaterial({ color: new Color(TRAJECTORY_COLOURS[k % TRAJECTORY_COLOURS.length]) });
+    for (const [radius, part] of [[span / 90, 'outer'], [span / 160, 'inner']] as const) {
+      const ring = new Line(lineGeometry(ringPositions(p.east_m, p.north_m, radius, 40, ground)), material);
+      ring.name = `pick-${k}-${part}`;
+      objects.push(ring);
+    }
   });
 
   if (inputs.ellipse) {

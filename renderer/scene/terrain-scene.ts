@@ -26,7 +26,8 @@ import {
 import { OrbitControls } from 'three/addons/controls/OrbitControls.js';
 import { buildContourGeometry, computeContours, niceThresholds, type ContourLabel } from './contour-lines.ts';
 import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
-import { buildAxisObjects, buildMarkerObjects, type AxisLabel, type IgnitionMarker, type LandingEllipse, type SceneTrajectory } from './scene-objects.ts';
+import { buildAxisObjects, buildMarkerObjects, type AxisLabel, type IgnitionMarker, type LandingEllipse, type PickedTarget, type SceneTrajectory } from './scene-objects.ts';
+import { pickGround, toNdc, type GroundPick } from './picking.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
 import { colorizeLinear } from './colormap.ts';
 import { buildHazardGeometry, hazardStripeTexture } from './hazard-overlay.ts';
@@ -50,7 +51,8 @@ export interface SceneSnapshot {
   info: ViewInfo;
 }
 
-export type { IgnitionMarker, LandingEllipse, SceneTrajectory } from './scene-objects.ts';
+export type { IgnitionMarker, LandingEllipse, PickedTarget, SceneTrajectory } from './scene-objects.ts';
+export type { GroundPick } from './picking.ts';
 
 /** A field draped on the terrain instead of its height: one value per terrain sample (NaN = none). */
 export interface SceneDrape {
@@ -73,6 +75,7 @@ export class TerrainScene {
   private ignition: IgnitionMarker | null = null;
   private trajectories: SceneTrajectory[] = [];
   private ellipse: LandingEllipse | null = null;
+  private picks: PickedTarget[] = [];
   private exaggeration = 1;
   private drape: SceneDrape | null = null;
   private hazardMask: Uint8Array | null = null;
@@ -154,6 +157,19 @@ export class TerrainScene {
   /** Show these trajectories (replacing any shown), each as a path with thrust vectors. */
   setTrajectories(trajectories: SceneTrajectory[]): void {
     this.trajectories = trajectories;
+    this.rebuildMarkers();
+    this.requestRender();
+  }
+
+  /** The ground point under a pointer position (client pixels), or null off the terrain. */
+  pickAt(clientX: number, clientY: number): GroundPick | null {
+    if (!this.terrain) return null;
+    this.camera.updateMatrixWorld();
+    return pickGround(this.terrain, this.camera, toNdc(clientX, clientY, this.canvas.getBoundingClientRect()));
+  }
+
+  setPicks(picks: PickedTarget[]): void {
+    this.picks = picks;
     this.rebuildMarkers();
     this.requestRender();
   }
@@ -336,7 +352,7 @@ export class TerrainScene {
   private rebuildMarkers(): void {
     for (const m of this.markers) this.removeObject(m);
     this.markers = this.grid
-      ? buildMarkerObjects(this.grid, this.exaggeration, { ignition: this.ignition, trajectories: this.trajectories, ellipse: this.ellipse })
+      ? buildMarkerObjects(this.grid, this.exaggeration, { ignition: this.ignition, trajectories: this.trajectories, ellipse: this.ellipse, picks: this.picks })
       : [];
     for (const m of this.markers) this.scene.add(m);
   }

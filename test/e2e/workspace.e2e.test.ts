@@ -265,6 +265,41 @@ describe('workspace in Chromium', () => {
     });
   });
 
+  it('picks a target where the terrain is clicked, ignores drags, and removes a pick', async () => {
+    const { page } = session;
+    await page.getByTestId('view-oblique').click();
+    const canvas = page.getByTestId('scene-canvas');
+    const box = (await canvas.boundingBox())!;
+    const target = await page.evaluate(() => {
+      const c = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { projectGroundPoint(e: number, n: number): { x: number; y: number } | null } };
+      const p = c.landreachScene.projectGroundPoint(1000, 500)!;
+      // Drawing-buffer pixels → CSS pixels.
+      return { x: (p.x * c.clientWidth) / c.width, y: (p.y * c.clientHeight) / c.height };
+    });
+    await page.mouse.click(box.x + target.x, box.y + target.y);
+    const pick = page.getByTestId('pick');
+    await pick.first().waitFor();
+    const text = (await pick.first().textContent())!;
+    const parse = (axis: string) => {
+      const m = new RegExp(`${axis} (−?)([\\d.]+) (k?m)`).exec(text)!;
+      return (m[1] ? -1 : 1) * Number(m[2]) * (m[3] === 'km' ? 1000 : 1);
+    };
+    // One screen pixel is roughly 15 m of ground here; allow a few.
+    expect(Math.abs(parse('E') - 1000)).toBeLessThan(60);
+    expect(Math.abs(parse('N') - 500)).toBeLessThan(60);
+
+    // An orbit drag is not a pick.
+    await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width / 2 + 60, box.y + box.height / 2 + 10, { steps: 5 });
+    await page.mouse.up();
+    expect(await pick.count()).toBe(1);
+    await screenshot(page, 'scene-picked-target');
+    await page.getByRole('button', { name: 'Remove target 1' }).click();
+    expect(await pick.count()).toBe(0);
+    await page.getByTestId('view-oblique').click();
+  });
+
   it('saves through the browser fallback as a download holding a valid study', async () => {
     const { page } = session;
     await page.getByTestId('study-name').fill('Rim trade (invented)');
