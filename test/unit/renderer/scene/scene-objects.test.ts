@@ -44,6 +44,22 @@ describe('marker objects', () => {
     expect(objects.filter((o) => o.name.startsWith('thrust-vectors-'))).toHaveLength(2);
   });
 
+  it('draws each picked target as two rings in its trajectory colour, centred on the pick', () => {
+    const objects = buildMarkerObjects(grid, 1, { ignition: null, trajectories: [], ellipse: null, picks: [{ east_m: 100, north_m: -200 }, { east_m: 0, north_m: 0 }] });
+    const rings = objects.filter((o) => o.name.startsWith('pick-')) as Line[];
+    expect(rings.map((r) => r.name)).toEqual(['pick-0-outer', 'pick-0-inner', 'pick-1-outer', 'pick-1-inner']);
+    expect(((rings[2].material as LineBasicMaterial).color as Color).getHexString()).toBe(new Color(TRAJECTORY_COLOURS[1]).getHexString());
+    const p = rings[0].geometry.getAttribute('position');
+    let e = 0;
+    let n = 0;
+    for (let i = 0; i < p.count - 1; i++) {
+      e += p.getX(i);
+      n += p.getY(i);
+    }
+    expect(e / (p.count - 1)).toBeCloseTo(100, 6);
+    expect(n / (p.count - 1)).toBeCloseTo(-200, 6);
+  });
+
   it('adds the landing ellipse only when given', () => {
     const names = (e: boolean) => buildMarkerObjects(grid, 1, { ignition: null, trajectories: [], ellipse: e ? { semiMajor_m: 200, semiMinor_m: 80, azimuth_deg: 30 } : null }).map((o) => o.name);
     expect(names(true)).toContain('landing-ellipse');
