@@ -61,4 +61,21 @@ describe('files in the browser fallback', () => {
     expect(await page.getByTestId('file-state').textContent()).toMatch(/edited/);
     expect(session.problems).toEqual([]);
   });
+
+  it('asks before discarding unsaved changes, and keeps them unless discard is chosen', async () => {
+    const { page } = session;
+    expect(await input('vehicle.isp_s').inputValue()).toBe('not a number yet');
+    const dialog = page.getByTestId('confirm-dialog');
+    await page.getByRole('button', { name: 'New', exact: true }).click();
+    await dialog.waitFor({ state: 'visible' });
+    expect(await dialog.textContent()).toMatch(/unsaved changes\. Discard them to start a new study\?/);
+    await screenshot(page, 'confirm-discard');
+    await dialog.getByRole('button', { name: 'Keep working' }).click();
+    await dialog.waitFor({ state: 'hidden' });
+    expect(await input('vehicle.isp_s').inputValue()).toBe('not a number yet');
+    await page.getByRole('button', { name: 'New', exact: true }).click();
+    await dialog.getByRole('button', { name: 'Discard changes' }).click();
+    await page.waitForFunction(() => (document.querySelector('[data-field="vehicle.isp_s"] input') as HTMLInputElement).value === '228');
+    expect(await page.evaluate(() => localStorage.getItem('landreach.recovery'))).toBeNull();
+  });
 });
