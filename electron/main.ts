@@ -66,11 +66,13 @@ function rebuildMenu(recent: RecentFiles): void {
 function createDialogs(): Dialogs {
   return {
     async chooseOpenPath(filters) {
-      const result = await dialog.showOpenDialog(mainWindow!, { properties: ['openFile'], filters });
+      const options = { properties: ['openFile' as const], filters };
+      const result = mainWindow ? await dialog.showOpenDialog(mainWindow, options) : await dialog.showOpenDialog(options);
       return result.canceled || result.filePaths.length === 0 ? null : result.filePaths[0];
     },
     async chooseSavePath(defaultName, filters) {
-      const result = await dialog.showSaveDialog(mainWindow!, { defaultPath: defaultName, filters });
+      const options = { defaultPath: defaultName, filters };
+      const result = mainWindow ? await dialog.showSaveDialog(mainWindow, options) : await dialog.showSaveDialog(options);
       return result.canceled || !result.filePath ? null : result.filePath;
     },
   };
@@ -132,8 +134,11 @@ if (!app.requestSingleInstanceLock()) {
     mainWindow?.focus();
   });
   app.on('window-all-closed', () => app.quit());
-  app.whenReady().then(start, (error: unknown) => {
-    dialog.showErrorBox('Landreach could not start', String(error));
-    app.quit();
-  });
+  app
+    .whenReady()
+    .then(start)
+    .catch((error: unknown) => {
+      dialog.showErrorBox('Landreach could not start', String(error));
+      app.quit();
+    });
 }
