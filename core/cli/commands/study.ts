@@ -1,0 +1,219 @@
+/**
+ * `landreach study reserve|ignition-altitude STUDY.json --out DIR [options]`: trade studies built on
+ * footprints (core/footprint/studies.ts). Each writes a CSV and a versioned JSON report.
+ */
+import { mkdirSync } from 'node:fs';
+import os from 'node:os';
+import { join } from 'node:path';
+import type { CliCommand, CliIo } from '../command.ts';
+import { UsageError } from '../command.ts';
+import { readStudy, writeFilesAtomically } from '../files.ts';
+import { FOOTPRINT_NODES, runStudyFootprint } from '../footprintRun.ts';
+import { makeTargetGrid, parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
+import { ignitionAtAltitude, minimumAltitude, reserveStudy, type AltitudeStudyRow, type IgnitionRule } from '../../footprint/studies.ts';
+import { guaranteedDivertRadius, propellantRegions, regionBounds } from '../../footprint/contours.ts';
+import { TARGET } from '../../footprint/field.ts';
+import type { Study } from '../../study/index.ts';
+import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
+
+const USAGE = `Usage: landreach study reserve|ignition-altitude STUDY.json --out DIR [options]
+
+  reserve             one footprint; reachable area and guaranteed divert radius for each reserve
+  ignition-altitude   a footprint per ignition altitude; guaranteed divert radius at the reserve, and the
+                      lowest altitude meeting --required-radius-m
+
+Common options:
+  --out DIR             folder for study-<name>.csv and study-<name>.json
+  --grid NXxNY          targets per footprint (default 21x21)
+  --extent-m M          half-width of each footprint grid, m (default 2500)
+  --workers N           worker threads (default: the number of cores, at most 8)
+  --nodes N             time nodes per trajectory (default ${FOOTPRINT_NODES})
+reserve:
+  --reserves A,B,...    reserves to evaluate, kg (default 0 and eight steps up to half the usable propellant)
+ignition-altitude:
+  --altitudes A,B,...   ignition altitudes above the target, m (default 0.6, 0.8, 1, 1.2, 1.4 × the study's)
+  --rule R              how the ignition state follows the altitude: fixed-velocity (default) or
+                        fixed-flight-path-angle (slide along the ignition velocity's direction)
+  --reserve-kg R        reserve to keep (default: the study's vehicle.propellantReserve_kg)
+  --required-radius-m D divert radius the mission requires, m (reports the lowest altitude meeting it)
+
+${CAUTION}`;
+
+interface Common {
+  kind: 'reserve' | 'ignition-altitude';
+  study: string;
+  out: string;
+  grid: [number, number];
+  extent: number;
+  workers: number;
+  nodes: number;
+  values: Record<string, string>;
+}
+
+const LIST = (flag: string, text: string) => {
+  const v = text.split(',').map((x) => Number(x.trim()));
+  if (!v.length || !v.every((x) => Number.isFinite(x) && x >= 0)) throw new UsageError(`${flag} ${text}: must be numbers ≥ 0 separated by commas`);
+  return v;
+};
+
+function parse(args: string[]): Common {
+  const [kind, ...rest] = args;
+  if (kind !== 'reserve' && kind !== 'ignition-altitude') {
+    throw new UsageError(`unknown study '${kind ?? ''}': choose reserve or ignition-altitude (see landreach study --help)`);
+  }
+  const o: Common = {
+    kind,
+    study: '',
+    out: '',
+    grid: [21, 21],
+    extent: 2500,
+    workers: Math.min(8, Math.max(1, os.availableParallelism?.() ?? os.cpus().length)),
+    nodes: FOOTPRINT_NODES,
+    values: {},
+  };
+  const known = new Set(kind === 'reserve' ? ['reserves'] : ['altitudes', 'rule', 'reserve-kg', 'required-radius-m']);
+  for (let i = 0; i < rest.length; i++) {
+    const a = rest[i];
+    const value = () => {
+      const v = rest[++i];
+      if (v === undefined || v.startsWith('--')) throw new UsageError(`${a} needs a value (see landreach study --help)`);
+      return v;
+    };
+    if (a === '--out') o.out = value();
+    else if (a === '--grid') {
+      try {
+        o.grid = parseGridSize(value());
+      } catch (err) {
+        throw new UsageError((err as Error).message);
+      }
+    } else if (a === '--extent-m') {
+      const t = value();
+      o.extent = Number(t);
+      if (!(o.extent > 0)) throw new UsageError(`--extent-m ${t}: must be a positive distance in metres`);
+    } else if (a === '--workers' || a === '--nodes') {
+      const t = value();
+      const v = Number(t);
+      if (!Number.isInteger(v) || v < (a === '--nodes' ? 5 : 1) || v > (a === '--nodes' ? 2000 : 64)) {
+        throw new UsageError(`${a} ${t}: must be a whole number from ${a === '--nodes' ? '5 to 2000' : '1 to 64'}`);
+      }
+      if (a === '--workers') o.workers = v;
+      else o.nodes = v;
+    } else if (a.startsWith('--') && known.has(a.slice(2))) o.values[a.slice(2)] = value();
+    else if (a.startsWith('--')) throw new UsageError(`unknown option '${a}' for the ${kind} study (see landreach study --help)`);
+    else if (!o.study) o.study = a;
+    else throw new UsageError(`unexpected argument '${a}': give one study file`);
+  }
+  if (!o.study) throw new UsageError(`missing STUDY.json (usage: landreach study ${kind} STUDY.json --out DIR)`);
+  if (!o.out) throw new UsageError('missing --out DIR');
+  return o;
+}
+
+const csvNum = (v: number, d: number) => (Number.isFinite(v) ? Number(v.toFixed(d)).toString() : '');
+
+function grid(o: Common): TargetGrid {
+  return makeTargetGrid({ halfWidthEast_m: o.extent, halfWidthNorth_m: o.extent, nx: o.grid[0], ny: o.grid[1] });
+}
+
+async function runReserve(o: Common, study: Study, io: CliIo) {
+  const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
+  const reserves = o.values.reserves
+    ? LIST('--reserves', o.values.reserves)
+    : Array.from({ length: 9 }, (_, k) => Number(((k * usable) / 16).toFixed(1)));
+  for (const r of reserves) if (r >= usable) throw new UsageError(`--reserves: ${r} kg is not below the usable propellant, ${usable} kg`);
+  const run = await runStudyFootprint(study, grid(o), { nodes: o.nodes, workers: o.workers }, io);
+  const rows = reserveStudy(run.field, usable, reserves);
+  const csv = [`# ${CAUTION}`, 'reserve_kg,budget_kg,reachable_area_m2,guaranteed_divert_radius_m,limited_by_grid'];
+  for (const r of rows) csv.push([r.reserve_kg, csvNum(r.budget_kg, 3), Math.round(r.area_m2), csvNum(r.divertRadius_m, 1), r.limitedByGrid ? 1 : 0].join(','));
+  return { rows, csv, cancelled: run.cancelled, extra: { usablePropellant_kg: usable } };
+}
+
+async function runAltitude(o: Common, study: Study, io: CliIo) {
+  const h0 = study.ignition.position_m[2];
+  const altitudes = o.values.altitudes ? LIST('--altitudes', o.values.altitudes) : [0.6, 0.8, 1, 1.2, 1.4].map((f) => Math.round(f * h0));
+  const ruleName = o.values.rule ?? 'fixed-velocity';
+  if (ruleName !== 'fixed-velocity' && ruleName !== 'fixed-flight-path-angle') {
+    throw new UsageError(`--rule ${ruleName}: choose fixed-velocity or fixed-flight-path-angle`);
+  }
+  const rule: IgnitionRule = { kind: ruleName };
+  const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
+  const reserve = o.values['reserve-kg'] !== undefined ? Number(o.values['reserve-kg']) : study.vehicle.propellantReserve_kg;
+  if (!(reserve >= 0 && reserve < usable)) throw new UsageError(`--reserve-kg ${o.values['reserve-kg']}: must be from 0 up to below ${usable} kg`);
+  const required = o.values['required-radius-m'] !== undefined ? Number(o.values['required-radius-m']) : null;
+  if (required !== null && !(required > 0)) throw new UsageError(`--required-radius-m ${o.values['required-radius-m']}: must be a positive distance in metres`);
+  const rows: AltitudeStudyRow[] = [];
+  let cancelled = false;
+  for (const h of altitudes) {
+    let state;
+    try {
+      state = ignitionAtAltitude(study.ignition.position_m, study.ignition.velocity_mps, h, rule);
+    } catch (err) {
+      throw new UsageError(`--altitudes ${h}: ${(err as Error).message}`);
+    }
+    const at: Study = { ...study, ignition: { ...study.ignition, position_m: [...state.position], velocity_mps: [...state.velocity] } };
+    io.stderr(`ignition altitude ${h} m (${ruleName}): position [${state.position.map((v) => v.toFixed(0)).join(', ')}] m\n`);
+    const run = await runStudyFootprint(at, grid(o), { nodes: o.nodes, workers: o.workers }, io);
+    cancelled ||= run.cancelled;
+    const [region] = propellantRegions(run.field, [usable - reserve]);
+    const radius = guaranteedDivertRadius(region.geometry, 0, 0, regionBounds(run.field));
+    const f = run.field;
+    let nearest = 0;
+    for (let k = 1; k < f.nx * f.ny; k++) {
+      const d = (e: number) => Math.hypot(f.east[e % f.nx], f.north[Math.floor(e / f.nx)]);
+      if (d(k) < d(nearest)) nearest = k;
+    }
+    rows.push({
+      altitude_m: h,
+      divertRadius_m: radius.radius_m,
+      limitedByGrid: radius.limitedByGrid,
+      nominalPropellant_kg: f.status[nearest] === TARGET.reachable ? f.propellant_kg[nearest] : NaN,
+      area_m2: region.area_m2,
+    });
+    if (run.cancelled) break;
+  }
+  const minimum = required === null ? null : minimumAltitude(rows, required);
+  const csv = [`# ${CAUTION}`, 'ignition_altitude_m,guaranteed_divert_radius_m,limited_by_grid,nominal_propellant_kg,reachable_area_m2'];
+  for (const r of rows) csv.push([r.altitude_m, csvNum(r.divertRadius_m, 1), r.limitedByGrid ? 1 : 0, csvNum(r.nominalPropellant_kg, 3), Math.round(r.area_m2)].join(','));
+  return { rows, csv, cancelled, extra: { rule: ruleName, reserve_kg: reserve, requiredRadius_m: required, minimumAltitude: minimum } };
+}
+
+export const studyCommand: CliCommand = {
+  name: 'study',
+  summary: 'trade studies: reserve (area and divert radius vs reserve), ignition-altitude (divert radius vs altitude)',
+  usage: USAGE,
+  async run(args: string[], io: CliIo): Promise<number> {
+    const o = parse(args);
+    const study = readStudy(o.study);
+    const result = o.kind === 'reserve' ? await runReserve(o, study, io) : await runAltitude(o, study, io);
+    mkdirSync(o.out, { recursive: true });
+    const inputs = { study, kind: o.kind, grid: o.grid, extent_m: o.extent, nodes: o.nodes, options: o.values };
+    const report = {
+      format: 'landreach-study-result',
+      version: 1,
+      study: o.kind,
+      caution: CAUTION,
+      appVersion: APP_VERSION,
+      createdAt: new Date().toISOString(),
+      inputsHash: await inputsHash(inputs),
+      inputs,
+      cancelled: result.cancelled,
+      ...result.extra,
+      rows: result.rows,
+    };
+    const base = join(o.out, `study-${o.kind}`);
+    writeFilesAtomically([
+      { path: `${base}.csv`, text: result.csv.join('\n') + '\n' },
+      { path: `${base}.json`, text: JSON.stringify(report, null, 1) },
+    ]);
+    io.stdout(result.csv.slice(1).join('\n') + '\n');
+    if ('minimumAltitude' in result.extra && result.extra.requiredRadius_m !== null) {
+      const m = result.extra.minimumAltitude;
+      io.stdout(
+        m === null
+          ? `no sampled altitude meets a ${result.extra.requiredRadius_m} m divert radius with ${result.extra.reserve_kg} kg in reserve\n`
+          : `lowest ignition altitude for a ${result.extra.requiredRadius_m} m divert radius: ${m.bracketed ? '' : 'at most '}${m.altitude_m.toFixed(0)} m\n`,
+      );
+    }
+    io.stdout(`${result.cancelled ? 'stopped early; ' : ''}wrote ${base}.csv and ${base}.json\n\n${CAUTION}\n`);
+    return 0;
+  },
+};

@@ -1,0 +1,57 @@
+/** `landreach study reserve|ignition-altitude` on the invented demo study (small grids). */
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, describe, expect, it } from 'vitest';
+import { main } from '../../../core/cli/main.ts';
+
+const DEMO = fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json', import.meta.url));
+const dir = mkdtempSync(join(tmpdir(), 'landreach-st-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+const io = () => {
+  const out: string[] = [];
+  const err: string[] = [];
+  return { out, err, io: { stdout: (t: string) => out.push(t), stderr: (t: string) => err.push(t), interactive: false } };
+};
+
+describe('landreach study', () => {
+  it('reserve: area and divert radius shrink as the reserve grows', async () => {
+    const h = io();
+    const code = await main(['study', 'reserve', DEMO, '--out', dir, '--grid', '7x7', '--extent-m', '3000', '--reserves', '0,200,300', '--workers', '2'], h.io);
+    expect(code, h.err.join('')).toBe(0);
+    const report = JSON.parse(readFileSync(join(dir, 'study-reserve.json'), 'utf8'));
+    expect(report).toMatchObject({ format: 'landreach-study-result', version: 1, study: 'reserve' });
+    expect(report.caution).toMatch(/not flight software/);
+    const areas = report.rows.map((r: { area_m2: number }) => r.area_m2);
+    expect(areas[0]).toBeGreaterThanOrEqual(areas[1]);
+    expect(areas[1]).toBeGreaterThanOrEqual(areas[2]);
+    expect(readFileSync(join(dir, 'study-reserve.csv'), 'utf8')).toMatch(/^# Preliminary design/);
+  }, 120_000);
+
+  it('ignition-altitude: reports the radius per altitude and the lowest altitude meeting a requirement', async () => {
+    const h = io();
+    const code = await main(
+      ['study', 'ignition-altitude', DEMO, '--out', dir, '--grid', '5x5', '--extent-m', '1500', '--altitudes', '1200,1800', '--required-radius-m', '100', '--workers', '2'],
+      h.io,
+    );
+    expect(code, h.err.join('')).toBe(0);
+    const report = JSON.parse(readFileSync(join(dir, 'study-ignition-altitude.json'), 'utf8'));
+    expect(report.rows).toHaveLength(2);
+    // From ignition 1800 m up the demo lander reaches the whole ±1500 m grid (see the footprint test).
+    expect(report.rows[1].divertRadius_m).toBeGreaterThan(100);
+    const meets = report.rows.map((r: { divertRadius_m: number }) => r.divertRadius_m >= 100);
+    expect(report.minimumAltitude.altitude_m).toBeLessThanOrEqual(meets[0] ? 1200 : 1800);
+    expect(report.minimumAltitude.bracketed).toBe(!meets[0]);
+    expect(h.out.join('')).toMatch(/lowest ignition altitude|no sampled altitude/);
+  }, 120_000);
+
+  it('rejects an unknown study and options of the other study', async () => {
+    const h = io();
+    expect(await main(['study', 'dispersal', DEMO, '--out', dir], h.io)).toBe(2);
+    expect(h.err.join('')).toMatch(/unknown study 'dispersal': choose reserve or ignition-altitude/);
+    const g = io();
+    expect(await main(['study', 'reserve', DEMO, '--out', dir, '--altitudes', '100'], g.io)).toBe(2);
+    expect(g.err.join('')).toMatch(/unknown option '--altitudes' for the reserve study/);
+  });
+});
