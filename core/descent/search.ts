@@ -4,8 +4,9 @@
  * 1. Bracket t_f from physics (bracket.ts).
  * 2. Find a feasible t_f: the warm-start guess (a neighbour's t_f) first, then a few probe points.
  *    Each infeasible probe carries the solver's infeasibility certificate.
- * 3. Bracket the minimum by steps downhill from that point, then Brent's method inside the bracket
- *    (infeasible = +∞, see brent.ts).
+ * 3. Minimise from that point: by default a safeguarded secant search on the slope dP/dt_f, which the
+ *    dual solution gives by the envelope theorem (secant.ts); otherwise steps downhill to a bracket and
+ *    Brent's method inside it (brent.ts). Infeasible times count as +∞ in both.
  * If no probe is feasible, the minimum-landing-error problem (Blackmore et al. 2010), feasible over a much
  * wider range of t_f, is searched the same way; a zero miss means the probes stepped over a narrow
  * feasible window, and the
@@ -18,6 +19,8 @@ import type { Vec3 } from './constants.ts';
 import { timeOfFlightBracket } from './bracket.ts';
 import type { TimeBracket } from './bracket.ts';
 import { bracketFrom, brentMinimise } from './brent.ts';
+import { secantMinimise } from './secant.ts';
+import type { Probe } from './secant.ts';
 import type { ProgramKind } from './program.ts';
 import type { IgnitionState } from './setup.ts';
 import type { DescentSolver, FixedTimeSolve } from './solver.ts';
@@ -38,6 +41,10 @@ export interface SearchOptions {
   maxSolves?: number;
   /** Override the physical bracket. */
   bracket?: TimeBracket;
+  /** Use the envelope-theorem slope dP/dt_f in the minimum-propellant search (default true); false: Brent. */
+  useDerivative?: boolean;
+  /** Stop the slope search once the remaining propellant gain is bounded below this, kg. Default 0.01. */
+  propellantTolerance?: number;
   /** Decode the trajectory of the result (default true). */
   decode?: boolean;
 }
@@ -90,6 +97,7 @@ interface Phase {
 function runPhase(
   solver: DescentSolver, kind: ProgramKind, target: Vec3, ignition: IgnitionState, br: TimeBracket,
   starts: number[], tol: number, budget: () => number, knownInfeasible: readonly number[] = [], stopBelow = -Infinity,
+  useDerivative = true, propellantTolerance = 0,
 ): Phase {
   const cache = new Map<number, FixedTimeSolve>();
   const statuses: SolveStatus[] = [];
@@ -133,6 +141,16 @@ function runPhase(
   let res: { x: number };
   if (cost(start) <= stopBelow) {
     res = { x: x0 };
+  } else if (kind === 'min-propellant' && useDerivative) {
+    // Envelope-theorem slope at every solved point: a safeguarded secant search on dP/dt_f.
+    const probe = (tf: number): Probe => {
+      const r = evalAt(tf);
+      if (!isSolved(r.status)) return { feasible: false, f: Infinity, g: NaN };
+      return { feasible: true, f: r.propellant, g: solver.timeDerivative(r, target, ignition) };
+    };
+    const step = Math.max(4 * tol, LOCAL_STEP_FRACTION * x0);
+    const p0: Probe = { feasible: true, f: start.propellant, g: solver.timeDerivative(start, target, ignition) };
+    res = secantMinimise(probe, x0, p0, lo, hi, tol, step, Math.max(0, budget()), propellantTolerance);
   } else {
     // Local bracket around the (often warm-started) feasible point, then Brent inside it.
     const step = Math.max(4 * tol, LOCAL_STEP_FRACTION * x0);
@@ -170,7 +188,9 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
     });
   };
 
-  const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts.slice(0, options.propellantProbes ?? 3), tol, budget);
+  const useDerivative = options.useDerivative ?? true;
+  const propTol = options.propellantTolerance ?? 0.01;
+  const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts.slice(0, options.propellantProbes ?? 3), tol, budget, [], -Infinity, useDerivative, propTol);
   if (fuel.best) return finish(fuel.best, fuel, { status: 'solved' });
 
   const missTolerance = 1e-6 * solver.scales.length + 1e-3;
@@ -187,7 +207,7 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
     // Minimum-landing-error infeasible ⇒ minimum-propellant infeasible (the latter is a restriction).
     // So is it wherever the smallest landing error is positive.
     const known = [...fuel.infeasibleTimes, ...err.infeasibleTimes, ...err.solvedTimes.filter((t) => t.miss > missTolerance).map((t) => t.timeOfFlight)];
-    const again = runPhase(solver, 'min-propellant', target, ignition, br, [err.best.timeOfFlight], tol, budget, known);
+    const again = runPhase(solver, 'min-propellant', target, ignition, br, [err.best.timeOfFlight], tol, budget, known, -Infinity, useDerivative, propTol);
     if (again.best) return finish(again.best, again, { status: 'solved' });
   }
   const traj = decodeTrajectory(solver.program('min-landing-error'), err.best.solution.x, err.best.timeOfFlight, target);

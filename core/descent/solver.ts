@@ -3,6 +3,7 @@
  * re-solves it with new values for each time of flight, target and ignition state.
  */
 import type { ConicSolution, SolveStatus } from '../conic/types.ts';
+import { cscMulAdd } from '../linalg/csc.ts';
 import type { ConicBackend, ConicSession } from './backend.ts';
 import type { Vec3 } from './constants.ts';
 import type { ProgramData, ProgramKind, ProgramScales } from './program.ts';
@@ -73,5 +74,36 @@ export class DescentSolver {
       }
     }
     return { kind, timeOfFlight, status: solution.status, propellant, miss, solution };
+  }
+
+  /**
+   * dPropellant/dt_f at a solved minimum-propellant point, kg/s, by the envelope theorem: with
+   * Aᵀy + Gᵀz + c = 0 at the optimum, dJ/dt_f = yᵀ(A′x − b′) + zᵀ(G′x − h′) (J = −z_N), where the data
+   * derivatives A′, b′, G′, h′ come from central differences of the problem refresh (no extra solve).
+   * dP/dt_f = e^{z_N} dJ/dt_f. NaN unless `r` is a solved minimum-propellant result.
+   */
+  timeDerivative(r: FixedTimeSolve, target: Vec3, ignition: IgnitionState): number {
+    if (r.kind !== 'min-propellant' || !(r.status === 'solved' || r.status === 'almost-solved')) return NaN;
+    const e = this.programs.get('min-propellant')!;
+    const P = e.program.problem;
+    const eps = 1e-5 * r.timeOfFlight;
+    const snap = (tf: number) => {
+      const v = e.program.update({ timeOfFlight: tf, target, ignition });
+      return { A: v.AValues.slice(), G: v.GValues.slice(), b: v.b.slice(), h: v.h.slice() };
+    };
+    const plus = snap(r.timeOfFlight + eps);
+    const minus = snap(r.timeOfFlight - eps);
+    const inv = 1 / (2 * eps);
+    const { x, y, z } = r.solution;
+    const dA = { ...P.A, values: plus.A.map((v, i) => (v - minus.A[i]) * inv) };
+    const dG = { ...P.G, values: plus.G.map((v, i) => (v - minus.G[i]) * inv) };
+    const ax = new Float64Array(P.A.m);
+    cscMulAdd(dA, x, ax);
+    const gx = new Float64Array(P.G.m);
+    cscMulAdd(dG, x, gx);
+    let dJ = 0;
+    for (let i = 0; i < ax.length; i++) dJ += y[i] * (ax[i] - (plus.b[i] - minus.b[i]) * inv);
+    for (let i = 0; i < gx.length; i++) dJ += z[i] * (gx[i] - (plus.h[i] - minus.h[i]) * inv);
+    return (ignition.mass - r.propellant) * dJ;
   }
 }

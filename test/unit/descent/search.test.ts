@@ -5,6 +5,7 @@ import { DescentSolver } from '../../../core/descent/solver.ts';
 import { searchFreeFinalTime } from '../../../core/descent/search.ts';
 import { timeOfFlightBracket } from '../../../core/descent/bracket.ts';
 import { brentMinimise } from '../../../core/descent/brent.ts';
+import { secantMinimise } from '../../../core/descent/secant.ts';
 import { landreachConicBackend } from '../../../core/descent/conicBackend.ts';
 import { parseStudyText, studyToDescent } from '../../../core/study/index.ts';
 
@@ -48,5 +49,37 @@ describe('free-final-time search', () => {
     expect(r.miss).toBeGreaterThan(100);
     expect(r.closestPoint![0]).toBeGreaterThan(0);
     expect(Math.hypot(r.closestPoint![0] - target[0], r.closestPoint![1] - target[1])).toBeCloseTo(r.miss, 3);
+  });
+});
+
+describe('envelope-theorem slope of the propellant in t_f', () => {
+  it('matches a central finite difference of two full solves', () => {
+    const s = new DescentSolver(d.setup, landreachConicBackend(), d.ignition);
+    for (const tf of [36, 40]) {
+      const r = s.solveFixed('min-propellant', tf, [0, 0, 0], d.ignition);
+      const g = s.timeDerivative(r, [0, 0, 0], d.ignition);
+      const h = 1e-3;
+      const fd = (s.solveFixed('min-propellant', tf + h, [0, 0, 0], d.ignition).propellant - s.solveFixed('min-propellant', tf - h, [0, 0, 0], d.ignition).propellant) / (2 * h);
+      expect(Math.abs(g - fd)).toBeLessThan(1e-3 * Math.abs(fd) + 1e-4);
+    }
+  });
+});
+
+describe('secantMinimise', () => {
+  it('minimises a smooth cost next to an infeasible region using slopes', () => {
+    // f(x) = e^{3/(x−1)} + x on x > 1.2 (infeasible below): f′ = 1 − 3 e^{3/(x−1)}/(x−1)²; root by bisection here.
+    const f = (x: number) => Math.exp(3 / (x - 1)) + x;
+    const g = (x: number) => 1 - (3 * Math.exp(3 / (x - 1))) / (x - 1) ** 2;
+    let lo = 1.5;
+    let hi = 50;
+    for (let i = 0; i < 200; i++) {
+      const mid = 0.5 * (lo + hi);
+      if (g(mid) < 0) lo = mid;
+      else hi = mid;
+    }
+    const probe = (x: number) => (x < 1.2 ? { feasible: false, f: Infinity, g: NaN } : { feasible: true, f: f(x), g: g(x) });
+    const r = secantMinimise(probe, 2, probe(2), 0, 100, 1e-6, 0.5, 60);
+    expect(r.x).toBeCloseTo(lo, 4);
+    expect(r.evaluations).toBeLessThan(30);
   });
 });
