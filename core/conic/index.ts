@@ -1,5 +1,5 @@
 /** The second-order cone program solver: public entry points. */
-export { ConicWorkspace, solveConic, type ProblemUpdate } from './workspace.ts';
+export { ConicWorkspace, solveConic, type ProblemUpdate, type WarmStart } from './workspace.ts';
 export { DEFAULT_SETTINGS, resolveSettings, type SolverSettings } from './settings.ts';
 export {
   isDualInfeasible,

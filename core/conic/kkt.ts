@@ -12,7 +12,7 @@
  * scheme of ECOS (Domahidi, Chu & Boyd 2013).
  */
 import type { CscMatrix } from '../linalg/csc.ts';
-import { LdlFactor, ldlSymbolic, symmetricUpperMul } from '../linalg/ldl.ts';
+import { LdlFactor, ldlSymbolic } from '../linalg/ldl.ts';
 import { invertPermutation, minimumDegreeOrdering } from '../linalg/ordering.ts';
 import type { Cone } from './cones/cone.ts';
 
@@ -208,8 +208,8 @@ export class KktSystem {
    * Solves K [x; y; z] = rhs (both in original order, length n + p + m), refining against K without the
    * static regularisation. Returns false if the result is not finite.
    */
-  solve(rhs: Float64Array, out: Float64Array): boolean {
-    const { dim, perm, work, residual, correction, product, sign, delta, lastStep } = this;
+  solve(rhs: Float64Array, out: Float64Array, maxRefinement = this.options.refinementMaxIterations): boolean {
+    const { dim, perm, work, residual, correction, product, lastStep } = this;
     let rhsNorm = 0;
     for (let k = 0; k < dim; k++) {
       const v = rhs[perm[k]];
@@ -223,13 +223,13 @@ export class KktSystem {
     const tol = this.options.refinementTolerance * (1 + rhsNorm);
     let steps = 0;
     let prevNorm = Infinity;
-    let finalNorm = Infinity;
+    let finalNorm: number;
     for (;;) {
       // residual = b − K₀ x, K₀ = the stored matrix without the static δ on its diagonal.
-      symmetricUpperMul(this.matrix, work, product);
+      this.multiplyUnregularised(work, product);
       let norm = 0;
       for (let k = 0; k < dim; k++) {
-        const r = bk[k] - (product[k] - sign[k] * delta * work[k]);
+        const r = bk[k] - product[k];
         correction[k] = r;
         const a = Math.abs(r);
         if (a > norm) norm = a;
@@ -237,12 +237,11 @@ export class KktSystem {
       if (norm > prevNorm) {
         // The last correction made things worse: take it back and stop.
         for (let k = 0; k < dim; k++) work[k] -= lastStep[k];
-        norm = prevNorm;
-        finalNorm = norm;
+        finalNorm = prevNorm;
         break;
       }
       finalNorm = norm;
-      if (!(norm > tol) || steps >= this.options.refinementMaxIterations || norm > 0.5 * prevNorm) break;
+      if (!(norm > tol) || steps >= maxRefinement || norm > 0.2 * prevNorm) break;
       prevNorm = norm;
       this.factor.solveInPlace(correction);
       for (let k = 0; k < dim; k++) work[k] += correction[k];
@@ -258,6 +257,39 @@ export class KktSystem {
       out[perm[k]] = v;
     }
     return finite;
+  }
+
+  /**
+   * y = K₀ x for the stored (permuted, upper) matrix without the static δ. Every column's diagonal is its
+   * last stored entry (rows sorted, upper triangle, diagonal always present), which spares a branch per entry.
+   */
+  private multiplyUnregularised(x: Float64Array, y: Float64Array): void {
+    const { colPtr, rowIdx, values } = this.matrix;
+    const { dim, sign, delta } = this;
+    y.fill(0);
+    for (let j = 0; j < dim; j++) {
+      const xj = x[j];
+      const last = colPtr[j + 1] - 1;
+      let s0 = (values[last] - sign[j] * delta) * xj;
+      let s1 = 0;
+      let q = colPtr[j];
+      for (; q + 1 < last; q += 2) {
+        const i0 = rowIdx[q];
+        const i1 = rowIdx[q + 1];
+        const v0 = values[q];
+        const v1 = values[q + 1];
+        y[i0] += v0 * xj;
+        y[i1] += v1 * xj;
+        s0 += v0 * x[i0];
+        s1 += v1 * x[i1];
+      }
+      if (q < last) {
+        const i0 = rowIdx[q];
+        y[i0] += values[q] * xj;
+        s0 += values[q] * x[i0];
+      }
+      y[j] += s0 + s1;
+    }
   }
 
   /** Number of stored entries of the factor L (fill-in diagnostic). */

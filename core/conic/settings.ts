@@ -27,7 +27,7 @@ export interface SolverSettings {
   dynamicRegularisationDelta: number;
   /** Iterative-refinement steps per KKT solve (at most). Default 10. */
   refinementMaxIterations: number;
-  /** Refinement stops once the residual is below this, relative to 1 + ‖rhs‖∞. Default 1e-12. */
+  /** Refinement stops once the residual is below this, relative to 1 + ‖rhs‖∞. Default 1e-14 (the value ECOS uses; looser values were measured to cost more iterations than they save). */
   refinementTolerance: number;
   /** Ruiz equilibration passes (0 disables). Default 15. */
   equilibrationIterations: number;
@@ -54,7 +54,7 @@ export const DEFAULT_SETTINGS: Readonly<SolverSettings> = Object.freeze({
   dynamicRegularisationEps: 1e-13,
   dynamicRegularisationDelta: 2e-7,
   refinementMaxIterations: 10,
-  refinementTolerance: 1e-12,
+  refinementTolerance: 1e-14,
   equilibrationIterations: 15,
   equilibrationMin: 1e-4,
   equilibrationMax: 1e4,

@@ -1,12 +1,13 @@
 /**
- * Termination tests. Optimality is judged in the problem's own (unequilibrated) units; infeasibility
- * certificates in the equilibrated data, normalised so the test is dimensionless:
+ * Termination tests, judged in the problem's own (unequilibrated) units:
  *
  * - solved:   ‖Ax − b‖∞ ≤ ε_f max(1, ‖b‖∞),  ‖Gx + s − h‖∞ ≤ ε_f max(1, ‖h‖∞),
  *             ‖Aᵀy + Gᵀz + c‖∞ ≤ ε_f max(1, ‖c‖∞),  and gap ≤ ε_abs or gap / max(1, min(|p|, |d|)) ≤ ε_rel,
  *             gap = max(|cᵀx + bᵀy + hᵀz|, sᵀz) at (x, y, z, s)/τ;
  * - primal infeasible: κ > τ, bᵀy + hᵀz < 0 and ‖Aᵀy + Gᵀz‖∞ / |bᵀy + hᵀz| · max(1, ‖b‖∞, ‖h‖∞) ≤ ε_inf;
- * - dual infeasible:   κ > τ, cᵀx < 0 and max(‖Ax‖∞, ‖Gx + s‖∞) / |cᵀx| · max(1, ‖c‖∞) ≤ ε_inf.
+ * - dual infeasible:   κ > τ, cᵀx < 0 and max(‖Ax‖∞, ‖Gx + s‖∞) / |cᵀx| · max(1, ‖c‖∞) ≤ ε_inf;
+ * all norms in the problem's own units (the certificate scaled to bᵀy + hᵀz = −1 resp. cᵀx = −1 makes
+ * these the residuals a user checking the certificate would compute).
  */
 import type { SolverSettings } from './settings.ts';
 import type { SolveStatus } from './types.ts';
@@ -24,15 +25,10 @@ export interface Residuals {
   sz: number;
   tau: number;
   kappa: number;
-  /** ‖Aᵀy + Gᵀz‖∞, ‖Ax‖∞, ‖Gx + s‖∞ (equilibrated). */
-  dualNoC: number;
-  axNorm: number;
-  gxsNorm: number;
-  x: Float64Array;
-  y: Float64Array;
-  z: Float64Array;
-  s: Float64Array;
-  degree: number;
+  /** Equilibrated data vectors. */
+  c: Float64Array;
+  b: Float64Array;
+  h: Float64Array;
 }
 
 export interface DataNorms {
@@ -55,6 +51,20 @@ export interface Assessment {
   dualResidualRelative: number;
 }
 
+export function emptyAssessment(): Assessment {
+  return {
+    status: null,
+    primalObjective: NaN,
+    dualObjective: NaN,
+    gap: NaN,
+    primalResidual: NaN,
+    dualResidual: NaN,
+    primalResidualRelative: NaN,
+    dualResidualRelative: NaN,
+  };
+}
+
+/** Fills `out` (no allocation) with the measures of the iterate and its status, if it is final. */
 export function assessIterate(
   r: Residuals,
   norms: DataNorms,
@@ -62,6 +72,7 @@ export function assessIterate(
   E: Float64Array,
   st: SolverSettings,
   relaxed: boolean,
+  out: Assessment,
 ): Assessment {
   const { tau, kappa } = r;
   const p = r.ry.length;
@@ -79,16 +90,14 @@ export function assessIterate(
   const gap = Math.max(Math.abs(primalObjective - dualObjective), r.sz / (tau * tau));
   const primalRel = Math.max(presEq / Math.max(1, norms.b), presCone / Math.max(1, norms.h));
   const dualRel = dres / Math.max(1, norms.c);
-  const out: Assessment = {
-    status: null,
-    primalObjective,
-    dualObjective,
-    gap,
-    primalResidual: Math.max(presEq, presCone),
-    dualResidual: dres,
-    primalResidualRelative: primalRel,
-    dualResidualRelative: dualRel,
-  };
+  out.status = null;
+  out.primalObjective = primalObjective;
+  out.dualObjective = dualObjective;
+  out.gap = gap;
+  out.primalResidual = Math.max(presEq, presCone);
+  out.dualResidual = dres;
+  out.primalResidualRelative = primalRel;
+  out.dualResidualRelative = dualRel;
   const feas = relaxed ? st.feasibilityToleranceInaccurate : st.feasibilityTolerance;
   const gapAbs = relaxed ? st.gapAbsoluteToleranceInaccurate : st.gapAbsoluteTolerance;
   const gapRel = relaxed ? st.gapRelativeToleranceInaccurate : st.gapRelativeTolerance;
@@ -99,14 +108,28 @@ export function assessIterate(
     return out;
   }
   if (kappa > tau) {
+    // Certificates are judged in the problem's own units, as a user would check them.
     const byhz = r.by + r.hz;
-    if (byhz < 0 && (r.dualNoC / -byhz) * Math.max(1, norms.bs, norms.hs) <= inf) {
-      out.status = relaxed ? 'almost-primal-infeasible' : 'primal-infeasible';
-      return out;
+    if (byhz < 0) {
+      let atyGtz = 0;
+      for (let j = 0; j < r.rx.length; j++) {
+        atyGtz = Math.max(atyGtz, Math.abs((r.rx[j] - r.c[j] * tau) / D[j]));
+      }
+      if ((atyGtz / -byhz) * Math.max(1, norms.b, norms.h) <= inf) {
+        out.status = relaxed ? 'almost-primal-infeasible' : 'primal-infeasible';
+        return out;
+      }
     }
-    if (r.cx < 0 && (Math.max(r.axNorm, r.gxsNorm) / -r.cx) * Math.max(1, norms.cs) <= inf) {
-      out.status = relaxed ? 'almost-dual-infeasible' : 'dual-infeasible';
-      return out;
+    if (r.cx < 0) {
+      let axGxs = 0;
+      for (let i = 0; i < p; i++) axGxs = Math.max(axGxs, Math.abs((r.ry[i] + r.b[i] * tau) / E[i]));
+      for (let i = 0; i < r.rz.length; i++) {
+        axGxs = Math.max(axGxs, Math.abs((r.rz[i] + r.h[i] * tau) / E[p + i]));
+      }
+      if ((axGxs / -r.cx) * Math.max(1, norms.c) <= inf) {
+        out.status = relaxed ? 'almost-dual-infeasible' : 'dual-infeasible';
+        return out;
+      }
     }
   }
   return out;

@@ -16,7 +16,7 @@ import { KktSystem } from './kkt.ts';
 import { ruizEquilibrate, validateProblem } from './problem.ts';
 import { resolveSettings, type SolverSettings } from './settings.ts';
 import type { ConicProblem, ConicSolution, SolveStatus } from './types.ts';
-import { type Residuals, assessIterate, type Assessment } from './termination.ts';
+import { type Residuals, assessIterate, emptyAssessment, type Assessment } from './termination.ts';
 
 /** New values for a problem of the same shape and sparsity pattern. */
 export interface ProblemUpdate {
@@ -27,6 +27,17 @@ export interface ProblemUpdate {
   AValues?: Float64Array;
   /** New values of G, in the stored order of its CSC pattern. */
   GValues?: Float64Array;
+}
+
+/** Refinement steps for the predictor (affine) solve; the corrector and τ-direction solves use the setting. */
+const AFFINE_REFINEMENT = 1;
+
+/** A starting point for solve(), in the problem's units. */
+export interface WarmStart {
+  x?: Float64Array;
+  y?: Float64Array;
+  z?: Float64Array;
+  s?: Float64Array;
 }
 
 const now = (): number => (typeof performance !== 'undefined' ? performance.now() : 0);
@@ -77,6 +88,12 @@ export class ConicWorkspace {
   private readonly ones: Float64Array;
   private factorisations = 0;
   private bestMerit = Infinity;
+  private readonly res: Residuals;
+  private readonly assessment: Assessment = emptyAssessment();
+  private readonly relaxedAssessment: Assessment = emptyAssessment();
+  /** Δτ and Δκ of the last direction(). */
+  private dTau = 0;
+  private dKappa = 0;
   private readonly best: { x: Float64Array; y: Float64Array; z: Float64Array; s: Float64Array; tau: number; kappa: number };
 
   constructor(problem: ConicProblem, settings: Partial<SolverSettings> = {}) {
@@ -138,6 +155,10 @@ export class ConicWorkspace {
     this.tmpM = new Float64Array(m);
     this.tmpM2 = new Float64Array(m);
     this.ones = new Float64Array(m);
+    this.res = {
+      rx: this.rx, ry: this.ry, rz: this.rz, c: this.c, b: this.b, h: this.h,
+      cx: 0, by: 0, hz: 0, sz: 0, tau: 1, kappa: 1,
+    };
     this.best = { x: new Float64Array(n), y: new Float64Array(p), z: new Float64Array(m), s: new Float64Array(m), tau: 1, kappa: 1 };
     for (const k of this.cones) k.addIdentity(this.ones, 1);
 
@@ -211,16 +232,22 @@ export class ConicWorkspace {
     };
   }
 
-  /** Solves the current problem from a cold start. */
-  solve(): ConicSolution {
+  /**
+   * Solves the current problem. Without `start`, from the cold start of Vandenberghe (2010); with it, from
+   * the given point (problem units; any part may be left out and then comes from the cold start), its s and
+   * z moved into the interior of K by their violation plus 10 % of their largest entry. A warm start helps
+   * an interior-point method less than an active-set method; it pays when the point is close.
+   */
+  solve(start?: WarmStart): ConicSolution {
     const t0 = now();
     this.factorisations = 0;
     const st = this.settings;
     if (!this.initialise()) return this.finish('numerical-error', null, 0, t0);
+    if (start) this.applyWarmStart(start);
     this.bestMerit = Infinity;
     for (let iter = 0; ; iter++) {
       const res = this.residuals();
-      const assessment = assessIterate(res, this.norms, this.D, this.E, st, false);
+      const assessment = assessIterate(res, this.norms, this.D, this.E, st, false, this.assessment);
       if (st.verbose) this.log(iter, res, assessment);
       if (assessment.status) return this.finish(assessment.status, assessment, iter, t0);
       this.keepIfBest(assessment);
@@ -253,7 +280,7 @@ export class ConicWorkspace {
    */
   private finishReduced(res: Residuals, fallback: SolveStatus, iter: number, t0: number): ConicSolution {
     const st = this.settings;
-    const current = assessIterate(res, this.norms, this.D, this.E, st, true);
+    const current = assessIterate(res, this.norms, this.D, this.E, st, true, this.relaxedAssessment);
     if (current.status && current.status !== 'almost-solved') return this.finish(current.status, current, iter, t0);
     if (this.bestMerit < Infinity) {
       this.x.set(this.best.x);
@@ -263,7 +290,7 @@ export class ConicWorkspace {
       this.tau = this.best.tau;
       this.kappa = this.best.kappa;
     }
-    const best = assessIterate(this.residuals(), this.norms, this.D, this.E, st, true);
+    const best = assessIterate(this.residuals(), this.norms, this.D, this.E, st, true, this.relaxedAssessment);
     return this.finish(best.status === 'almost-solved' ? 'almost-solved' : fallback, best, iter, t0);
   }
 
@@ -293,26 +320,49 @@ export class ConicWorkspace {
     return true;
   }
 
+  /** Residuals of the embedding at the current iterate, written into the preallocated `res`. */
+  private applyWarmStart(start: WarmStart): void {
+    const { n, p, m, D, E } = this;
+    const check = (name: string, v: Float64Array | undefined, len: number) => {
+      if (v !== undefined && (!(v instanceof Float64Array) || v.length !== len || !v.every(Number.isFinite))) {
+        throw new RangeError(`invalid start.${name}: expected a finite Float64Array of length ${len}`);
+      }
+    };
+    check('x', start.x, n);
+    check('y', start.y, p);
+    check('z', start.z, m);
+    check('s', start.s, m);
+    if (start.x) for (let j = 0; j < n; j++) this.x[j] = start.x[j] / D[j];
+    if (start.y) for (let i = 0; i < p; i++) this.y[i] = start.y[i] / E[i];
+    if (start.s) {
+      for (let i = 0; i < m; i++) this.s[i] = start.s[i] * E[p + i];
+      pushInside(this.cones, this.s);
+    }
+    if (start.z) {
+      for (let i = 0; i < m; i++) this.z[i] = start.z[i] / E[p + i];
+      pushInside(this.cones, this.z);
+    }
+  }
+
   private residuals(): Residuals {
-    const { As, Gs, c, b, h, x, y, z, s, tau, kappa, rx, ry, rz } = this;
+    const { As, Gs, c, b, h, x, y, z, s, tau, rx, ry, rz, res } = this;
     rx.fill(0);
     cscMulTransAdd(As, y, rx);
     cscMulTransAdd(Gs, z, rx);
-    const dualNoC = infNorm(rx);
     for (let j = 0; j < this.n; j++) rx[j] += c[j] * tau;
     ry.fill(0);
     cscMulAdd(As, x, ry);
-    const axNorm = infNorm(ry);
     for (let i = 0; i < this.p; i++) ry[i] -= b[i] * tau;
     rz.set(s);
     cscMulAdd(Gs, x, rz);
-    const gxsNorm = infNorm(rz);
     for (let i = 0; i < this.m; i++) rz[i] -= h[i] * tau;
-    const cx = dot(c, x);
-    const by = dot(b, y);
-    const hz = dot(h, z);
-    const sz = dot(s, z);
-    return { rx, ry, rz, cx, by, hz, sz, tau, kappa, dualNoC, axNorm, gxsNorm, x, y, z, s, degree: this.degree };
+    res.cx = dot(c, x);
+    res.by = dot(b, y);
+    res.hz = dot(h, z);
+    res.sz = dot(s, z);
+    res.tau = tau;
+    res.kappa = this.kappa;
+    return res;
   }
 
   /** One predictor–corrector step; returns the step length, or null on a numerical failure. */
@@ -336,9 +386,11 @@ export class ConicWorkspace {
     // Affine (predictor) direction: d_s = −λ∘λ, d_κ = −τκ.
     for (const k of cones) k.jordanProduct(lambda, lambda, tmpM);
     for (let i = 0; i < m; i++) tmpM[i] = -tmpM[i];
-    const affine = this.direction(1, tmpM, -tau * kappa, tauPivot, rTau, res);
-    if (affine === null) return null;
-    const alphaAff = Math.min(1, this.stepToBoundary(affine.dTau, affine.dKappa));
+    // The affine direction only sizes the centring and the second-order correction: one refinement step.
+    if (!this.direction(1, tmpM, -tau * kappa, tauPivot, rTau, res, AFFINE_REFINEMENT)) return null;
+    const dTauAff = this.dTau;
+    const dKappaAff = this.dKappa;
+    const alphaAff = Math.min(1, this.stepToBoundary(dTauAff, dKappaAff));
 
     // Centring σ = (1 − α_aff)³ (Mehrotra's heuristic as in ECOS) and the second-order correction.
     const sigma = Math.min(1, Math.max(1e-4, (1 - alphaAff) ** 3));
@@ -347,10 +399,11 @@ export class ConicWorkspace {
       k.jordanProduct(dsScaled, dzScaled, tmpM2);
     }
     for (let i = 0; i < m; i++) tmpM[i] = -tmpM[i] - tmpM2[i] + sigma * mu * this.ones[i];
-    const dKappaRhs = -tau * kappa - affine.dTau * affine.dKappa + sigma * mu;
-    const combined = this.direction(1 - sigma, tmpM, dKappaRhs, tauPivot, rTau, res);
-    if (combined === null) return null;
-    const alphaMax = this.stepToBoundary(combined.dTau, combined.dKappa);
+    const dKappaRhs = -tau * kappa - dTauAff * dKappaAff + sigma * mu;
+    if (!this.direction(1 - sigma, tmpM, dKappaRhs, tauPivot, rTau, res, this.settings.refinementMaxIterations)) {
+      return null;
+    }
+    const alphaMax = this.stepToBoundary(this.dTau, this.dKappa);
     const alpha = Math.min(1, this.settings.stepFraction * alphaMax);
 
     // Update the iterate.
@@ -360,15 +413,15 @@ export class ConicWorkspace {
       this.z[i] += alpha * sol2[n + p + i];
       this.s[i] += alpha * ds[i];
     }
-    this.tau += alpha * combined.dTau;
-    this.kappa += alpha * combined.dKappa;
+    this.tau += alpha * this.dTau;
+    this.kappa += alpha * this.dKappa;
     return alpha;
   }
 
   /**
    * Solves for a search direction given η (residual reduction), d_s (complementarity right-hand side in
    * the scaled space, held in `dsTarget`), and d_κ. Leaves Δx, Δy, Δz in sol2, Δs in `ds`, and the scaled
-   * directions W⁻¹Δs, WΔz in dsScaled, dzScaled.
+   * directions W⁻¹Δs, WΔz in dsScaled, dzScaled, and Δτ, Δκ in this.dTau, this.dKappa. False on failure.
    */
   private direction(
     eta: number,
@@ -377,7 +430,8 @@ export class ConicWorkspace {
     tauPivot: number,
     rTau: number,
     res: Residuals,
-  ): { dTau: number; dKappa: number } | null {
+    maxRefinement: number,
+  ): boolean {
     const { n, p, m, cones, kkt, rhs, sol1, sol2, lambda, ds, dsScaled, dzScaled, tmpM2 } = this;
     const { tau, kappa } = this;
     // u = W (λ \ d_s), kept in ds for now.
@@ -386,11 +440,11 @@ export class ConicWorkspace {
     for (let j = 0; j < n; j++) rhs[j] = -eta * res.rx[j];
     for (let i = 0; i < p; i++) rhs[n + i] = -eta * res.ry[i];
     for (let i = 0; i < m; i++) rhs[n + p + i] = -eta * res.rz[i] - ds[i];
-    if (!kkt.solve(rhs, sol2)) return null;
+    if (!kkt.solve(rhs, sol2, maxRefinement)) return false;
     const dTau =
       (-eta * rTau - dKappa / tau - (dotRange(this.c, sol2, 0) + dotRange(this.b, sol2, n) + dotRange(this.h, sol2, n + p))) /
       tauPivot;
-    if (!Number.isFinite(dTau)) return null;
+    if (!Number.isFinite(dTau)) return false;
     for (let i = 0; i < n + p + m; i++) sol2[i] += dTau * sol1[i];
     // Δs = W(λ \ d_s) − W²Δz; scaled directions for the step length and the corrector.
     for (let i = 0; i < m; i++) tmpM2[i] = sol2[n + p + i];
@@ -398,8 +452,9 @@ export class ConicWorkspace {
     for (const k of cones) k.mulW(dzScaled, tmpM2);
     for (let i = 0; i < m; i++) ds[i] -= tmpM2[i];
     for (const k of cones) k.mulWinv(ds, dsScaled);
-    const dKap = (dKappa - kappa * dTau) / tau;
-    return { dTau, dKappa: dKap };
+    this.dTau = dTau;
+    this.dKappa = (dKappa - kappa * dTau) / tau;
+    return true;
   }
 
   /** Largest α with λ + α W⁻¹Δs, λ + α WΔz ∈ K and τ, κ ≥ 0. */
@@ -472,6 +527,13 @@ export class ConicWorkspace {
 /** One-shot solve: builds a workspace, solves, returns the solution. */
 export function solveConic(problem: ConicProblem, settings: Partial<SolverSettings> = {}): ConicSolution {
   return new ConicWorkspace(problem, settings).solve();
+}
+
+function pushInside(cones: readonly Cone[], v: Float64Array): void {
+  let worst = 0;
+  for (const k of cones) worst = Math.max(worst, k.violation(v));
+  const shift = worst + 0.1 * Math.max(1e-8, infNorm(v));
+  for (const k of cones) k.addIdentity(v, shift);
 }
 
 function shiftIntoCone(cones: readonly Cone[], v: Float64Array): void {

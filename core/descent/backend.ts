@@ -4,11 +4,13 @@
  * plug in a CVXOPT reference session.
  */
 import type { ConicProblem, ConicSolution } from '../conic/types.ts';
+import type { WarmStart } from '../conic/workspace.ts';
 import type { ProblemValues } from './assembler.ts';
 
 export interface ConicSession {
   update(values: Partial<ProblemValues>): void;
-  solve(): ConicSolution;
+  /** Solves; a backend may ignore the starting point. */
+  solve(start?: WarmStart): ConicSolution;
 }
 
 export interface ConicBackend {

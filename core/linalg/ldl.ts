@@ -60,6 +60,13 @@ export class LdlFactor {
   readonly Lx: Float64Array;
   readonly D: Float64Array;
   readonly Dinv: Float64Array;
+  /**
+   * L again, by rows (row k: entries Rp[k] … Rp[k+1]−1 at columns Ri, values Rx), written during
+   * refactor() at no extra pass: the forward solve then gathers instead of scattering, which runs faster.
+   */
+  readonly Rp: Int32Array;
+  readonly Ri: Int32Array;
+  readonly Rx: Float64Array;
   /** Pivots replaced by dynamic regularisation in the last refactor(). */
   regularisedPivots = 0;
   private readonly yVals: Float64Array;
@@ -75,6 +82,9 @@ export class LdlFactor {
     this.Lx = new Float64Array(symbolic.nnzL);
     this.D = new Float64Array(n);
     this.Dinv = new Float64Array(n);
+    this.Rp = new Int32Array(n + 1);
+    this.Ri = new Int32Array(symbolic.nnzL);
+    this.Rx = new Float64Array(symbolic.nnzL);
     this.yVals = new Float64Array(n);
     this.yIdx = new Int32Array(n);
     this.elimBuffer = new Int32Array(n);
@@ -89,7 +99,8 @@ export class LdlFactor {
    */
   refactor(U: CscMatrix, sign: Int8Array | null, eps: number, delta: number): boolean {
     const { n, etree, Lp } = this.symbolic;
-    const { Li, Lx, D, Dinv, yVals, yIdx, elimBuffer, yMarkers, nextSpace } = this;
+    const { Li, Lx, D, Dinv, yVals, yIdx, elimBuffer, yMarkers, nextSpace, Rp, Ri, Rx } = this;
+    let rp = 0;
     const Ap = U.colPtr;
     const Ai = U.rowIdx;
     const Ax = U.values;
@@ -101,6 +112,7 @@ export class LdlFactor {
       nextSpace[i] = Lp[i];
     }
     for (let k = 0; k < n; k++) {
+      Rp[k] = rp;
       let nnzY = 0;
       for (let p = Ap[k]; p < Ap[k + 1]; p++) {
         const bidx = Ai[p];
@@ -125,6 +137,7 @@ export class LdlFactor {
         }
       }
       let dk = D[k];
+      let dk2 = 0; // a second accumulator halves the dependency chain of the pivot update
       for (let i = nnzY - 1; i >= 0; i--) {
         const cidx = yIdx[i];
         const tmpIdx = nextSpace[cidx];
@@ -133,11 +146,16 @@ export class LdlFactor {
         Li[tmpIdx] = k;
         const l = yc * Dinv[cidx];
         Lx[tmpIdx] = l;
-        dk -= yc * l;
+        Ri[rp] = cidx;
+        Rx[rp] = l;
+        rp++;
+        if (i & 1) dk2 -= yc * l;
+        else dk -= yc * l;
         nextSpace[cidx] = tmpIdx + 1;
         yVals[cidx] = 0;
         yMarkers[cidx] = 0;
       }
+      dk += dk2;
       if (sign) {
         if (!(sign[k] * dk >= eps)) {
           dk = sign[k] * delta;
@@ -149,23 +167,42 @@ export class LdlFactor {
       D[k] = dk;
       Dinv[k] = 1 / dk;
     }
+    Rp[n] = rp;
     this.regularisedPivots = regularised;
     return true;
   }
 
-  /** Solves L D Lᵀ x = b in place (x holds b on entry). */
+  /**
+   * Solves L D Lᵀ x = b in place (x holds b on entry). Both triangular passes are gathers with two
+   * accumulators: the sums are latency-bound, and two independent chains run about twice as fast.
+   */
   solveInPlace(x: Float64Array): void {
     const { n, Lp } = this.symbolic;
-    const { Li, Lx, Dinv } = this;
+    const { Li, Lx, Dinv, Rp, Ri, Rx } = this;
     for (let i = 0; i < n; i++) {
-      const xi = x[i];
-      if (xi !== 0) for (let j = Lp[i]; j < Lp[i + 1]; j++) x[Li[j]] -= Lx[j] * xi;
+      let s0 = x[i];
+      let s1 = 0;
+      const end = Rp[i + 1];
+      let q = Rp[i];
+      for (; q + 1 < end; q += 2) {
+        s0 -= Rx[q] * x[Ri[q]];
+        s1 -= Rx[q + 1] * x[Ri[q + 1]];
+      }
+      if (q < end) s0 -= Rx[q] * x[Ri[q]];
+      x[i] = s0 + s1;
     }
     for (let i = 0; i < n; i++) x[i] *= Dinv[i];
     for (let i = n - 1; i >= 0; i--) {
-      let xi = x[i];
-      for (let j = Lp[i]; j < Lp[i + 1]; j++) xi -= Lx[j] * x[Li[j]];
-      x[i] = xi;
+      let s0 = x[i];
+      let s1 = 0;
+      const end = Lp[i + 1];
+      let j = Lp[i];
+      for (; j + 1 < end; j += 2) {
+        s0 -= Lx[j] * x[Li[j]];
+        s1 -= Lx[j + 1] * x[Li[j + 1]];
+      }
+      if (j < end) s0 -= Lx[j] * x[Li[j]];
+      x[i] = s0 + s1;
     }
   }
 }

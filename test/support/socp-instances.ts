@@ -1,7 +1,8 @@
 /**
  * Seeded SOCP instances with a known outcome by construction (the usual way conic solvers are tested):
  * - feasible: a strictly feasible primal point and a strictly feasible dual point exist, so an optimum exists;
- * - primal-infeasible: a Farkas certificate (y, z), z ∈ K, Aᵀy + Gᵀz = 0, bᵀy + hᵀz < 0 is built in;
+ * - primal-infeasible: a Farkas certificate (y, z), z ∈ K, Aᵀy + Gᵀz = 0, bᵀy + hᵀz < 0 is built in,
+ *   and the dual is strictly feasible (so the primal side alone is infeasible);
  * - dual-infeasible: a primal feasible point and a recession direction d (Ad = 0, −Gd ∈ K, cᵀd < 0) are built in.
  * Also a block-banded optimal-control family (3-D double integrator with thrust-norm cones), like a
  * discretised descent problem.
@@ -166,7 +167,12 @@ export function primalInfeasibleInstance(seed: number, nMax = 40): Instance {
   for (let i = 0; i < m; i++) byhz += h[i] * z0[i];
   const margin = rng.uniform(0.5, 5);
   h[r] -= (byhz + margin) / z0[r];
-  const c = vec(n, () => rng.normal());
+  // Dual strictly feasible (c = −Aᵀy1 − Gᵀz1, z1 ∈ int K), so the problem is infeasible on the primal side only.
+  const z1 = interiorPoint(rng, l, soc);
+  const y1 = vec(p, () => rng.normal());
+  const c = mulT(A, y1);
+  const gz1 = mulT(G, z1);
+  for (let j = 0; j < n; j++) c[j] = -(c[j] + gz1[j]);
   return {
     name: `primal-infeasible-${seed} (n=${n}, p=${p}, m=${m})`,
     expected: 'primal-infeasible',

@@ -1,0 +1,115 @@
+/**
+ * Footprint results as struct-of-arrays: one typed array per quantity, row-major (index = row · nx + col),
+ * so rows can be streamed between threads as transferables and a cancelled run keeps every finished row.
+ */
+import type { TargetGrid } from './grid.ts';
+
+/** Per-target outcome codes stored in `status`. */
+export const TARGET = {
+  /** Not computed (yet, or the run was cancelled first). */
+  pending: 0,
+  /** Reachable: an optimal trajectory exists within the vehicle's propellant. */
+  reachable: 1,
+  /** Certified unreachable: every time of flight tried came back with an infeasibility certificate. */
+  unreachable: 2,
+  /** The solver failed for this target (neither solved nor certified). */
+  failed: 3,
+} as const;
+export type TargetCode = (typeof TARGET)[keyof typeof TARGET];
+
+/** The outcome of one target, as the footprint engine needs it from the descent search. */
+export interface TargetOutcome {
+  code: TargetCode;
+  /** Minimum propellant, kg (NaN when unreachable or failed). */
+  propellant_kg: number;
+  /** Optimal time of flight, s (NaN when unreachable or failed). */
+  timeOfFlight_s: number;
+  /** Largest thrust tilt from vertical along the optimal trajectory, degrees. */
+  peakTilt_deg: number;
+  /** Horizontal miss of the closest reachable landing point, m (0 when reachable). */
+  miss_m: number;
+  /** Cone-program solves spent on this target. */
+  solves: number;
+}
+
+export interface FootprintField {
+  readonly nx: number;
+  readonly ny: number;
+  readonly east: Float64Array;
+  readonly north: Float64Array;
+  readonly status: Uint8Array;
+  readonly propellant_kg: Float32Array;
+  readonly timeOfFlight_s: Float32Array;
+  readonly peakTilt_deg: Float32Array;
+  readonly miss_m: Float32Array;
+  readonly solves: Uint16Array;
+}
+
+export function emptyField(grid: TargetGrid): FootprintField {
+  const n = grid.nx * grid.ny;
+  return {
+    nx: grid.nx,
+    ny: grid.ny,
+    east: grid.east.slice(),
+    north: grid.north.slice(),
+    status: new Uint8Array(n),
+    propellant_kg: new Float32Array(n).fill(NaN),
+    timeOfFlight_s: new Float32Array(n).fill(NaN),
+    peakTilt_deg: new Float32Array(n).fill(NaN),
+    miss_m: new Float32Array(n).fill(NaN),
+    solves: new Uint16Array(n),
+  };
+}
+
+/** One finished row, as sent between threads (its buffers are transferable). */
+export interface FieldRow {
+  row: number;
+  status: Uint8Array;
+  propellant_kg: Float32Array;
+  timeOfFlight_s: Float32Array;
+  peakTilt_deg: Float32Array;
+  miss_m: Float32Array;
+  solves: Uint16Array;
+}
+
+export function emptyRow(row: number, nx: number): FieldRow {
+  return {
+    row,
+    status: new Uint8Array(nx),
+    propellant_kg: new Float32Array(nx).fill(NaN),
+    timeOfFlight_s: new Float32Array(nx).fill(NaN),
+    peakTilt_deg: new Float32Array(nx).fill(NaN),
+    miss_m: new Float32Array(nx).fill(NaN),
+    solves: new Uint16Array(nx),
+  };
+}
+
+export function setOutcome(row: FieldRow, col: number, o: TargetOutcome): void {
+  row.status[col] = o.code;
+  row.propellant_kg[col] = o.propellant_kg;
+  row.timeOfFlight_s[col] = o.timeOfFlight_s;
+  row.peakTilt_deg[col] = o.peakTilt_deg;
+  row.miss_m[col] = o.miss_m;
+  row.solves[col] = Math.min(65535, o.solves);
+}
+
+export function writeRow(field: FootprintField, r: FieldRow): void {
+  const o = r.row * field.nx;
+  field.status.set(r.status, o);
+  field.propellant_kg.set(r.propellant_kg, o);
+  field.timeOfFlight_s.set(r.timeOfFlight_s, o);
+  field.peakTilt_deg.set(r.peakTilt_deg, o);
+  field.miss_m.set(r.miss_m, o);
+  field.solves.set(r.solves, o);
+}
+
+export function rowBuffers(r: FieldRow): ArrayBuffer[] {
+  return [r.status, r.propellant_kg, r.timeOfFlight_s, r.peakTilt_deg, r.miss_m, r.solves].map((a) => a.buffer as ArrayBuffer);
+}
+
+export function countByStatus(field: FootprintField): Record<keyof typeof TARGET, number> {
+  const out = { pending: 0, reachable: 0, unreachable: 0, failed: 0 };
+  const names = Object.keys(TARGET) as (keyof typeof TARGET)[];
+  for (const code of field.status) out[names[code]]++;
+  return out;
+}
