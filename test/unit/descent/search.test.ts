@@ -85,3 +85,23 @@ describe('secantMinimise', () => {
     expect(r.evaluations).toBeLessThan(30);
   });
 });
+
+describe('solver failures are reported, not mistaken for infeasibility', () => {
+  it('a backend that never converges gives status solver-failure', () => {
+    // Test double: a session that always stops at its iteration limit without a certificate.
+    const stuck = {
+      name: 'stuck',
+      open: () => ({
+        update: () => {},
+        solve: () => ({
+          status: 'max-iterations' as const, x: new Float64Array(0), y: new Float64Array(0), z: new Float64Array(0), s: new Float64Array(0),
+          info: { iterations: 100, primalObjective: NaN, dualObjective: NaN, gap: NaN, primalResidual: NaN, dualResidual: NaN, factorisations: 0, solveTimeMs: 0 },
+        }),
+      }),
+    };
+    const r = searchFreeFinalTime(new DescentSolver(d.setup, stuck, d.ignition), [0, 0, 0], d.ignition);
+    expect(r.status).toBe('solver-failure');
+    expect(r.failures).toBeGreaterThan(0);
+    expect(r.warnings.join(' ')).toMatch(/neither|without a solution or a certificate|no time of flight/);
+  });
+});
