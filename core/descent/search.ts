@@ -154,7 +154,7 @@ function runPhase(
   } else {
     // Local bracket around the (often warm-started) feasible point, then Brent inside it.
     const step = Math.max(4 * tol, LOCAL_STEP_FRACTION * x0);
-    const br = bracketFrom(f, x0, cost(start), step, lo, hi);
+    const br = bracketFrom(f, x0, cost(start), step, lo, hi, stopBelow);
     res = brentMinimise(f, br.a, br.b, br.x, br.fx, tol, Math.max(0, budget()), stopBelow);
   }
   const best = cache.get(res.x) ?? start;
