@@ -3,7 +3,6 @@
  * re-solves it with new values for each time of flight, target and ignition state.
  */
 import type { ConicSolution, SolveStatus } from '../conic/types.ts';
-import { cscMulAdd } from '../linalg/csc.ts';
 import type { ConicBackend, ConicSession } from './backend.ts';
 import type { Vec3 } from './constants.ts';
 import type { ProgramData, ProgramKind, ProgramScales } from './program.ts';
@@ -94,23 +93,23 @@ export class DescentSolver {
     const e = this.programs.get('min-propellant')!;
     const P = e.program.problem;
     const eps = 1e-5 * r.timeOfFlight;
-    const snap = (tf: number) => {
-      const v = e.program.update({ timeOfFlight: tf, target, ignition });
-      return { A: v.AValues.slice(), G: v.GValues.slice(), b: v.b.slice(), h: v.h.slice() };
-    };
-    const plus = snap(r.timeOfFlight + eps);
-    const minus = snap(r.timeOfFlight - eps);
-    const inv = 1 / (2 * eps);
     const { x, y, z } = r.solution;
-    const dA = { ...P.A, values: plus.A.map((v, i) => (v - minus.A[i]) * inv) };
-    const dG = { ...P.G, values: plus.G.map((v, i) => (v - minus.G[i]) * inv) };
-    const ax = new Float64Array(P.A.m);
-    cscMulAdd(dA, x, ax);
-    const gx = new Float64Array(P.G.m);
-    cscMulAdd(dG, x, gx);
-    let dJ = 0;
-    for (let i = 0; i < ax.length; i++) dJ += y[i] * (ax[i] - (plus.b[i] - minus.b[i]) * inv);
-    for (let i = 0; i < gx.length; i++) dJ += z[i] * (gx[i] - (plus.h[i] - minus.h[i]) * inv);
+    // L(t) = yᵀ(A(t)x − b(t)) + zᵀ(G(t)x − h(t)) at the fixed solution; dJ/dt_f = L′(t_f) (central difference).
+    const lagrangianTerms = (tf: number) => {
+      e.program.update({ timeOfFlight: tf, target, ignition });
+      let sum = 0;
+      for (let i = 0; i < P.b.length; i++) sum -= y[i] * P.b[i];
+      for (let i = 0; i < P.h.length; i++) sum -= z[i] * P.h[i];
+      for (const [M, w] of [[P.A, y], [P.G, z]] as const) {
+        for (let j = 0; j < M.n; j++) {
+          const xj = x[j];
+          if (xj === 0) continue;
+          for (let q = M.colPtr[j]; q < M.colPtr[j + 1]; q++) sum += w[M.rowIdx[q]] * M.values[q] * xj;
+        }
+      }
+      return sum;
+    };
+    const dJ = (lagrangianTerms(r.timeOfFlight + eps) - lagrangianTerms(r.timeOfFlight - eps)) / (2 * eps);
     return (ignition.mass - r.propellant) * dJ;
   }
 }
