@@ -5,12 +5,22 @@
 import { writeFileSync } from 'node:fs';
 import os from 'node:os';
 import { benchConic } from './conic.bench.ts';
+import { benchDescent } from './descent.bench.ts';
+import { benchTerrain } from './terrain.bench.ts';
 import { formatFigure, type BenchResult } from './util.ts';
 
 const SUITES: Record<string, { target: string; run: () => Promise<BenchResult[]> }> = {
   conic: {
     target: 'target: ≥ 30× faster than CVXOPT and < 2 ms per solve at ~700 variables',
     run: benchConic,
+  },
+  descent: {
+    target: 'target: one free-final-time target solve < 20 ms at N = 50',
+    run: async () => [{ name: 'descent (demo study)', figures: await benchDescent() }],
+  },
+  terrain: {
+    target: 'target: hazard map of a 2048 × 2048 DEM < 2 s and < 200 MB',
+    run: async () => [{ name: 'terrain hazard 2048²', figures: await benchTerrain() }],
   },
 };
 

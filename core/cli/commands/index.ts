@@ -1,5 +1,6 @@
 import type { CliCommand } from '../command.ts';
+import { hazardCommand } from './hazard.ts';
 import { trajectoryCommand } from './trajectory.ts';
 
 /** Every sub-command, in the order `landreach --help` lists them. Add new commands here. */
-export const COMMANDS: readonly CliCommand[] = [trajectoryCommand];
+export const COMMANDS: readonly CliCommand[] = [trajectoryCommand, hazardCommand];

@@ -1,0 +1,238 @@
+/**
+ * `landreach hazard DEM --out DIR …`: slope, roughness and hazard rasters (GeoTIFF) plus a JSON
+ * summary for one elevation model. Reading and writing files happens here; the work is core/terrain.
+ */
+import { readFile, writeFile, rename, mkdir, access, unlink } from 'node:fs/promises';
+import { resolve, join, basename } from 'node:path';
+import type { CliCommand, CliIo } from '../command.ts';
+import { UsageError } from '../command.ts';
+import type { ElevationGrid, HazardLimits, HazardMap } from '../../terrain/index.ts';
+import {
+  DEFAULT_HAZARD_LIMITS, HAZARD_MARGIN, HAZARD_ROUGHNESS, HAZARD_SLOPE, HAZARD_UNKNOWN, TerrainInputError,
+  gridGeometry, gridRasterGeoreference, hazardMap, readGeoTiff, readJsonGrid, readPngHeightmap, toDegrees, validCount, writeGeoTiff,
+} from '../../terrain/index.ts';
+
+const CAUTION = 'Preliminary design and trade studies only; not flight software. Verify with high-fidelity simulation and your organisation\'s assurance process.';
+
+const USAGE = `Usage: landreach hazard DEM --out DIR [options]
+
+Reads an elevation model (single-band GeoTIFF, 16-bit greyscale PNG heightmap, or Landreach JSON grid)
+and writes into DIR:
+  slope.tif        Horn (1981) slope at DEM resolution, degrees (Float32; NaN at edges / next to no-data)
+  footprint-slope.tif  slope of the plane fitted over the lander footprint, degrees (what the mask uses)
+  roughness.tif    max (or RMS) residual above/below the plane fitted over the lander footprint, m
+  hazard.tif       hazard flags (UInt8): 0 safe, +1 slope, +2 roughness, +4 unknown (no data or edge),
+                   8 within the safety margin of a hazard
+  hazard-summary.json   safe fraction, limits used, DEM metadata
+
+Options:
+  --out DIR                 output folder (created if missing)                                  [required]
+  --max-slope-deg S         largest footprint slope, degrees          (default ${DEFAULT_HAZARD_LIMITS.maxSlope_deg}, common practice)
+  --max-roughness-m R       largest residual over the footprint, m    (default ${DEFAULT_HAZARD_LIMITS.maxRoughness_m}, common practice)
+  --lander-diameter-m D     lander footprint diameter, m              (default ${DEFAULT_HAZARD_LIMITS.landerDiameter_m})
+  --margin-m M              safety margin around hazards, m           (default ${DEFAULT_HAZARD_LIMITS.safetyMargin_m})
+  --roughness max|rms       roughness measure                         (default max)
+  --window C0,R0,C1,R1      read only this pixel window of a GeoTIFF (needed above 4096 × 4096 cells)
+  --body-radius-m R         body radius for geographic (degree) GeoTIFFs without one
+  --origin-lat-deg A, --origin-lon-deg B
+                            geographic GeoTIFFs: origin of the local east–north frame (default: grid centre)
+  --vertical-scale K        GeoTIFF: metres per height unit (default: the file's VerticalUnitsGeoKey, else 1;
+                            e.g. 0.3048 for heights stored in feet without saying so)
+  --pixel-size-m P          PNG heightmaps: ground size of a pixel, m                            [PNG: required]
+  --height-scale-m K        PNG heightmaps: metres per sample step                               [PNG: required]
+  --height-offset-m Z       PNG heightmaps: height of sample 0, m     (default 0)
+  --overwrite               replace output files that already exist
+  --study STUDY.json        safe reachable set and ranked sites (needs the footprint engine; not yet available)
+
+${CAUTION}`;
+
+type Flags = Record<string, string | true>;
+
+const VALUE_FLAGS = new Set([
+  'out', 'max-slope-deg', 'max-roughness-m', 'lander-diameter-m', 'margin-m', 'roughness', 'window',
+  'body-radius-m', 'origin-lat-deg', 'origin-lon-deg', 'vertical-scale', 'pixel-size-m', 'height-scale-m', 'height-offset-m', 'study',
+]);
+const BOOLEAN_FLAGS = new Set(['overwrite']);
+
+function parseArgs(args: string[]): { positional: string[]; flags: Flags } {
+  const positional: string[] = [];
+  const flags: Flags = {};
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i];
+    if (!a.startsWith('--')) { positional.push(a); continue; }
+    const eq = a.indexOf('=');
+    const name = a.slice(2, eq < 0 ? undefined : eq);
+    if (BOOLEAN_FLAGS.has(name)) { flags[name] = true; continue; }
+    if (!VALUE_FLAGS.has(name)) throw new UsageError(`unknown option --${name} (see landreach hazard --help)`);
+    const value = eq >= 0 ? a.slice(eq + 1) : args[++i];
+    if (value === undefined) throw new UsageError(`--${name} needs a value`);
+    flags[name] = value;
+  }
+  return { positional, flags };
+}
+
+function num(flags: Flags, name: string): number | undefined {
+  const v = flags[name];
+  if (v === undefined) return undefined;
+  const x = Number(v);
+  if (typeof v !== 'string' || v.trim() === '' || !Number.isFinite(x)) throw new UsageError(`--${name}: '${String(v)}' is not a number`);
+  return x;
+}
+
+async function exists(path: string): Promise<boolean> {
+  try { await access(path); return true; } catch { return false; }
+}
+
+/** Writes via a temporary file and a rename, so a failure never leaves a half-written output. */
+async function writeAtomic(path: string, data: Uint8Array | string): Promise<void> {
+  const tmp = `${path}.tmp-${process.pid}`;
+  try {
+    await writeFile(tmp, data);
+    await rename(tmp, path);
+  } catch (err) {
+    await unlink(tmp).catch(() => undefined);
+    throw err;
+  }
+}
+
+async function readDem(path: string, flags: Flags): Promise<{ grid: ElevationGrid; format: string }> {
+  let bytes: Uint8Array;
+  try {
+    bytes = new Uint8Array(await readFile(path));
+  } catch (err) {
+    throw new UsageError(`cannot read DEM '${path}': ${(err as NodeJS.ErrnoException).code ?? String(err)}`);
+  }
+  const name = basename(path);
+  if (bytes[0] === 0x89 && bytes[1] === 0x50) {
+    const pixelSize_m = num(flags, 'pixel-size-m');
+    const heightScale_m = num(flags, 'height-scale-m');
+    if (pixelSize_m === undefined || heightScale_m === undefined) {
+      throw new UsageError(`'${name}' is a PNG heightmap: give --pixel-size-m and --height-scale-m (a PNG carries no georeference)`);
+    }
+    const grid = await readPngHeightmap(bytes, { pixelSize_m, heightScale_m, heightOffset_m: num(flags, 'height-offset-m') ?? 0, sourceName: name });
+    return { grid, format: 'png-heightmap' };
+  }
+  const head = new TextDecoder().decode(bytes.subarray(0, 64)).replace(/^\uFEFF/, '').trimStart();
+  if (head.startsWith('{')) {
+    return { grid: readJsonGrid(new TextDecoder().decode(bytes)), format: 'landreach-json-grid' };
+  }
+  let window: [number, number, number, number] | undefined;
+  if (typeof flags.window === 'string') {
+    const parts = flags.window.split(',').map(Number);
+    if (parts.length !== 4 || !parts.every(Number.isInteger)) throw new UsageError(`--window: '${flags.window}' must be four integers C0,R0,C1,R1`);
+    window = parts as [number, number, number, number];
+  }
+  const grid = await readGeoTiff(bytes, {
+    sourceName: name,
+    window,
+    bodyRadius_m: num(flags, 'body-radius-m'),
+    originLatitude_deg: num(flags, 'origin-lat-deg'),
+    originLongitude_deg: num(flags, 'origin-lon-deg'),
+    verticalScale: num(flags, 'vertical-scale'),
+  });
+  return { grid, format: 'geotiff' };
+}
+
+function stats(values: Float32Array, scale = 1) {
+  let n = 0, sum = 0, max = -Infinity;
+  for (const v of values) if (!Number.isNaN(v)) { n++; sum += v * scale; if (v * scale > max) max = v * scale; }
+  return n === 0 ? { cells: 0, mean: null, max: null } : { cells: n, mean: sum / n, max };
+}
+
+export function hazardSummary(path: string, format: string, grid: ElevationGrid, map: HazardMap, given: HazardLimits) {
+  const count = (bit: number) => map.flags.reduce((n, f) => n + (f & bit ? 1 : 0), 0);
+  const deg = 180 / Math.PI;
+  const valid = validCount(grid);
+  return {
+    tool: 'landreach hazard',
+    caution: CAUTION,
+    input: {
+      path,
+      format,
+      ...gridGeometry(grid),
+      validCells: valid,
+      noDataCells: grid.width * grid.height - valid,
+      georeference: grid.georeference ?? null,
+    },
+    limits: {
+      ...map.limits,
+      defaulted: (Object.keys(map.limits) as (keyof HazardLimits)[]).filter((k) => given[k] === undefined),
+      note: 'Default slope and roughness limits are common practice for small landers, not a published requirement.',
+    },
+    results: {
+      safeFraction: map.safeFraction,
+      safeCells: map.safeCells,
+      safeArea_m2: map.safeCells * map.cellArea_m2,
+      slopeHazardCells: count(HAZARD_SLOPE),
+      roughnessHazardCells: count(HAZARD_ROUGHNESS),
+      unknownCells: count(HAZARD_UNKNOWN),
+      marginCells: count(HAZARD_MARGIN),
+      roughnessAssessed: map.roughnessAssessed,
+      hornSlope_deg: stats(map.slope_rad, deg),
+      footprintSlope_deg: stats(map.footprintSlope_rad, deg),
+      roughness_m: stats(map.roughness_m),
+    },
+    outputs: { slope: 'slope.tif', footprintSlope: 'footprint-slope.tif', roughness: 'roughness.tif', hazard: 'hazard.tif' },
+    hazardCodes: { 0: 'safe', 1: 'slope', 2: 'roughness', 4: 'unknown (no data or footprint off the grid)', 8: 'within the safety margin' },
+  };
+}
+
+async function run(args: string[], io: CliIo): Promise<number> {
+  const { positional, flags } = parseArgs(args);
+  if (positional.length !== 1) throw new UsageError(`expected one DEM file, got ${positional.length} (see landreach hazard --help)`);
+  if (typeof flags.out !== 'string') throw new UsageError('--out DIR is required');
+  if (flags.study !== undefined) {
+    throw new UsageError('--study needs the footprint engine, which this build does not have yet; run without --study for the hazard map alone');
+  }
+  const demPath = resolve(positional[0]);
+  const outDir = resolve(flags.out);
+  const roughness = flags.roughness;
+  if (roughness !== undefined && roughness !== 'max' && roughness !== 'rms') throw new UsageError(`--roughness: '${String(roughness)}' must be max or rms`);
+  const limits: HazardLimits = {
+    maxSlope_deg: num(flags, 'max-slope-deg'),
+    maxRoughness_m: num(flags, 'max-roughness-m'),
+    landerDiameter_m: num(flags, 'lander-diameter-m'),
+    safetyMargin_m: num(flags, 'margin-m'),
+    roughnessMeasure: roughness as 'max' | 'rms' | undefined,
+  };
+  const files = {
+    slope: join(outDir, 'slope.tif'),
+    footprintSlope: join(outDir, 'footprint-slope.tif'),
+    roughness: join(outDir, 'roughness.tif'),
+    hazard: join(outDir, 'hazard.tif'),
+    summary: join(outDir, 'hazard-summary.json'),
+  };
+  const outputs = Object.values(files);
+  if (outputs.includes(demPath)) throw new UsageError(`--out would overwrite the input DEM '${demPath}'; choose another folder`);
+  if (!flags.overwrite) {
+    for (const p of outputs) if (await exists(p)) throw new UsageError(`'${p}' already exists; pass --overwrite to replace it or choose another --out`);
+  }
+  try {
+    io.stderr(`reading ${demPath}\n`);
+    const { grid, format } = await readDem(demPath, flags);
+    io.stderr(`${grid.width} × ${grid.height} cells at ${grid.pixelSizeX_m} × ${grid.pixelSizeY_m} m; computing hazard map\n`);
+    const map = hazardMap(grid, limits);
+    const geo = gridRasterGeoreference(grid);
+    await mkdir(outDir, { recursive: true });
+    const common = { width: grid.width, height: grid.height, georeference: geo };
+    await writeAtomic(files.slope, writeGeoTiff({ ...common, data: toDegrees(map.slope_rad), noData: NaN, description: 'Horn (1981) slope, degrees' }));
+    await writeAtomic(files.footprintSlope, writeGeoTiff({ ...common, data: toDegrees(map.footprintSlope_rad), noData: NaN, description: `footprint-plane slope over ${map.limits.landerDiameter_m} m, degrees` }));
+    await writeAtomic(files.roughness, writeGeoTiff({ ...common, data: map.roughness_m, noData: NaN, description: `footprint roughness (${map.limits.roughnessMeasure}), metres` }));
+    await writeAtomic(files.hazard, writeGeoTiff({ ...common, data: map.flags, description: 'hazard flags: 0 safe, 1 slope, 2 roughness, 4 unknown, 8 margin' }));
+    const summary = hazardSummary(demPath, format, grid, map, limits);
+    await writeAtomic(files.summary, JSON.stringify(summary, null, 2) + '\n');
+    io.stdout(`safe fraction ${(100 * map.safeFraction).toFixed(2)} % (${map.safeCells} of ${grid.width * grid.height} cells); wrote ${outDir}\n`);
+    if (!map.roughnessAssessed) io.stderr('note: the DEM is coarser than half the lander diameter, so roughness was not assessed\n');
+    return 0;
+  } catch (err) {
+    if (err instanceof TerrainInputError) throw new UsageError(err.message);
+    throw err;
+  }
+}
+
+export const hazardCommand: CliCommand = {
+  name: 'hazard',
+  summary: 'slope, roughness and hazard rasters (GeoTIFF) and a JSON summary for an elevation model',
+  usage: USAGE,
+  run,
+};

@@ -1,0 +1,273 @@
+/**
+ * Single-band GeoTIFF (OGC GeoTIFF 1.1) elevation reader on top of the `geotiff` package: bytes in,
+ * ElevationGrid out. Handles integer and float samples, the affine tags (ModelPixelScale +
+ * ModelTiepoint, or a non-rotated ModelTransformation), GDAL_NODATA (including "nan"; float32 files are
+ * compared after Math.fround), PixelIsPoint vs PixelIsArea, projected metres, and geographic degrees
+ * converted to a flat local east–north frame around a chosen origin.
+ */
+import { fromArrayBuffer } from 'geotiff';
+import type { GeoTIFFImage } from 'geotiff';
+import type { ElevationGrid, GridGeoreference, GridSpec } from './grid.ts';
+import { MAX_GRID_CELLS, TerrainInputError, checkDimensions, makeGrid, requireSomeData } from './grid.ts';
+import { registerBoundedLzw } from './lzw.ts';
+
+/** Options for readGeoTiff; every field is optional. */
+export interface GeoTiffReadOptions {
+  /** Pixel window [col0, row0, col1, row1) to read; default the whole image. Use it for files over MAX_GRID_CELLS. */
+  window?: readonly [number, number, number, number];
+  /** Metres per vertical unit of the samples. Default: from VerticalUnitsGeoKey when present, else 1
+   *  (heights taken as metres — a file that stores feet without saying so needs this option). */
+  verticalScale?: number;
+  /** Geographic DEMs: body radius in metres. Default: the file's GeogSemiMajorAxisGeoKey, else WGS 84's
+   *  6 378 137 m for EPSG:4326, else an error asking for it. */
+  bodyRadius_m?: number;
+  /** Geographic DEMs: local-frame origin (degrees); default the centre of the grid read. */
+  originLatitude_deg?: number;
+  originLongitude_deg?: number;
+  /** Name used in error messages (e.g. the file name). */
+  sourceName?: string;
+}
+
+const TAG_PIXEL_SCALE = 'ModelPixelScale';
+const TAG_TIEPOINT = 'ModelTiepoint';
+const TAG_TRANSFORMATION = 'ModelTransformation';
+const WGS84_A = 6378137;
+const DEG = Math.PI / 180;
+
+/**
+ * TIFF Compression values read: none, LZW (our bounded decoder), Deflate (both codes), PackBits, LERC.
+ * Refused: JPEG and WebP (lossy, 8-bit: not elevation), and ZSTD, whose decoder in the package has no
+ * output bound on a corrupt frame (seeded fuzzing ran it out of memory).
+ */
+const COMPRESSIONS: Record<number, string> = { 1: 'none', 5: 'LZW', 8: 'Deflate', 32946: 'Deflate', 32773: 'PackBits', 34887: 'LERC' };
+
+/** EPSG unit-of-measure codes for lengths → metres (EPSG 9001 metre, 9002 foot, 9003 US survey foot, 9036 kilometre). */
+const LINEAR_UNIT_M: Record<number, number> = { 9001: 1, 9002: 0.3048, 9003: 1200 / 3937, 9036: 1000 };
+
+function unitToMetres(source: string, key: string, code: unknown): number {
+  if (code === undefined || code === null) return 1;
+  const f = LINEAR_UNIT_M[Number(code)];
+  if (f === undefined) fail(source, `${key} ${String(code)} is not a length unit this reader knows (metre, foot, US survey foot, kilometre); reproject to metres first (gdalwarp)`);
+  return f;
+}
+
+function fail(source: string, message: string): never {
+  throw new TerrainInputError(`${source}: ${message}`);
+}
+
+/** GDAL_NODATA is ASCII: a number, or "nan" / "inf" spellings. */
+export function parseNoData(text: unknown): number | null {
+  if (typeof text !== 'string') return null;
+  const t = text.replace(/\0/g, '').trim().toLowerCase();
+  if (t === '') return null;
+  if (t === 'nan' || t === '-nan') return NaN;
+  if (t === 'inf' || t === '+inf') return Infinity;
+  if (t === '-inf') return -Infinity;
+  const v = Number(t);
+  return Number.isNaN(v) ? null : v;
+}
+
+async function tag(image: GeoTIFFImage, name: string): Promise<unknown> {
+  const fd = image.getFileDirectory();
+  if (!fd.hasTag(name as never)) return undefined;
+  return fd.loadValue(name as never);
+}
+
+function numbers(v: unknown): number[] | undefined {
+  if (v === undefined || v === null) return undefined;
+  if (typeof v === 'number') return [v];
+  if (Array.isArray(v) || ArrayBuffer.isView(v)) return Array.from(v as ArrayLike<number>, Number);
+  return undefined;
+}
+
+interface Affine {
+  x0: number; // source-CRS x of the outer corner of pixel (0,0)
+  dx: number;
+  y0: number;
+  dy: number; // positive: rows go south
+}
+
+async function readAffine(image: GeoTIFFImage, source: string, pixelIsPoint: boolean): Promise<Affine | null> {
+  const scale = numbers(await tag(image, TAG_PIXEL_SCALE));
+  const tie = numbers(await tag(image, TAG_TIEPOINT));
+  const mt = numbers(await tag(image, TAG_TRANSFORMATION));
+  let a: Affine | null = null;
+  if (mt && mt.length >= 16) {
+    if (mt[1] !== 0 || mt[4] !== 0) {
+      fail(source, `rotated or sheared ModelTransformation (terms ${mt[1]}, ${mt[4]}) is not supported; warp the DEM north-up first (e.g. gdalwarp)`);
+    }
+    a = { x0: mt[3], dx: mt[0], y0: mt[7], dy: -mt[5] };
+  } else if (scale && tie && scale.length >= 2 && tie.length >= 6) {
+    if (tie.length > 6) fail(source, `${tie.length / 6} tiepoints (a warped, non-affine grid) are not supported; warp the DEM to a regular grid first`);
+    const [i, j, , x, y] = tie;
+    a = { x0: x - i * scale[0], dx: scale[0], y0: y + j * scale[1], dy: scale[1] };
+  } else if (scale || tie) {
+    fail(source, 'has ModelPixelScale or ModelTiepoint but not both; the grid cannot be placed');
+  }
+  if (!a) return null;
+  if (![a.x0, a.dx, a.y0, a.dy].every(Number.isFinite) || a.dx <= 0 || a.dy <= 0) {
+    fail(source, `invalid geotransform (pixel size ${a.dx} × ${a.dy}); pixel sizes must be finite and > 0 for a north-up raster`);
+  }
+  // PixelIsPoint: the tiepoint names the centre of pixel (0,0); shift to its outer corner (GDAL does the same).
+  if (pixelIsPoint) a = { ...a, x0: a.x0 - a.dx / 2, y0: a.y0 + a.dy / 2 };
+  return a;
+}
+
+function isNoDataFactory(noData: number | null, sampleFormat: number, bits: number): (v: number) => boolean {
+  if (noData === null) return (v) => !Number.isFinite(v);
+  if (Number.isNaN(noData)) return (v) => Number.isNaN(v);
+  const target = sampleFormat === 3 && bits === 32 ? Math.fround(noData) : noData;
+  return (v) => v === target || Number.isNaN(v);
+}
+
+/** Reads band 1 of a single-band GeoTIFF into an ElevationGrid. Errors are TerrainInputError. */
+export async function readGeoTiff(bytes: Uint8Array | ArrayBuffer, options: GeoTiffReadOptions = {}): Promise<ElevationGrid> {
+  const source = options.sourceName ?? 'GeoTIFF';
+  registerBoundedLzw();
+  // geotiff wants a whole ArrayBuffer: use the view's own buffer when it spans all of it, else copy
+  // (a small Node Buffer may be a view into a larger shared pool).
+  const whole = bytes instanceof Uint8Array && bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength && bytes.buffer instanceof ArrayBuffer;
+  const buf = bytes instanceof Uint8Array ? (whole ? (bytes.buffer as ArrayBuffer) : new Uint8Array(bytes).buffer) : bytes;
+  if (buf.byteLength < 8) fail(source, `only ${buf.byteLength} bytes; not a TIFF file (truncated?)`);
+  const head = new Uint8Array(buf, 0, 4);
+  const le = head[0] === 0x49 && head[1] === 0x49;
+  const be = head[0] === 0x4d && head[1] === 0x4d;
+  if (!le && !be) fail(source, 'not a TIFF file (no II/MM byte-order mark); give a GeoTIFF, a 16-bit PNG or a JSON grid');
+  try {
+    return await readImage(buf, source, options);
+  } catch (err) {
+    if (err instanceof TerrainInputError) throw err;
+    const why = err instanceof Error ? err.message : String(err);
+    throw new TerrainInputError(`${source}: cannot be decoded as a GeoTIFF (${why}); the file may be truncated or corrupt`);
+  }
+}
+
+async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadOptions): Promise<ElevationGrid> {
+  const tiff = await fromArrayBuffer(buf);
+  const image = await tiff.getImage(0);
+  const fullW = image.getWidth();
+  const fullH = image.getHeight();
+  if (!Number.isInteger(fullW) || !Number.isInteger(fullH) || fullW < 1 || fullH < 1) {
+    fail(source, `invalid image size ${fullW} × ${fullH}`);
+  }
+  const bands = image.getSamplesPerPixel();
+  if (bands !== 1) fail(source, `has ${bands} bands; an elevation model must have exactly 1 (extract one with gdal_translate -b 1)`);
+  const sampleFormat = image.getSampleFormat(0) ?? 1;
+  const bits = image.getBitsPerSample(0);
+  if (![8, 16, 32, 64].includes(bits) || ![1, 2, 3].includes(sampleFormat) || (sampleFormat === 3 && bits < 32)) {
+    fail(source, `unsupported sample type (SampleFormat ${sampleFormat}, ${bits} bits); use 8/16/32-bit integers or 32/64-bit floats`);
+  }
+  const compression = Number(image.getFileDirectory().getValue('Compression' as never) ?? 1);
+  if (!(compression in COMPRESSIONS)) {
+    fail(source, `uses TIFF compression ${compression}, which this reader does not decode (it reads none, LZW, Deflate, PackBits and LERC); re-save it, e.g. gdal_translate -co COMPRESS=DEFLATE`);
+  }
+  const [c0, r0, c1, r1] = options.window ?? [0, 0, fullW, fullH];
+  if (![c0, r0, c1, r1].every(Number.isInteger) || c0 < 0 || r0 < 0 || c1 > fullW || r1 > fullH || c1 <= c0 || r1 <= r0) {
+    fail(source, `invalid window [${c0}, ${r0}, ${c1}, ${r1}] for a ${fullW} × ${fullH} image (need 0 ≤ col0 < col1 ≤ width, 0 ≤ row0 < row1 ≤ height)`);
+  }
+  const w = c1 - c0;
+  const h = r1 - r0;
+  if (w * h > MAX_GRID_CELLS) {
+    fail(source, `is ${w} × ${h} = ${w * h} cells, over the limit of ${MAX_GRID_CELLS} (4096 × 4096); pass a window of at most that many cells`);
+  }
+  checkDimensions(w, h, `${source} window`);
+  const geoKeys = image.getGeoKeys() ?? {};
+  const pixelIsPoint = geoKeys.GTRasterTypeGeoKey === 2;
+  const affine = await readAffine(image, source, pixelIsPoint);
+  if (!affine) {
+    fail(source, 'has no georeferencing (ModelPixelScale/ModelTiepoint or ModelTransformation), so the pixel size is unknown; add it (gdal_translate -a_ullr … -a_srs …) or use a PNG heightmap with an explicit pixel size');
+  }
+  const modelType = Number(geoKeys.GTModelTypeGeoKey ?? 0);
+  const noData = parseNoData(await tag(image, 'GDAL_NODATA'));
+  const isNoData = isNoDataFactory(noData, sampleFormat, bits);
+  const verticalScale = options.verticalScale ?? unitToMetres(source, 'VerticalUnitsGeoKey', geoKeys.VerticalUnitsGeoKey);
+  if (!Number.isFinite(verticalScale) || verticalScale === 0) {
+    fail(source, `invalid verticalScale: ${verticalScale} (must be a finite non-zero number of metres per unit)`);
+  }
+
+  const rasters = await image.readRasters({ window: [c0, r0, c1, r1], samples: [0], interleave: true });
+  if (rasters.length !== w * h) fail(source, `decoded ${rasters.length} samples, expected ${w * h}`);
+  // Float32 samples at scale 1 are taken over in place; other types are converted.
+  const heights = rasters instanceof Float32Array && verticalScale === 1 ? rasters : new Float32Array(w * h);
+  const mask = new Uint8Array(w * h);
+  for (let k = 0; k < heights.length; k++) {
+    const v = Number(rasters[k]);
+    if (isNoData(v)) {
+      mask[k] = 1;
+      heights[k] = NaN;
+    } else heights[k] = v * verticalScale;
+  }
+
+  let spec: GridSpec;
+  const wx0 = affine.x0 + c0 * affine.dx;
+  const wy0 = affine.y0 - r0 * affine.dy;
+  // Geotransform of the window read (corner of its pixel 0,0), in the source CRS.
+  const geoTransform = [wx0, affine.dx, 0, wy0, 0, -affine.dy] as const;
+  if (modelType === 2) {
+    spec = geographicSpec(source, geoKeys, affine, { w, h, wx0, wy0 }, options);
+  } else {
+    const epsg = Number(geoKeys.ProjectedCSTypeGeoKey);
+    const georeference: GridGeoreference = {
+      model: modelType === 1 ? 'projected' : 'none',
+      geoTransform,
+      ...(Number.isInteger(epsg) && epsg > 0 && epsg < 32767 ? { projectedEpsg: epsg } : {}),
+    };
+    // Projected CRS in feet or kilometres: the local frame is in metres, the georeference keeps file units.
+    const f = modelType === 1 ? unitToMetres(source, 'ProjLinearUnitsGeoKey', geoKeys.ProjLinearUnitsGeoKey) : 1;
+    spec = { width: w, height: h, pixelSizeX_m: affine.dx * f, pixelSizeY_m: affine.dy * f, originEast_m: wx0 * f, originNorth_m: wy0 * f, georeference };
+  }
+  const grid = makeGrid(spec, heights, mask);
+  requireSomeData(grid, source);
+  return grid;
+}
+
+function geographicSpec(
+  source: string,
+  geoKeys: Record<string, unknown>,
+  affine: Affine,
+  win: { w: number; h: number; wx0: number; wy0: number },
+  options: GeoTiffReadOptions,
+) {
+  const epsg = Number(geoKeys.GeographicTypeGeoKey);
+  const semiMajor = Number(geoKeys.GeogSemiMajorAxisGeoKey);
+  if (options.bodyRadius_m !== undefined && !(Number.isFinite(options.bodyRadius_m) && options.bodyRadius_m > 0)) {
+    fail(source, `invalid bodyRadius_m: ${options.bodyRadius_m} (must be a finite number of metres > 0)`);
+  }
+  const radius = options.bodyRadius_m ?? (Number.isFinite(semiMajor) && semiMajor > 0 ? semiMajor : epsg === 4326 ? WGS84_A : NaN);
+  if (!Number.isFinite(radius) || radius <= 0) {
+    fail(source, `is in geographic degrees (GeographicTypeGeoKey ${Number.isFinite(epsg) ? epsg : 'unset'}) with no body radius; pass bodyRadius_m (CLI: --body-radius-m)`);
+  }
+  const latN = win.wy0;
+  const latS = win.wy0 - win.h * affine.dy;
+  const lonW = win.wx0;
+  const lonE = win.wx0 + win.w * affine.dx;
+  if (latN > 90 || latS < -90) fail(source, `latitudes ${latS}…${latN}° are outside ±90°; is the file really geographic?`);
+  const lat0 = options.originLatitude_deg ?? (latN + latS) / 2;
+  const lon0 = options.originLongitude_deg ?? (lonW + lonE) / 2;
+  if (!Number.isFinite(lat0) || Math.abs(lat0) >= 89) {
+    fail(source, `invalid originLatitude_deg: ${lat0} (must be within ±89°; a flat local frame breaks down at the poles — reproject to a polar stereographic DEM)`);
+  }
+  if (!Number.isFinite(lon0)) fail(source, `invalid originLongitude_deg: ${lon0}`);
+  const cos0 = Math.cos(lat0 * DEG);
+  // Flat (equirectangular) local frame: east = R cos φ0 (λ − λ0), north = R (φ − φ0). The grid stays
+  // regular, so meridian convergence is ignored; report the worst east-scale error over the grid.
+  const maxEastScaleError = Math.max(
+    Math.abs(Math.cos(latN * DEG) / cos0 - 1),
+    Math.abs(Math.cos(latS * DEG) / cos0 - 1),
+  );
+  const georeference: GridGeoreference = {
+    model: 'geographic',
+    geoTransform: [win.wx0, affine.dx, 0, win.wy0, 0, -affine.dy],
+    ...(Number.isInteger(epsg) && epsg > 0 && epsg < 32767 ? { geographicEpsg: epsg } : {}),
+    localFrame: { originLatitude_deg: lat0, originLongitude_deg: lon0, bodyRadius_m: radius, maxEastScaleError },
+  };
+  return {
+    width: win.w,
+    height: win.h,
+    pixelSizeX_m: radius * cos0 * affine.dx * DEG,
+    pixelSizeY_m: radius * affine.dy * DEG,
+    originEast_m: radius * cos0 * (lonW - lon0) * DEG,
+    originNorth_m: radius * (latN - lat0) * DEG,
+    georeference,
+  };
+}
