@@ -141,16 +141,18 @@ function runPhase(
   let res: { x: number };
   if (cost(start) <= stopBelow) {
     res = { x: x0 };
-  } else if (kind === 'min-propellant' && useDerivative) {
-    // Envelope-theorem slope at every solved point: a safeguarded secant search on dP/dt_f.
+  } else if (useDerivative) {
+    // Envelope-theorem slope at every solved point: a safeguarded slope search (secant.ts). For the
+    // landing-error problem the cost is the objective in metres (miss plus the tiny propellant tie-break).
+    const L = solver.scales.length;
     const probe = (tf: number): Probe => {
       const r = evalAt(tf);
       if (!isSolved(r.status)) return { feasible: false, f: Infinity, g: NaN };
-      return { feasible: true, f: r.propellant, g: solver.timeDerivative(r, target, ignition) };
+      if (kind === 'min-propellant') return { feasible: true, f: r.propellant, g: solver.timeDerivative(r, target, ignition) };
+      return { feasible: true, f: r.solution.info.primalObjective * L, g: solver.objectiveSlope(r, target, ignition) * L, stop: r.miss <= stopBelow };
     };
     const step = Math.max(4 * tol, LOCAL_STEP_FRACTION * x0);
-    const p0: Probe = { feasible: true, f: start.propellant, g: solver.timeDerivative(start, target, ignition) };
-    res = secantMinimise(probe, x0, p0, lo, hi, tol, step, Math.max(0, budget()), propellantTolerance);
+    res = secantMinimise(probe, x0, probe(x0), lo, hi, tol, step, Math.max(0, budget()), kind === 'min-propellant' ? propellantTolerance : 0);
   } else {
     // Local bracket around the (often warm-started) feasible point, then Brent inside it.
     const step = Math.max(4 * tol, LOCAL_STEP_FRACTION * x0);

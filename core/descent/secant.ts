@@ -14,6 +14,8 @@ export interface Probe {
   feasible: boolean;
   f: number;
   g: number;
+  /** Good enough: stop the search here (e.g. a zero landing error). */
+  stop?: boolean;
 }
 
 export interface SecantResult {
@@ -28,17 +30,19 @@ export function secantMinimise(
 ): SecantResult {
   let best = { x: x0, f: p0.f };
   let evaluations = 0;
+  let stopped = false;
   const look = (x: number): Probe => {
     const p = probe(x);
     evaluations++;
-    if (p.feasible && p.f < best.f) best = { x, f: p.f };
+    if (p.feasible && (p.f < best.f || p.stop)) best = { x, f: p.f };
+    if (p.stop) stopped = true;
     return p;
   };
   // a: feasible with g < 0 (minimiser to its right); b: feasible with g > 0, or infeasible, or the bound.
   let a!: number, ga!: number, b!: number, gb!: number, fa!: number, fb!: number;
   let bFeasible!: boolean;
   let aFeasible!: boolean;
-  if (p0.g === 0) return { x: x0, f: p0.f, evaluations };
+  if (p0.g === 0 || p0.stop) return { x: x0, f: p0.f, evaluations };
   const dir = p0.g < 0 ? 1 : -1;
   // Expansion: walk downhill until the slope changes sign or feasibility ends.
   let x = x0;
@@ -52,6 +56,7 @@ export function secantMinimise(
     if ((nx - edge) * dir >= 0) nx = edge;
     if (nx === x) return { ...best, evaluations };
     const p = look(nx);
+    if (stopped) return { ...best, evaluations };
     if (!p.feasible || p.g * dir > 0) {
       // Bracketed between x (downhill slope) and nx.
       if (dir > 0) { a = x; ga = g; fa = fx; aFeasible = true; b = nx; gb = p.g; fb = p.f; bFeasible = p.feasible; }
@@ -89,6 +94,7 @@ export function secantMinimise(
       nx = 0.5 * (a + b);
     }
     const p = look(nx);
+    if (stopped) break;
     if (!p.feasible) {
       if (!aFeasible) a = nx;
       else if (!bFeasible) b = nx;

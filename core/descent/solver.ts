@@ -83,14 +83,13 @@ export class DescentSolver {
   }
 
   /**
-   * dPropellant/dt_f at a solved minimum-propellant point, kg/s, by the envelope theorem: with
-   * Aᵀy + Gᵀz + c = 0 at the optimum, dJ/dt_f = yᵀ(A′x − b′) + zᵀ(G′x − h′) (J = −z_N), where the data
-   * derivatives A′, b′, G′, h′ come from central differences of the problem refresh (no extra solve).
-   * dP/dt_f = e^{z_N} dJ/dt_f. NaN unless `r` is a solved minimum-propellant result.
+   * dJ/dt_f at a solved point, J the problem's objective in solver units, by the envelope theorem: with
+   * Aᵀy + Gᵀz + c = 0 at the optimum, dJ/dt_f = ∂L/∂t_f = yᵀ(A′x − b′) + zᵀ(G′x − h′), where the data
+   * derivatives come from central differences of the problem refresh (no extra solve). NaN unless solved.
    */
-  timeDerivative(r: FixedTimeSolve, target: Vec3, ignition: IgnitionState): number {
-    if (r.kind !== 'min-propellant' || !(r.status === 'solved' || r.status === 'almost-solved')) return NaN;
-    const e = this.programs.get('min-propellant')!;
+  objectiveSlope(r: FixedTimeSolve, target: Vec3, ignition: IgnitionState): number {
+    if (!(r.status === 'solved' || r.status === 'almost-solved')) return NaN;
+    const e = this.programs.get(r.kind)!;
     const P = e.program.problem;
     const eps = 1e-5 * r.timeOfFlight;
     const { x, y, z } = r.solution;
@@ -109,7 +108,15 @@ export class DescentSolver {
       }
       return sum;
     };
-    const dJ = (lagrangianTerms(r.timeOfFlight + eps) - lagrangianTerms(r.timeOfFlight - eps)) / (2 * eps);
-    return (ignition.mass - r.propellant) * dJ;
+    return (lagrangianTerms(r.timeOfFlight + eps) - lagrangianTerms(r.timeOfFlight - eps)) / (2 * eps);
+  }
+
+  /**
+   * dPropellant/dt_f at a solved minimum-propellant point, kg/s: J = −z_N, so dP/dt_f = e^{z_N} dJ/dt_f.
+   * NaN unless `r` is a solved minimum-propellant result.
+   */
+  timeDerivative(r: FixedTimeSolve, target: Vec3, ignition: IgnitionState): number {
+    if (r.kind !== 'min-propellant') return NaN;
+    return (ignition.mass - r.propellant) * this.objectiveSlope(r, target, ignition);
   }
 }

@@ -67,6 +67,24 @@ describe('envelope-theorem slope of the propellant in t_f', () => {
   });
 });
 
+describe('envelope-theorem slope of the landing-error objective in t_f', () => {
+  it('matches a central finite difference for an unreachable target', () => {
+    const s = new DescentSolver(d.setup, landreachConicBackend(), d.ignition);
+    s.warmStart = false;
+    const target: [number, number, number] = [12000, 0, 0];
+    for (const tf of [100, 120]) {
+      const r = s.solveFixed('min-landing-error', tf, target, d.ignition);
+      const g = s.objectiveSlope(r, target, d.ignition);
+      // Step: solver noise in J (~1e-7 here) over 2h must stay well below the tolerance, and the
+      // truncation error h² J‴/6 too; h = 0.01 s balances both for this smooth objective.
+      const h = 1e-2;
+      const J = (t: number) => s.solveFixed('min-landing-error', t, target, d.ignition).solution.info.primalObjective;
+      const fd = (J(tf + h) - J(tf - h)) / (2 * h);
+      expect(Math.abs(g - fd)).toBeLessThan(1e-3 * Math.abs(fd) + 1e-6);
+    }
+  });
+});
+
 describe('secantMinimise', () => {
   it('minimises a smooth cost next to an infeasible region using slopes', () => {
     // f(x) = e^{3/(x−1)} + x on x > 1.2 (infeasible below): f′ = 1 − 3 e^{3/(x−1)}/(x−1)²; root by bisection here.
