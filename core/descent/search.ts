@@ -35,7 +35,8 @@ export interface SearchOptions {
   /** Probe times as multiples of the bracket's lower bound, tried when the guess is infeasible. */
   probes?: readonly number[];
   /** How many of the start times the minimum-propellant problem tries before the minimum-landing-error
-   * search takes over to locate the feasible window (or prove the target unreachable). Default 3. */
+   * search takes over to locate the feasible window (or prove the target unreachable). Default 1 with a
+   * usable warm start (the guess itself), else 3. */
   propellantProbes?: number;
   /** Cap on solves per target (all phases). Default 60. */
   maxSolves?: number;
@@ -192,7 +193,7 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
 
   const useDerivative = options.useDerivative ?? true;
   const propTol = options.propellantTolerance ?? 0.01;
-  const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts.slice(0, options.propellantProbes ?? 3), tol, budget, [], -Infinity, useDerivative, propTol);
+  const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts.slice(0, options.propellantProbes ?? (starts[0] === options.tfGuess ? 1 : 3)), tol, budget, [], -Infinity, useDerivative, propTol);
   if (fuel.best) return finish(fuel.best, fuel, { status: 'solved' });
 
   const missTolerance = 1e-6 * solver.scales.length + 1e-3;
