@@ -80,10 +80,10 @@ export interface DescentResult {
 
 /**
  * Probe times as multiples of the bracket's lower bound, in the order tried (capped at the upper bound).
- * A heuristic: minimum-propellant times of flight seen in our checks sit at about 1.6–1.9 × the
- * lower bound; the list then widens outwards.
+ * A heuristic: the minimum-propellant times of flight in our checks sit at 1.7–2.6 × the lower bound
+ * (Açıkmeşe 2007 example 1.7–1.85, demo study 2.3, our Moon scenarios 2.5–2.6); the list then widens.
  */
-export const DEFAULT_PROBES: readonly number[] = [1.75, 1.55, 1.95, 1.4, 2.2, 1.25, 2.6, 1.1, 3.2, 4, 5.5, 8];
+export const DEFAULT_PROBES: readonly number[] = [2.3, 1.9, 2.7, 1.6, 3.2, 1.35, 4, 1.15, 5.5, 8];
 
 interface Phase {
   best: FixedTimeSolve | null;
