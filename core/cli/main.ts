@@ -1,9 +1,8 @@
 import type { CliCommand, CliIo } from './command.ts';
 import { UsageError } from './command.ts';
 import { COMMANDS } from './commands/index.ts';
+import { CAUTION } from '../study/provenance.ts';
 
-const CAUTION =
-  'Caution: preliminary design and trade studies only; not flight software. Verify with high-fidelity simulation and your organisation\'s assurance process.';
 
 function helpText(): string {
   const width = Math.max(...COMMANDS.map((c) => c.name.length));

@@ -12,6 +12,8 @@ import { columnOrder, rowOrder, type TargetGrid } from './grid.ts';
 export type TargetEvaluator = (east_m: number, north_m: number, tfGuess_s: number | undefined) => TargetOutcome;
 
 export interface RowJob {
+  /** What the worker needs to build its evaluator (plain, structured-clonable data; same for every row). */
+  context: unknown;
   row: number;
   north_m: number;
   east_m: Float64Array;
@@ -47,6 +49,8 @@ export interface FootprintProgress {
 }
 
 export interface FootprintRunOptions {
+  /** Passed to every row job (see RowJob.context). */
+  context?: unknown;
   signal?: AbortSignal;
   /** Called for each finished row (already written into the field). */
   onRow?: (row: FieldRow, progress: FootprintProgress) => void;
@@ -89,7 +93,7 @@ export async function computeFootprint(
       if (parent >= 0 && finishedRows.has(parent)) {
         tfHint = field.timeOfFlight_s.slice(parent * grid.nx, (parent + 1) * grid.nx);
       }
-      return { job: { row, north_m: grid.north[row], east_m: grid.east.slice(), tfHint } };
+      return { job: { context: options.context ?? null, row, north_m: grid.north[row], east_m: grid.east.slice(), tfHint } };
     },
     done: () => dispatched >= rows.length,
     onResult: (r) => {
@@ -108,10 +112,25 @@ export async function computeFootprint(
   return { field, cancelled: summary.cancelled, progress };
 }
 
-/** Worker-side handler for the pool protocol: solve the row, transfer its buffers. */
-export function rowJobHandler(evaluate: TargetEvaluator) {
+/**
+ * Worker-side handler for the pool protocol: solve the row, transfer its buffers. `evaluate` is either an
+ * evaluator or a factory from the job's context (called once per distinct context, then kept).
+ */
+export function rowJobHandler(evaluate: TargetEvaluator | { fromContext: (context: unknown) => TargetEvaluator }) {
+  let cachedKey: string | null = null;
+  let cached: TargetEvaluator | null = null;
   return (job: RowJob) => {
-    const result = solveRow(job, evaluate);
+    let ev: TargetEvaluator;
+    if (typeof evaluate === 'function') ev = evaluate;
+    else {
+      const key = JSON.stringify(job.context);
+      if (key !== cachedKey || !cached) {
+        cached = evaluate.fromContext(job.context);
+        cachedKey = key;
+      }
+      ev = cached;
+    }
+    const result = solveRow(job, ev);
     return { result, transfer: rowBuffers(result) };
   };
 }

@@ -6,6 +6,7 @@ import { writeFileSync } from 'node:fs';
 import os from 'node:os';
 import { benchConic } from './conic.bench.ts';
 import { benchDescent } from './descent.bench.ts';
+import { benchFootprint } from './footprint.bench.ts';
 import { benchTerrain } from './terrain.bench.ts';
 import { formatFigure, type BenchResult } from './util.ts';
 
@@ -17,6 +18,10 @@ const SUITES: Record<string, { target: string; run: () => Promise<BenchResult[]>
   descent: {
     target: 'target: one free-final-time target solve < 20 ms at N = 50',
     run: async () => [{ name: 'descent (demo study)', figures: await benchDescent() }],
+  },
+  footprint: {
+    target: 'target: 41 × 41 demo footprint < 10 s with 2 workers',
+    run: () => benchFootprint([41]),
   },
   terrain: {
     target: 'target: hazard map of a 2048 × 2048 DEM < 2 s and < 200 MB',

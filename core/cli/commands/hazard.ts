@@ -7,12 +7,19 @@ import { resolve, join, basename } from 'node:path';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import type { ElevationGrid, HazardLimits, HazardMap } from '../../terrain/index.ts';
+import { CAUTION } from '../../study/provenance.ts';
+import os from 'node:os';
+import type { Study } from '../../study/index.ts';
+import { readStudy } from '../files.ts';
+import { FOOTPRINT_NODES, runStudyFootprint } from '../footprintRun.ts';
+import { TARGET } from '../../footprint/field.ts';
+import { parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
 import {
   DEFAULT_HAZARD_LIMITS, HAZARD_MARGIN, HAZARD_ROUGHNESS, HAZARD_SLOPE, HAZARD_UNKNOWN, TerrainInputError,
   gridGeometry, gridRasterGeoreference, hazardMap, readGeoTiff, readJsonGrid, readPngHeightmap, toDegrees, validCount, writeGeoTiff,
+  rankSites, resampleReachability, safeReachableSet, type GridSpec,
 } from '../../terrain/index.ts';
 
-const CAUTION = 'Preliminary design and trade studies only; not flight software. Verify with high-fidelity simulation and your organisation\'s assurance process.';
 
 const USAGE = `Usage: landreach hazard DEM --out DIR [options]
 
@@ -42,7 +49,15 @@ Options:
   --height-scale-m K        PNG heightmaps: metres per sample step                               [PNG: required]
   --height-offset-m Z       PNG heightmaps: height of sample 0, m     (default 0)
   --overwrite               replace output files that already exist
-  --study STUDY.json        safe reachable set and ranked sites (needs the footprint engine; not yet available)
+  --study STUDY.json        also the safe reachable set and ranked landing sites: the study's footprint is
+                            computed over the DEM (reachable = minimum propellant within usable − reserve),
+                            laid onto the DEM grid and intersected with the safe cells; writes
+                            safe-reachable.tif and adds "safeReachable" and "sites" to the summary
+  --target-east-m E, --target-north-m N
+                            with --study: DEM coordinates of the study's nominal target (default: DEM centre)
+  --targets NXxNY           with --study: footprint targets over the DEM (default 21x21)
+  --workers N               with --study: worker threads (default: the number of cores, at most 8)
+  --sites K                 with --study: how many ranked sites (default 10)
 
 ${CAUTION}`;
 
@@ -51,6 +66,7 @@ type Flags = Record<string, string | true>;
 const VALUE_FLAGS = new Set([
   'out', 'max-slope-deg', 'max-roughness-m', 'lander-diameter-m', 'margin-m', 'roughness', 'window',
   'body-radius-m', 'origin-lat-deg', 'origin-lon-deg', 'vertical-scale', 'pixel-size-m', 'height-scale-m', 'height-offset-m', 'study',
+  'target-east-m', 'target-north-m', 'targets', 'workers', 'sites',
 ]);
 const BOOLEAN_FLAGS = new Set(['overwrite']);
 
@@ -181,8 +197,11 @@ async function run(args: string[], io: CliIo): Promise<number> {
   const { positional, flags } = parseArgs(args);
   if (positional.length !== 1) throw new UsageError(`expected one DEM file, got ${positional.length} (see landreach hazard --help)`);
   if (typeof flags.out !== 'string') throw new UsageError('--out DIR is required');
-  if (flags.study !== undefined) {
-    throw new UsageError('--study needs the footprint engine, which this build does not have yet; run without --study for the hazard map alone');
+  const study = typeof flags.study === 'string' ? readStudy(flags.study) : null;
+  if (!study) {
+    for (const f of ['target-east-m', 'target-north-m', 'targets', 'workers', 'sites']) {
+      if (flags[f] !== undefined) throw new UsageError(`--${f} only applies with --study STUDY.json`);
+    }
   }
   const demPath = resolve(positional[0]);
   const outDir = resolve(flags.out);
@@ -201,8 +220,9 @@ async function run(args: string[], io: CliIo): Promise<number> {
     roughness: join(outDir, 'roughness.tif'),
     hazard: join(outDir, 'hazard.tif'),
     summary: join(outDir, 'hazard-summary.json'),
+    safeReachable: join(outDir, 'safe-reachable.tif'),
   };
-  const outputs = Object.values(files);
+  const outputs = Object.values(files).filter((f) => study || f !== files.safeReachable);
   if (outputs.includes(demPath)) throw new UsageError(`--out would overwrite the input DEM '${demPath}'; choose another folder`);
   if (!flags.overwrite) {
     for (const p of outputs) if (await exists(p)) throw new UsageError(`'${p}' already exists; pass --overwrite to replace it or choose another --out`);
@@ -219,7 +239,15 @@ async function run(args: string[], io: CliIo): Promise<number> {
     await writeAtomic(files.footprintSlope, writeGeoTiff({ ...common, data: toDegrees(map.footprintSlope_rad), noData: NaN, description: `footprint-plane slope over ${map.limits.landerDiameter_m} m, degrees` }));
     await writeAtomic(files.roughness, writeGeoTiff({ ...common, data: map.roughness_m, noData: NaN, description: `footprint roughness (${map.limits.roughnessMeasure}), metres` }));
     await writeAtomic(files.hazard, writeGeoTiff({ ...common, data: map.flags, description: 'hazard flags: 0 safe, 1 slope, 2 roughness, 4 unknown, 8 margin' }));
-    const summary = hazardSummary(demPath, format, grid, map, limits);
+    const summary: Record<string, unknown> = hazardSummary(demPath, format, grid, map, limits);
+    if (study) {
+      const reach = await studyReach(study, grid, map, flags, io);
+      await writeAtomic(files.safeReachable, writeGeoTiff({ ...common, data: reach.safe.mask, description: 'safe and reachable (1) with the reserve kept' }));
+      summary.safeReachable = reach.summary;
+      summary.sites = reach.sites;
+      (summary.outputs as Record<string, string>).safeReachable = 'safe-reachable.tif';
+      io.stdout(`safe and reachable: ${(reach.safe.area_m2 / 1e6).toFixed(4)} km² (${reach.safe.cells} cells); best site ${reach.sites[0] ? `${reach.sites[0].east_m.toFixed(0)} m east, ${reach.sites[0].north_m.toFixed(0)} m north, ${reach.sites[0].propellant_kg.toFixed(1)} kg` : 'none'}\n`);
+    }
     await writeAtomic(files.summary, JSON.stringify(summary, null, 2) + '\n');
     io.stdout(`safe fraction ${(100 * map.safeFraction).toFixed(2)} % (${map.safeCells} of ${grid.width * grid.height} cells); wrote ${outDir}\n`);
     if (!map.roughnessAssessed) io.stderr('note: the DEM is coarser than half the lander diameter, so roughness was not assessed\n');
@@ -228,6 +256,89 @@ async function run(args: string[], io: CliIo): Promise<number> {
     if (err instanceof TerrainInputError) throw new UsageError(err.message);
     throw err;
   }
+}
+
+/**
+ * The study's footprint over the DEM: targets on a grid covering the DEM (in the study's frame, the nominal
+ * target at the given DEM coordinates), reachable = minimum propellant ≤ usable − reserve, laid onto the
+ * DEM grid (conservatively), intersected with the safe cells, and the best sites ranked.
+ */
+async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, flags: Flags, io: CliIo) {
+  const geom = gridGeometry(grid);
+  const centreE = grid.originEast_m + (grid.width * grid.pixelSizeX_m) / 2;
+  const centreN = grid.originNorth_m - (grid.height * grid.pixelSizeY_m) / 2;
+  const tE = flags['target-east-m'] === undefined ? centreE : num(flags, 'target-east-m')!;
+  const tN = flags['target-north-m'] === undefined ? centreN : num(flags, 'target-north-m')!;
+  let nx = 21;
+  let ny = 21;
+  if (typeof flags.targets === 'string') {
+    try {
+      [nx, ny] = parseGridSize(flags.targets, '--targets');
+    } catch (err) {
+      throw new UsageError((err as Error).message);
+    }
+  }
+  const workers = flags.workers === undefined ? Math.min(8, Math.max(1, os.availableParallelism?.() ?? os.cpus().length)) : num(flags, 'workers')!;
+  if (!Number.isInteger(workers) || workers < 1 || workers > 64) throw new UsageError(`--workers ${workers}: must be a whole number from 1 to 64`);
+  const count = flags.sites === undefined ? 10 : num(flags, 'sites')!;
+  // Target centres span the DEM's cell centres, in the study frame (east, north of the nominal target).
+  const west = grid.originEast_m + grid.pixelSizeX_m / 2 - tE;
+  const east = grid.originEast_m + (grid.width - 0.5) * grid.pixelSizeX_m - tE;
+  const south = grid.originNorth_m - (grid.height - 0.5) * grid.pixelSizeY_m - tN;
+  const north = grid.originNorth_m - grid.pixelSizeY_m / 2 - tN;
+  const targets: TargetGrid = {
+    nx,
+    ny,
+    east: Float64Array.from({ length: nx }, (_, i) => west + ((east - west) * i) / (nx - 1)),
+    north: Float64Array.from({ length: ny }, (_, j) => south + ((north - south) * j) / (ny - 1)),
+    spacingEast_m: (east - west) / (nx - 1),
+    spacingNorth_m: (north - south) / (ny - 1),
+  };
+  const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
+  const budget = usable - study.vehicle.propellantReserve_kg;
+  io.stderr(`footprint of '${study.name}' over the DEM: ${nx} × ${ny} targets (${(geom.width * geom.pixelSizeX_m).toFixed(0)} × ${(geom.height * geom.pixelSizeY_m).toFixed(0)} m)\n`);
+  const run = await runStudyFootprint(study, targets, { nodes: FOOTPRINT_NODES, workers }, io);
+  // The footprint's rows run south → north; the terrain's grid rows north → south.
+  const n = nx * ny;
+  const reachable = new Uint8Array(n);
+  const propellant = new Float32Array(n).fill(NaN);
+  for (let j = 0; j < ny; j++) {
+    for (let i = 0; i < nx; i++) {
+      const src = j * nx + i;
+      const dst = (ny - 1 - j) * nx + i;
+      const ok = run.field.status[src] === TARGET.reachable && run.field.propellant_kg[src] <= budget;
+      reachable[dst] = ok ? 1 : 0;
+      if (ok) propellant[dst] = run.field.propellant_kg[src];
+    }
+  }
+  const spec: GridSpec = {
+    width: nx,
+    height: ny,
+    pixelSizeX_m: targets.spacingEast_m,
+    pixelSizeY_m: targets.spacingNorth_m,
+    originEast_m: tE + west - targets.spacingEast_m / 2,
+    originNorth_m: tN + north + targets.spacingNorth_m / 2,
+  };
+  const onDem = resampleReachability({ width: nx, height: ny, reachable, propellant_kg: propellant }, spec, grid);
+  const safe = safeReachableSet(map, onDem);
+  const sites = rankSites(grid, map, onDem, { count }).map((site) => ({ ...site, east_m: site.east_m - tE, north_m: site.north_m - tN, frame: 'study (m east, north of the nominal target)' }));
+  return {
+    safe,
+    sites,
+    summary: {
+      study: study.name,
+      budget_kg: budget,
+      reserve_kg: study.vehicle.propellantReserve_kg,
+      nominalTargetOnDem_m: [tE, tN],
+      footprintTargets: [nx, ny],
+      footprintNodes: FOOTPRINT_NODES,
+      footprintCancelled: run.cancelled,
+      reachableCells: safe.reachableCells,
+      safeReachableCells: safe.cells,
+      safeReachableArea_m2: safe.area_m2,
+      note: "Targets are solved on the nominal target's height plane; local relief changes the propellant little at these altitudes, but is not modelled here.",
+    },
+  };
 }
 
 export const hazardCommand: CliCommand = {

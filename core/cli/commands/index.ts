@@ -1,6 +1,7 @@
 import type { CliCommand } from '../command.ts';
+import { footprintCommand } from './footprint.ts';
 import { hazardCommand } from './hazard.ts';
 import { trajectoryCommand } from './trajectory.ts';
 
 /** Every sub-command, in the order `landreach --help` lists them. Add new commands here. */
-export const COMMANDS: readonly CliCommand[] = [trajectoryCommand, hazardCommand];
+export const COMMANDS: readonly CliCommand[] = [trajectoryCommand, footprintCommand, hazardCommand];

@@ -4,10 +4,10 @@
  * Minimum-propellant trajectory to one target: prints a short summary and writes the full time series.
  * Output files are written whole or not at all (temporary file + rename).
  */
-import { readFileSync, renameSync, unlinkSync, writeFileSync } from 'node:fs';
+import { readStudy, writeFilesAtomically } from '../files.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
-import { parseStudyText, StudyError, studyToDescent } from '../../study/index.ts';
+import { studyToDescent } from '../../study/index.ts';
 import type { Study } from '../../study/index.ts';
 import { DescentSolver } from '../../descent/solver.ts';
 import { searchFreeFinalTime } from '../../descent/search.ts';
@@ -22,9 +22,8 @@ export interface BaselineFigures {
   gravity_turn: { propellant_kg: number | null; tf_s: number | null; landing_m: number[]; touchdown_speed_mps: number | null };
 }
 import type { Vec3 } from '../../descent/constants.ts';
+import { CAUTION } from '../../study/provenance.ts';
 
-export const CAUTION =
-  'Preliminary design and trade studies only; not flight software. Verify with high-fidelity simulation and your organisation\'s assurance process.';
 
 const USAGE = `Usage: landreach trajectory STUDY.json [options]
 
@@ -78,43 +77,6 @@ function parseArgs(args: string[]): Options {
   }
   if (!o.study) throw new UsageError('missing STUDY.json (usage: landreach trajectory STUDY.json [--target x,y] [--json out.json] [--csv out.csv])');
   return o;
-}
-
-function readStudy(path: string): Study {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (err) {
-    throw new UsageError(`cannot read study file '${path}': ${(err as NodeJS.ErrnoException).code ?? (err as Error).message} (check the path)`);
-  }
-  try {
-    return parseStudyText(text, path);
-  } catch (err) {
-    if (err instanceof StudyError) throw new UsageError(err.message);
-    throw err;
-  }
-}
-
-/** Writes all files, each through a temporary file and a rename, so none is ever half-written. */
-export function writeFilesAtomically(files: { path: string; text: string }[]): void {
-  const temps: { tmp: string; path: string }[] = [];
-  try {
-    for (const f of files) {
-      const tmp = `${f.path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`;
-      writeFileSync(tmp, f.text, { flag: 'wx' });
-      temps.push({ tmp, path: f.path });
-    }
-    for (const t of temps) renameSync(t.tmp, t.path);
-  } catch (err) {
-    for (const t of temps) {
-      try {
-        unlinkSync(t.tmp);
-      } catch {
-        // already renamed or never written
-      }
-    }
-    throw new UsageError(`cannot write output: ${(err as Error).message} (check the folder exists and is writable)`);
-  }
 }
 
 const round = (v: number, digits = 6) => (Number.isFinite(v) ? Number(v.toPrecision(digits + 3)) : null);

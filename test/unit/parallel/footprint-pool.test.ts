@@ -30,7 +30,7 @@ describe('footprint engine', () => {
   });
 
   it('warm-starts every reachable target but the first from a solved neighbour', () => {
-    const job: RowJob = { row: 10, north_m: 0, east_m: grid.east.slice(), tfHint: null };
+    const job: RowJob = { context: null, row: 10, north_m: 0, east_m: grid.east.slice(), tfHint: null };
     const row = solveRow(job, discEvaluator(700));
     const cold = Array.from(row.solves).filter((s, i) => row.status[i] === TARGET.reachable && s === 10).length;
     expect(cold).toBe(1);

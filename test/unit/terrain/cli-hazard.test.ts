@@ -49,7 +49,7 @@ describe('landreach hazard', () => {
     expect(await run(demPath, '--out', join(dir, 'b'), '--max-slope-deg', 'steep')).toMatchObject({ code: 2, err: expect.stringMatching(/--max-slope-deg: 'steep' is not a number/) });
     expect(await run(demPath, '--out', join(dir, 'b'), '--max-slope-deg', '120')).toMatchObject({ code: 2, err: expect.stringMatching(/invalid maxSlope_deg: 120/) });
     expect(await run(demPath)).toMatchObject({ code: 2, err: expect.stringMatching(/--out DIR is required/) });
-    expect(await run(demPath, '--out', join(dir, 'b'), '--study', 's.json')).toMatchObject({ code: 2, err: expect.stringMatching(/footprint engine/) });
+    expect(await run(demPath, '--out', join(dir, 'b'), '--study', 's.json')).toMatchObject({ code: 2, err: expect.stringMatching(/cannot read study file 's.json'/) });
     expect(await run(join(dir, 'missing.tif'), '--out', join(dir, 'b'))).toMatchObject({ code: 2, err: expect.stringMatching(/cannot read DEM .*ENOENT/) });
     expect(existsSync(join(dir, 'b', 'slope.tif'))).toBe(false);
   });

@@ -1,0 +1,218 @@
+/**
+ * `landreach footprint STUDY.json --out DIR [--grid 41x41] [--extent-m 1500] [--reserve-kg R] [--workers N]
+ *  [--nodes N] [--levels a,b,…]`
+ *
+ * The divert footprint: minimum propellant (free final time) for every target of a grid around the
+ * nominal target, in worker threads, with contours, the reserve boundary, the guaranteed divert radius and
+ * report files. Ctrl-C stops the run, writes what finished and says so.
+ */
+import { existsSync, mkdirSync, statSync } from 'node:fs';
+import os from 'node:os';
+import { join } from 'node:path';
+import type { CliCommand, CliIo } from '../command.ts';
+import { UsageError } from '../command.ts';
+import { readStudy, writeFilesAtomically } from '../files.ts';
+import type { Study } from '../../study/index.ts';
+import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
+import { footprintCsv, footprintGeoJson, footprintReport, type FootprintSummary } from '../../study/footprintExport.ts';
+import { footprintSvg, niceStep } from '../../study/footprintSvg.ts';
+import { sampleColormap, VIRIDIS } from '../../study/colormap.ts';
+import { runStudyFootprint } from '../footprintRun.ts';
+import { guaranteedDivertRadius, propellantRegions, regionBounds } from '../../footprint/contours.ts';
+import { countByStatus, TARGET, type FootprintField } from '../../footprint/field.ts';
+import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
+
+import { FOOTPRINT_NODES } from '../footprintRun.ts';
+
+const USAGE = `Usage: landreach footprint STUDY.json --out DIR [options]
+
+Computes the divert footprint: for every target of a grid around the nominal target, the minimum
+propellant to land there (free final time), or a certificate that it cannot be reached.
+
+Options:
+  --out DIR          folder for the result files (created if missing)
+  --grid NXxNY       targets east × north (default 41x41)
+  --extent-m M       half-width of the grid, m (default 1500)
+  --reserve-kg R     propellant to keep in reserve, kg (default: the study's vehicle.propellantReserve_kg)
+  --workers N        worker threads (default: the number of cores, at most 8)
+  --nodes N          time nodes per trajectory (default ${FOOTPRINT_NODES})
+  --levels A,B,...   propellant contour levels, kg (default: six round levels up to the budget)
+
+Writes footprint.json (versioned report), footprint.csv (one row per target), footprint.geojson
+(contours and the reserve boundary, RFC 7946) and footprint.svg (a map for reports).
+Exit codes: 0 done (or stopped with Ctrl-C after writing what finished), 1 computation failed, 2 bad input.
+
+${CAUTION}`;
+
+interface Options {
+  study: string;
+  out: string;
+  nx: number;
+  ny: number;
+  extent: number;
+  reserve: number | null;
+  workers: number;
+  nodes: number;
+  levels: number[] | null;
+}
+
+function positive(flag: string, text: string, integer: boolean, max: number): number {
+  const v = Number(text);
+  if (!Number.isFinite(v) || v <= 0 || (integer && !Number.isInteger(v)) || v > max) {
+    throw new UsageError(`${flag} ${text}: must be a ${integer ? 'whole number' : 'number'} from ${integer ? 1 : 'above 0'} to ${max}`);
+  }
+  return v;
+}
+
+function parseArgs(args: string[]): Options {
+  const o: Options = {
+    study: '',
+    out: '',
+    nx: 41,
+    ny: 41,
+    extent: 1500,
+    reserve: null,
+    workers: Math.min(8, Math.max(1, os.availableParallelism?.() ?? os.cpus().length)),
+    nodes: FOOTPRINT_NODES,
+    levels: null,
+  };
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i];
+    const value = () => {
+      const v = args[++i];
+      if (v === undefined || v.startsWith('--')) throw new UsageError(`${a} needs a value (see landreach footprint --help)`);
+      return v;
+    };
+    try {
+      if (a === '--out') o.out = value();
+      else if (a === '--grid') [o.nx, o.ny] = parseGridSize(value());
+      else if (a === '--extent-m') o.extent = positive(a, value(), false, 1e6);
+      else if (a === '--reserve-kg') {
+        const t = value();
+        const v = Number(t);
+        if (!Number.isFinite(v) || v < 0) throw new UsageError(`--reserve-kg ${t}: must be zero or a positive mass in kg`);
+        o.reserve = v;
+      } else if (a === '--workers') o.workers = positive(a, value(), true, 64);
+      else if (a === '--nodes') o.nodes = Math.max(5, positive(a, value(), true, 2000));
+      else if (a === '--levels') {
+        const t = value();
+        const v = t.split(',').map((x) => Number(x.trim()));
+        if (!v.length || !v.every((x) => Number.isFinite(x) && x > 0)) throw new UsageError(`--levels ${t}: must be positive masses in kg separated by commas, e.g. 150,200,250`);
+        o.levels = v.sort((x, y) => x - y);
+      } else if (a.startsWith('--')) throw new UsageError(`unknown option '${a}' (see landreach footprint --help)`);
+      else if (!o.study) o.study = a;
+      else throw new UsageError(`unexpected argument '${a}': give one study file`);
+    } catch (err) {
+      if (err instanceof RangeError) throw new UsageError(err.message);
+      throw err;
+    }
+  }
+  if (!o.study) throw new UsageError('missing STUDY.json (usage: landreach footprint STUDY.json --out DIR)');
+  if (!o.out) throw new UsageError('missing --out DIR (the folder for footprint.json, .csv, .geojson and .svg)');
+  if (o.nodes < 5) throw new UsageError(`--nodes ${o.nodes}: must be at least 5`);
+  return o;
+}
+
+/** Six round contour levels from the cheapest target up to the budget. */
+export function defaultLevels(field: FootprintField, budget: number): number[] {
+  let min = Infinity;
+  for (let k = 0; k < field.status.length; k++) if (field.status[k] === TARGET.reachable) min = Math.min(min, field.propellant_kg[k]);
+  if (!Number.isFinite(min) || min >= budget) return [budget];
+  const step = niceStep(budget - min, 6);
+  const levels: number[] = [];
+  for (let v = Math.ceil(min / step) * step; v < budget - 1e-9; v += step) levels.push(v);
+  levels.push(budget);
+  return levels;
+}
+
+export const footprintCommand: CliCommand = {
+  name: 'footprint',
+  summary: 'divert footprint over a grid of targets: propellant map, contours, reserve boundary, report files',
+  usage: USAGE,
+  async run(args: string[], io: CliIo): Promise<number> {
+    const o = parseArgs(args);
+    const study: Study = readStudy(o.study);
+    const reserve = o.reserve ?? study.vehicle.propellantReserve_kg;
+    const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
+    if (reserve >= usable) throw new UsageError(`--reserve-kg ${reserve}: must be below the usable propellant, ${usable} kg (wet minus dry mass)`);
+    if (existsSync(o.out) && !statSync(o.out).isDirectory()) throw new UsageError(`--out ${o.out}: exists and is not a folder`);
+    mkdirSync(o.out, { recursive: true });
+    const budget = usable - reserve;
+    const grid = makeTargetGrid({ halfWidthEast_m: o.extent, halfWidthNorth_m: o.extent, nx: o.nx, ny: o.ny });
+    const inputs = { study, grid: { nx: o.nx, ny: o.ny, extent_m: o.extent }, nodes: o.nodes, reserve_kg: reserve };
+    const hash = await inputsHash(inputs);
+    io.stderr(`footprint of '${study.name}': ${o.nx} × ${o.ny} targets, ±${o.extent} m, N = ${o.nodes}, ${o.workers} worker(s)\n`);
+    const run = await runStudyFootprint(study, grid, { nodes: o.nodes, workers: o.workers }, io);
+    if (io.interactive) io.stderr('\n');
+    const field = run.field;
+    const counts = countByStatus(field);
+    const levels = o.levels ?? defaultLevels(field, budget);
+    const bands = propellantRegions(field, levels);
+    const [reachable] = propellantRegions(field, [budget]);
+    const radius = guaranteedDivertRadius(reachable.geometry, 0, 0, regionBounds(field));
+    let minP = Infinity;
+    let maxP = -Infinity;
+    let solves = 0;
+    for (let k = 0; k < field.status.length; k++) {
+      solves += field.solves[k];
+      if (field.status[k] !== TARGET.reachable) continue;
+      minP = Math.min(minP, field.propellant_kg[k]);
+      maxP = Math.max(maxP, field.propellant_kg[k]);
+    }
+    const summary: FootprintSummary = {
+      targets: o.nx * o.ny,
+      ...counts,
+      usablePropellant_kg: usable,
+      reserve_kg: reserve,
+      budget_kg: budget,
+      reachableArea_m2: Math.round(reachable.area_m2),
+      guaranteedDivertRadius_m: Number(radius.radius_m.toFixed(1)),
+      divertRadiusLimitedByGrid: radius.limitedByGrid,
+      minPropellant_kg: Number.isFinite(minP) ? Number(minP.toFixed(3)) : NaN,
+      maxPropellant_kg: Number.isFinite(maxP) ? Number(maxP.toFixed(3)) : NaN,
+      solves,
+      elapsed_s: Number(run.progress.elapsed_s.toFixed(2)),
+      cancelled: run.cancelled,
+    };
+    const createdAt = new Date().toISOString();
+    const caption = [
+      `${study.name} — ${o.nx} × ${o.ny} targets, N = ${o.nodes}, reserve ${reserve} kg${run.cancelled ? ' — STOPPED EARLY: partial result' : ''}`,
+      `Landreach ${APP_VERSION}, ${createdAt}, inputs ${hash.slice(0, 16)}`,
+    ];
+    const files = [
+      { path: join(o.out, 'footprint.json'), text: footprintReport({ studyName: study.name, inputsHash: hash, inputs, summary, field, contourLevels_kg: levels, createdAt }) },
+      { path: join(o.out, 'footprint.csv'), text: footprintCsv(field, budget) },
+      { path: join(o.out, 'footprint.geojson'), text: JSON.stringify(footprintGeoJson({ contours: bands, reachable, reserve_kg: reserve })) },
+      {
+        path: join(o.out, 'footprint.svg'),
+        text: footprintSvg({
+          title: `Divert footprint — ${study.name}`,
+          bounds_m: regionBounds(field),
+          bands,
+          reachable,
+          budget_kg: budget,
+          colormap: (t) => sampleColormap(VIRIDIS, t) as unknown as [number, number, number],
+          divertRadius_m: radius.radius_m,
+          caption,
+        }),
+      },
+    ];
+    writeFilesAtomically(files);
+    io.stdout(
+      [
+        `status:      ${run.cancelled ? 'stopped early (partial result written)' : 'complete'}`,
+        `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed`,
+        `budget:      ${budget.toFixed(1)} kg (usable ${usable} kg − reserve ${reserve} kg)`,
+        `area:        ${(reachable.area_m2 / 1e6).toFixed(3)} km² reachable with the reserve kept`,
+        `divert:      ${radius.radius_m.toFixed(0)} m guaranteed in every direction${radius.limitedByGrid ? ' (limited by the grid: widen --extent-m)' : ''}`,
+        `propellant:  ${summary.minPropellant_kg} … ${summary.maxPropellant_kg} kg over reachable targets`,
+        `time:        ${run.progress.elapsed_s.toFixed(1)} s, ${solves} cone-program solves (${(solves / Math.max(1, run.progress.targetsDone)).toFixed(1)} per target)`,
+        `wrote:       ${files.map((f) => f.path).join(', ')}`,
+        '',
+        CAUTION,
+        '',
+      ].join('\n'),
+    );
+    return counts.failed > 0 && counts.reachable === 0 ? 1 : 0;
+  },
+};

@@ -1,0 +1,68 @@
+/** Running a study's footprint in worker threads, with progress on stderr and Ctrl-C keeping what finished. */
+import type { CliIo } from './command.ts';
+import { computeFootprint, type FootprintProgress, type FootprintRun, type RowJob } from '../footprint/engine.ts';
+import type { DescentFootprintContext } from '../footprint/descentEvaluator.ts';
+import type { FieldRow } from '../footprint/field.ts';
+import type { TargetGrid } from '../footprint/grid.ts';
+import { nodeWorkerFactory } from '../parallel/nodeWorker.ts';
+import { JobPool } from '../parallel/pool.ts';
+import { studyToDescent, type Study } from '../study/index.ts';
+
+/** Nodes for footprint targets: at N = 30 the demo study's propellant is within 0.04 kg of N = 200 (DEVELOPERS.md). */
+export const FOOTPRINT_NODES = 30;
+
+export function progressLine(p: FootprintProgress): string {
+  const pct = (100 * p.targetsDone) / p.targetsTotal;
+  const width = 30;
+  const fill = Math.round((width * p.targetsDone) / p.targetsTotal);
+  const eta = Number.isFinite(p.remaining_s) ? `${p.remaining_s.toFixed(0)} s left` : '…';
+  return `[${'#'.repeat(fill)}${'.'.repeat(width - fill)}] ${pct.toFixed(0).padStart(3)} %  ${p.targetsDone}/${p.targetsTotal} targets  ${p.rate_per_s.toFixed(1)} /s  ${eta}`;
+}
+
+/**
+ * Targets are solved against the dry mass alone (no reserve): the reserve is then a contour level, so one
+ * run serves every reserve.
+ */
+export function footprintContext(study: Study, nodes: number): DescentFootprintContext {
+  const d = studyToDescent(study);
+  return {
+    setup: { ...d.setup, nodes, vehicle: { ...d.setup.vehicle, dryMass: study.vehicle.dryMass_kg } },
+    ignition: d.ignition,
+    targetHeight_m: d.target[2],
+  };
+}
+
+export async function runStudyFootprint(
+  study: Study,
+  grid: TargetGrid,
+  options: { nodes: number; workers: number },
+  io: CliIo,
+): Promise<FootprintRun> {
+  const pool = new JobPool<RowJob, FieldRow>(nodeWorkerFactory(new URL('../footprint/nodeWorker.mjs', import.meta.url)), options.workers);
+  const controller = new AbortController();
+  const onSigint = () => {
+    io.stderr('\nstopping: writing the rows that finished…\n');
+    controller.abort();
+  };
+  process.once('SIGINT', onSigint);
+  let lastPrint = 0;
+  try {
+    const run = await computeFootprint(grid, pool, {
+      context: footprintContext(study, options.nodes),
+      signal: controller.signal,
+      onRow: (_r, p) => {
+        const now = Date.now();
+        if (io.interactive) io.stderr(`\r${progressLine(p)}`);
+        else if (now - lastPrint > 2000 || p.rowsDone === p.rowsTotal) {
+          io.stderr(progressLine(p) + '\n');
+          lastPrint = now;
+        }
+      },
+    });
+    if (io.interactive) io.stderr('\n');
+    return run;
+  } finally {
+    process.removeListener('SIGINT', onSigint);
+    pool.close();
+  }
+}

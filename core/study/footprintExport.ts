@@ -1,0 +1,153 @@
+/**
+ * Footprint exports: grid CSV, GeoJSON (RFC 7946) and the versioned JSON report. All pure: data in, text
+ * out. Units are in every column and property name.
+ */
+import type { Feature, FeatureCollection, MultiPolygon, Point } from 'geojson';
+import type { PropellantRegion } from '../footprint/contours.ts';
+import { TARGET, type FootprintField } from '../footprint/field.ts';
+import { APP_VERSION, CAUTION } from './provenance.ts';
+
+const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed'] as const;
+
+const num = (v: number, digits: number) => (Number.isFinite(v) ? Number(v.toFixed(digits)).toString() : '');
+
+/**
+ * One row per target. `within_budget` is 1 where the minimum propellant is at most `budget_kg` (the usable
+ * propellant less the reserve), 0 where it is certainly above it or unreachable, empty where not computed.
+ */
+export function footprintCsv(field: FootprintField, budget_kg: number): string {
+  const lines = [
+    `# ${CAUTION}`,
+    'east_m,north_m,status,propellant_kg,time_of_flight_s,peak_tilt_deg,miss_m,solves,within_budget',
+  ];
+  for (let j = 0; j < field.ny; j++) {
+    for (let i = 0; i < field.nx; i++) {
+      const k = j * field.nx + i;
+      const st = field.status[k];
+      const within = st === TARGET.reachable ? (field.propellant_kg[k] <= budget_kg ? '1' : '0') : st === TARGET.unreachable ? '0' : '';
+      lines.push(
+        [
+          num(field.east[i], 3),
+          num(field.north[j], 3),
+          STATUS_NAME[st],
+          num(field.propellant_kg[k], 3),
+          num(field.timeOfFlight_s[k], 3),
+          num(field.peakTilt_deg[k], 2),
+          num(field.miss_m[k], 2),
+          String(field.solves[k]),
+          within,
+        ].join(','),
+      );
+    }
+  }
+  return lines.join('\n') + '\n';
+}
+
+/** Converts local east–north metres to [longitude, latitude] in degrees (WGS 84), when the site is georeferenced. */
+export type LocalToLonLat = (east_m: number, north_m: number) => [number, number];
+
+function lonLatGeometry(g: MultiPolygon, toLonLat: LocalToLonLat | null): MultiPolygon | null {
+  if (!toLonLat) return null;
+  return { type: 'MultiPolygon', coordinates: g.coordinates.map((p) => p.map((r) => r.map(([x, y]) => toLonLat(x, y)))) };
+}
+
+export interface FootprintGeoJsonInput {
+  contours: PropellantRegion[];
+  /** The region reachable with the reserve kept: {propellant ≤ budget}. */
+  reachable: PropellantRegion;
+  reserve_kg: number;
+  toLonLat?: LocalToLonLat | null;
+}
+
+/**
+ * RFC 7946 requires WGS 84 longitude/latitude coordinates. Every feature carries its shape in local metres
+ * (east, north from the nominal target) in `properties.local_m`; its `geometry` is the same shape in
+ * longitude/latitude where the site is georeferenced, and null otherwise (allowed by RFC 7946 §3.2).
+ */
+export function footprintGeoJson(input: FootprintGeoJsonInput): FeatureCollection<MultiPolygon | Point | null> {
+  const toLonLat = input.toLonLat ?? null;
+  const region = (r: PropellantRegion, kind: string, extra: Record<string, unknown>): Feature<MultiPolygon | null> => ({
+    type: 'Feature',
+    geometry: lonLatGeometry(r.geometry, toLonLat),
+    properties: { kind, level_kg: r.level_kg, area_m2: Math.round(r.area_m2), ...extra, local_m: r.geometry },
+  });
+  const nominal: Feature<Point | null> = {
+    type: 'Feature',
+    geometry: toLonLat ? { type: 'Point', coordinates: toLonLat(0, 0) } : null,
+    properties: { kind: 'nominal-target', local_m: { type: 'Point', coordinates: [0, 0] } },
+  };
+  return {
+    type: 'FeatureCollection',
+    features: [
+      region(input.reachable, 'reachable-with-reserve', { reserve_kg: input.reserve_kg }),
+      ...input.contours.map((c) => region(c, 'propellant-contour', {})),
+      nominal,
+    ],
+  };
+}
+
+export interface FootprintSummary {
+  targets: number;
+  reachable: number;
+  unreachable: number;
+  failed: number;
+  pending: number;
+  usablePropellant_kg: number;
+  reserve_kg: number;
+  budget_kg: number;
+  /** Area of {propellant ≤ budget}, m². */
+  reachableArea_m2: number;
+  guaranteedDivertRadius_m: number;
+  /** True when the divert radius is limited by the grid's extent rather than by reach. */
+  divertRadiusLimitedByGrid: boolean;
+  minPropellant_kg: number;
+  maxPropellant_kg: number;
+  solves: number;
+  elapsed_s: number;
+  cancelled: boolean;
+}
+
+export interface FootprintReportInput {
+  studyName: string;
+  inputsHash: string;
+  inputs: unknown;
+  summary: FootprintSummary;
+  field: FootprintField;
+  contourLevels_kg: number[];
+  createdAt?: string;
+}
+
+/** The versioned JSON report ("landreach-footprint" version 1). */
+export function footprintReport(r: FootprintReportInput): string {
+  const f = r.field;
+  const arr = (a: ArrayLike<number>, digits: number) => Array.from(a, (v) => (Number.isFinite(v) ? Number(v.toFixed(digits)) : null));
+  return JSON.stringify(
+    {
+      format: 'landreach-footprint',
+      version: 1,
+      caution: CAUTION,
+      appVersion: APP_VERSION,
+      createdAt: r.createdAt ?? new Date().toISOString(),
+      study: r.studyName,
+      inputsHash: r.inputsHash,
+      inputs: r.inputs,
+      summary: r.summary,
+      contourLevels_kg: r.contourLevels_kg,
+      grid: {
+        nx: f.nx,
+        ny: f.ny,
+        east_m: arr(f.east, 3),
+        north_m: arr(f.north, 3),
+        layout: 'row-major, index = row · nx + column, rows from south to north',
+        status: Array.from(f.status, (s) => STATUS_NAME[s]),
+        propellant_kg: arr(f.propellant_kg, 3),
+        timeOfFlight_s: arr(f.timeOfFlight_s, 3),
+        peakTilt_deg: arr(f.peakTilt_deg, 2),
+        miss_m: arr(f.miss_m, 2),
+        solves: Array.from(f.solves),
+      },
+    },
+    null,
+    1,
+  );
+}

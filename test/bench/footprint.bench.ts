@@ -1,0 +1,69 @@
+/**
+ * Footprint benchmark: the demo study's 41 × 41 divert footprint at the footprint's default N with two
+ * worker threads, end to end (grid, continuation, slope search, fallbacks), and CVXOPT's time for the same
+ * per-target search on a few targets, scaled to the grid. Also the peak resident memory of the run.
+ * Targets (issue 4): 41 × 41 in under 10 s on this 2-core machine; 101 × 101 under 60 s; < 300 MB at 201 × 201.
+ */
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { computeFootprint, type RowJob } from '../../core/footprint/engine.ts';
+import { countByStatus, type FieldRow } from '../../core/footprint/field.ts';
+import { makeTargetGrid } from '../../core/footprint/grid.ts';
+import { nodeWorkerFactory } from '../../core/parallel/nodeWorker.ts';
+import { JobPool } from '../../core/parallel/pool.ts';
+import { FOOTPRINT_NODES, footprintContext } from '../../core/cli/footprintRun.ts';
+import { parseStudyText, studyToDescent } from '../../core/study/index.ts';
+import { DescentSolver } from '../../core/descent/solver.ts';
+import { searchFreeFinalTimeBySlope } from '../../core/descent/slopeSearch.ts';
+import { cvxoptAvailable } from '../reference/cvxopt.ts';
+import { cvxoptBackend } from '../reference/descent/cvxoptBackend.ts';
+import type { BenchResult } from './util.ts';
+
+const DEMO = fileURLToPath(new URL('../../assets/demo/demo-lander.study.json', import.meta.url));
+
+export async function benchFootprint(sides = [41]): Promise<BenchResult[]> {
+  const study = parseStudyText(readFileSync(DEMO, 'utf8'));
+  const d = studyToDescent(study);
+  const context = footprintContext(study, FOOTPRINT_NODES);
+  const results: BenchResult[] = [];
+  for (const side of sides) {
+    const grid = makeTargetGrid({ halfWidthEast_m: 2500, halfWidthNorth_m: 2500, nx: side, ny: side });
+    const pool = new JobPool<RowJob, FieldRow>(nodeWorkerFactory(new URL('../../core/footprint/nodeWorker.mjs', import.meta.url)), 2);
+    const t0 = performance.now();
+    const run = await computeFootprint(grid, pool, { context });
+    const wall = (performance.now() - t0) / 1000;
+    pool.close();
+    const counts = countByStatus(run.field);
+    let solves = 0;
+    for (const s of run.field.solves) solves += s;
+    const figures: Record<string, number> = {
+      targets: side * side,
+      reachable: counts.reachable,
+      unreachable: counts.unreachable,
+      failed: counts.failed,
+      nodes: FOOTPRINT_NODES,
+      workers: 2,
+      wall_s: wall,
+      ms_per_target_per_worker: (wall * 1000 * 2) / (side * side),
+      solves_per_target: solves / (side * side),
+      peak_rss_mb: process.resourceUsage().maxRSS / 1024,
+    };
+    if (cvxoptAvailable()) {
+      // CVXOPT running the same search for a few targets (conelp time only), scaled to the grid.
+      const be = cvxoptBackend();
+      const ref = new DescentSolver(context.setup, be, d.ignition);
+      let guess: number | undefined;
+      const sample = [[0, 0], [500, 0], [500, 500]];
+      for (const [e, n] of sample) {
+        const r = searchFreeFinalTimeBySlope(ref, [e, n, 0], d.ignition, { tfGuess: guess });
+        if (r.result.status === 'solved') guess = r.result.timeOfFlight;
+      }
+      const cvxPerTarget = be.stats.solverSeconds / sample.length;
+      figures.cvxopt_s_per_target = cvxPerTarget;
+      figures.cvxopt_grid_estimate_s = cvxPerTarget * side * side;
+      figures.speedup_vs_cvxopt_loop = (cvxPerTarget * side * side) / wall;
+    }
+    results.push({ name: `footprint ${side}×${side}`, figures });
+  }
+  return results;
+}

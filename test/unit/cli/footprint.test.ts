@@ -1,0 +1,77 @@
+/**
+ * `landreach footprint` end to end on the invented demo study (small grid), and its input errors.
+ * The per-target values are checked against independent single-target searches.
+ */
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, describe, expect, it } from 'vitest';
+import { main } from '../../../core/cli/main.ts';
+import { landreachConicBackend } from '../../../core/descent/conicBackend.ts';
+import { searchFreeFinalTime } from '../../../core/descent/search.ts';
+import { DescentSolver } from '../../../core/descent/solver.ts';
+import { parseStudyText, studyToDescent } from '../../../core/study/index.ts';
+
+const DEMO = fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json', import.meta.url));
+const dir = mkdtempSync(join(tmpdir(), 'landreach-fp-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+function io() {
+  const out: string[] = [];
+  const err: string[] = [];
+  return { out, err, io: { stdout: (t: string) => out.push(t), stderr: (t: string) => err.push(t), interactive: false } };
+}
+
+describe('landreach footprint', () => {
+  it('writes the four result files for the demo study, and the targets agree with single-target searches', async () => {
+    const h = io();
+    const out = join(dir, 'demo');
+    const code = await main(['footprint', DEMO, '--out', out, '--grid', '5x5', '--extent-m', '2000', '--workers', '2'], h.io);
+    expect(code, h.err.join('')).toBe(0);
+    expect(readdirSync(out).sort()).toEqual(['footprint.csv', 'footprint.geojson', 'footprint.json', 'footprint.svg']);
+    const report = JSON.parse(readFileSync(join(out, 'footprint.json'), 'utf8'));
+    expect(report.format).toBe('landreach-footprint');
+    expect(report.caution).toMatch(/not flight software/);
+    expect(report.inputsHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(report.summary.targets).toBe(25);
+    expect(report.summary.reachable + report.summary.unreachable + report.summary.failed).toBe(25);
+    expect(h.out.join('')).toMatch(/targets: +\d+ reachable/);
+    // Independent check: three targets re-solved alone with the bracketing search, same nodes and dry mass.
+    const study = parseStudyText(readFileSync(DEMO, 'utf8'));
+    const d = studyToDescent(study);
+    const setup = { ...d.setup, nodes: report.inputs.nodes, vehicle: { ...d.setup.vehicle, dryMass: study.vehicle.dryMass_kg } };
+    const solver = new DescentSolver(setup, landreachConicBackend(), d.ignition);
+    for (const k of [0, 12, 19]) {
+      const e = report.grid.east_m[k % 5];
+      const n = report.grid.north_m[Math.floor(k / 5)];
+      const r = searchFreeFinalTime(solver, [e, n, 0], d.ignition, { decode: false, tfTolerance: 0.02 });
+      expect(report.grid.status[k]).toBe(r.status === 'solved' ? 'reachable' : 'unreachable');
+      if (r.status === 'solved') expect(Math.abs(report.grid.propellant_kg[k] - r.propellant)).toBeLessThan(0.06);
+    }
+    const svg = readFileSync(join(out, 'footprint.svg'), 'utf8');
+    expect(svg).toContain('Caution: Preliminary design');
+    const csv = readFileSync(join(out, 'footprint.csv'), 'utf8').trim().split('\n');
+    expect(csv).toHaveLength(27);
+  }, 120_000);
+
+  it.each([
+    [['--grid', '5by5'], /--grid 5by5: expected NXxNY/],
+    [['--reserve-kg', '900'], /--reserve-kg 900: must be below the usable propellant, 500 kg/],
+    [['--workers', '0'], /--workers 0: must be a whole number from 1 to 64/],
+    [['--levels', '100,abc'], /--levels 100,abc: must be positive masses in kg/],
+  ])('rejects %s with a message naming the option and the fix, writing nothing', async (extra, message) => {
+    const h = io();
+    const out = join(dir, `bad-${String(extra[0]).slice(2)}`);
+    const code = await main(['footprint', DEMO, '--out', out, ...extra], h.io);
+    expect(code).toBe(2);
+    expect(h.err.join('')).toMatch(message);
+    expect(existsSync(join(out, 'footprint.json'))).toBe(false);
+  });
+
+  it('requires --out', async () => {
+    const h = io();
+    expect(await main(['footprint', DEMO], h.io)).toBe(2);
+    expect(h.err.join('')).toMatch(/missing --out DIR/);
+  });
+});
