@@ -16,14 +16,13 @@ import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { discretisationCheck } from '../../descent/refine.ts';
 import { polynomialGuidance } from '../../descent/baselines/polynomial.ts';
 import { gravityTurn } from '../../descent/baselines/gravityTurn.ts';
+import type { Vec3 } from '../../descent/constants.ts';
+import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 
 export interface BaselineFigures {
   polynomial: { propellant_kg: number | null; tf_s: number | null; miss_m: number | null; velocity_error_mps: number | null; saturated_fraction: number | null };
   gravity_turn: { propellant_kg: number | null; tf_s: number | null; landing_m: number[]; touchdown_speed_mps: number | null };
 }
-import type { Vec3 } from '../../descent/constants.ts';
-import { CAUTION } from '../../study/provenance.ts';
-
 
 const USAGE = `Usage: landreach trajectory STUDY.json [options]
 
@@ -82,7 +81,10 @@ function parseArgs(args: string[]): Options {
 const round = (v: number, digits = 6) => (Number.isFinite(v) ? Number(v.toPrecision(digits + 3)) : null);
 const deg = (rad: number) => (rad * 180) / Math.PI;
 
-export function resultToJson(study: Study, r: DescentResult, nodes: number, refine: { nodes: number; propellant: number } | null, baselines: BaselineFigures | null = null) {
+export function resultToJson(
+  study: Study, r: DescentResult, nodes: number, refine: { nodes: number; propellant: number } | null,
+  baselines: BaselineFigures | null = null, hash = '',
+) {
   const t = r.trajectory;
   const s = t?.series;
   const arr = (a: Float64Array | undefined, f: (v: number) => number = (v) => v) => (a ? Array.from(a, (v) => round(f(v))) : []);
@@ -90,7 +92,11 @@ export function resultToJson(study: Study, r: DescentResult, nodes: number, refi
     format: 'landreach-trajectory',
     version: 1,
     caution: CAUTION,
+    appVersion: APP_VERSION,
+    createdAt: new Date().toISOString(),
     study: study.name,
+    /** SHA-256 of the study and the target: equal inputs, equal hash. */
+    inputsHash: hash,
     status: r.status,
     problem: r.kind,
     propellant_kg: round(r.propellant),
@@ -198,7 +204,10 @@ export const trajectoryCommand: CliCommand = {
       };
     }
     const files: { path: string; text: string }[] = [];
-    if (o.json) files.push({ path: o.json, text: JSON.stringify(resultToJson(study, r, d.setup.nodes, refine, baselines), null, 1) + '\n' });
+    if (o.json) {
+      const hash = await inputsHash({ study, target });
+      files.push({ path: o.json, text: JSON.stringify(resultToJson(study, r, d.setup.nodes, refine, baselines, hash), null, 1) + '\n' });
+    }
     if (o.csv) files.push({ path: o.csv, text: seriesToCsv(r) });
     if (files.length) writeFilesAtomically(files);
     io.stdout(summary(r, refine, d.setup.nodes, baselines));

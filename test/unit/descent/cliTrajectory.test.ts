@@ -24,6 +24,7 @@ describe('landreach trajectory', () => {
     const json = JSON.parse(readFileSync(join(dir, 'r.json'), 'utf8'));
     expect(json.status).toBe('solved');
     expect(json.nodes).toBe(50);
+    expect(json.inputsHash).toMatch(/^[0-9a-f]{64}$/);
     expect(json.solves).toBeGreaterThan(0);
     expect(json.target_m).toEqual([300, -150, 0]);
     expect(json.series.t_s).toHaveLength(50);
