@@ -21,7 +21,7 @@ import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 
 export interface BaselineFigures {
   polynomial: { propellant_kg: number | null; tf_s: number | null; miss_m: number | null; velocity_error_mps: number | null; saturated_fraction: number | null };
-  gravity_turn: { propellant_kg: number | null; tf_s: number | null; landing_m: number[]; touchdown_speed_mps: number | null };
+  gravity_turn: { propellant_kg: number | null; tf_s: number | null; landing_m: number[]; touchdown_speed_mps: number | null; out_of_propellant: boolean };
 }
 
 const USAGE = `Usage: landreach trajectory STUDY.json [options]
@@ -168,7 +168,7 @@ function summary(r: DescentResult, refine: { nodes: number; propellant: number }
     const p = baselines.polynomial;
     const g = baselines.gravity_turn;
     lines.push(`polynomial        ${f(p.propellant_kg ?? NaN)} kg, miss ${f(p.miss_m ?? NaN, 1)} m, t_f ${f(p.tf_s ?? NaN)} s (guidance baseline)`);
-    lines.push(`gravity turn      ${f(g.propellant_kg ?? NaN)} kg, lands at ${f(g.landing_m[0], 0)} m E, ${f(g.landing_m[1], 0)} m N (no targeting)`);
+    lines.push(`gravity turn      ${f(g.propellant_kg ?? NaN)} kg, lands at ${f(g.landing_m[0], 0)} m E, ${f(g.landing_m[1], 0)} m N (no targeting)${g.out_of_propellant ? ', RUNS OUT OF PROPELLANT in the air' : ''}`);
   }
   for (const w of r.warnings) lines.push(`warning: ${w}`);
   lines.push('', CAUTION, '');
@@ -200,7 +200,7 @@ export const trajectoryCommand: CliCommand = {
       const g = gravityTurn(d.setup, d.ignition, target[2]);
       baselines = {
         polynomial: { propellant_kg: round(p.propellant), tf_s: round(p.timeOfFlight), miss_m: round(p.miss), velocity_error_mps: round(p.velocityError), saturated_fraction: round(p.saturatedFraction) },
-        gravity_turn: { propellant_kg: round(g.propellant), tf_s: round(g.timeOfFlight), landing_m: g.landing.map((v) => round(v) ?? NaN), touchdown_speed_mps: round(g.touchdownSpeed) },
+        gravity_turn: { propellant_kg: round(g.propellant), tf_s: round(g.timeOfFlight), landing_m: g.landing.map((v) => round(v) ?? NaN), touchdown_speed_mps: round(g.touchdownSpeed), out_of_propellant: g.outOfPropellant },
       };
     }
     const files: { path: string; text: string }[] = [];
