@@ -25,6 +25,11 @@ export interface SlopeSearchOptions extends SearchOptions {
   tfGuess?: number;
   /** A neighbour's curvature d²J/dt_f² estimate (J in solver units), for the first step. */
   curvatureGuess?: number;
+  /**
+   * Open with two probes at tfGuess ± this (s) instead of one at tfGuess: when neighbouring optima move
+   * by less, the two slopes already bracket the optimum.
+   */
+  probeHalfWidth?: number;
 }
 
 export interface SlopeSearchResult {
@@ -130,19 +135,39 @@ export function searchFreeFinalTimeBySlope(
     const r = solver.solveFixed('min-propellant', tf, target, ignition);
     return isSolved(r.status) ? { r, t: tf, g: optimalValueSlope(solver, r, target, ignition) } : null;
   };
-  const first = evaluate(t0);
-  if (!first) return fallback();
-  let best = first.r;
+  // Opening probes: either side of the guess when the caller knows how far neighbouring optima move
+  // (two solves then usually bracket the optimum), else the guess alone.
+  const half = options.probeHalfWidth;
+  const opening: Point[] = [];
+  if (half !== undefined && half > 0 && t0 - half > br.lower && t0 + half < br.upper) {
+    const left = evaluate(t0 - half);
+    if (left) opening.push(left);
+    const right = evaluate(t0 + half);
+    if (right) opening.push(right);
+  }
+  if (opening.length === 0) {
+    const only = evaluate(t0);
+    if (!only) return fallback();
+    opening.push(only);
+  }
+  let best = opening[0].r;
   const consider = (p: Point) => {
     if (objective(p.r.solution) < objective(best.solution)) best = p.r;
   };
+  opening.forEach(consider);
   // J(t_f) is convex in the cases we meet, so its slope g rises through zero at the optimum: bracket the
-  // root of g, then close the bracket by Illinois-modified regula falsi (Dowell & Jarratt 1971), which is
-  // superlinear and never leaves the bracket.
-  let lo: Point | null = first.g < 0 ? first : null;
-  let hi: Point | null = first.g >= 0 ? first : null;
+  // root of g (phase 1), then close the bracket with certified cubic steps (phase 2).
+  let lo: Point | null = null;
+  let hi: Point | null = null;
+  for (const p of opening) {
+    if (p.g < 0 && (!lo || p.t > lo.t)) lo = p;
+    if (p.g >= 0 && (!hi || p.t < hi.t)) hi = p;
+  }
+  const first = opening.reduce((a, b) => (objective(a.r.solution) <= objective(b.r.solution) ? a : b));
   let last = first;
-  const k0 = options.curvatureGuess;
+  const k0 = opening.length === 2 && opening[1].t !== opening[0].t
+    ? (opening[1].g - opening[0].g) / (opening[1].t - opening[0].t)
+    : options.curvatureGuess;
   let step = k0 !== undefined && k0 > 0 ? -first.g / k0 : -Math.sign(first.g) * Math.max(4 * tol, 0.02 * t0);
   if (Math.abs(step) < 2 * tol) step = (first.g > 0 ? -2 : 2) * tol;
   // Phase 1: step downhill (secant extrapolation, growing) until the slope changes sign.

@@ -22,7 +22,7 @@ export interface TargetOutcome {
   code: TargetCode;
   /** Minimum propellant, kg (NaN when unreachable or failed). */
   propellant_kg: number;
-  /** Optimal time of flight, s (NaN when unreachable or failed). */
+  /** Optimal time of flight, s; for unreachable targets that of the closest-approach trajectory; NaN when failed. */
   timeOfFlight_s: number;
   /** Largest thrust tilt from vertical along the optimal trajectory, degrees. */
   peakTilt_deg: number;
