@@ -22,6 +22,7 @@ import { bracketFrom, brentMinimise } from './brent.ts';
 import { secantMinimise } from './secant.ts';
 import type { Probe } from './secant.ts';
 import type { ProgramKind } from './program.ts';
+import { NODE } from './program.ts';
 import type { IgnitionState } from './setup.ts';
 import type { DescentSolver, FixedTimeSolve } from './solver.ts';
 import type { DecodedTrajectory } from './trajectory.ts';
@@ -213,11 +214,14 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
     const again = runPhase(solver, 'min-propellant', target, ignition, br, [err.best.timeOfFlight], tol, budget, known, -Infinity, useDerivative, propTol);
     if (again.best) return finish(again.best, again, { status: 'solved' });
   }
-  const traj = decodeTrajectory(solver.program('min-landing-error'), err.best.solution.x, err.best.timeOfFlight, target);
+  const prog = solver.program('min-landing-error');
+  const last = (solver.setup.nodes - 1) * NODE.size + NODE.r;
+  const x = err.best.solution.x;
+  const closestPoint: Vec3 = [prog.value(x, last), prog.value(x, last + 1), prog.value(x, last + 2) - solver.setup.constraints.gateHeight];
   const status: DescentStatus = fuel.failures > 0 && fuel.statuses.every((s) => !isInfeasible(s)) ? 'solver-failure' : 'unreachable';
   return finish(err.best, { ...err, statuses: fuel.statuses }, {
     status,
-    closestPoint: traj.landing,
+    closestPoint,
     miss: err.best.miss,
     failures: fuel.failures + err.failures,
   });
