@@ -1,7 +1,8 @@
 import { defineConfig } from 'vitest/config';
 
 // One config, several projects: `unit` (pure core, fast), `reference` (checks against outside
-// references such as CVXOPT and GDAL; needs the Debian packages that .ci/run installs).
+// references such as CVXOPT and GDAL; needs the Debian packages that .ci/run installs), `e2e`
+// (builds the renderer, serves it with vite preview, drives Debian chromium with playwright-core).
 export default defineConfig({
   test: {
     projects: [
@@ -20,6 +21,18 @@ export default defineConfig({
           environment: 'node',
           testTimeout: 300_000,
           hookTimeout: 300_000,
+        },
+      },
+      {
+        test: {
+          name: 'e2e',
+          include: ['test/e2e/**/*.e2e.test.ts'],
+          environment: 'node',
+          globalSetup: ['test/e2e/global-setup.ts'],
+          // One browser, tests in order: they share a page and the machine has two cores.
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
         },
       },
     ],

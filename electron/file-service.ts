@@ -1,0 +1,143 @@
+/**
+ * Reading and writing files for the main process. Every write is atomic: the bytes go to a temporary
+ * file in the same folder, are flushed to disk (fsync), then renamed over the target, and the folder is
+ * flushed so the rename itself survives a power cut. A reader therefore sees the old file or the new
+ * one, never half of one. A study file that is corrupt or was written by a newer version is never
+ * overwritten.
+ *
+ * The file-system functions are a parameter so tests can inject failures; production uses node:fs.
+ */
+import * as nodeFs from 'node:fs/promises';
+import * as path from 'node:path';
+import { randomBytes } from 'node:crypto';
+import { checkEnvelope, describeEnvelopeProblem } from './study-envelope.ts';
+import { MAX_PAYLOAD_BYTES } from './bridge-api.ts';
+
+/** The subset of node:fs/promises this module uses. */
+export interface FileSystem {
+  open: typeof nodeFs.open;
+  rename: typeof nodeFs.rename;
+  unlink: typeof nodeFs.unlink;
+  readFile: typeof nodeFs.readFile;
+  stat: typeof nodeFs.stat;
+  mkdir: typeof nodeFs.mkdir;
+}
+
+export const realFileSystem: FileSystem = {
+  open: nodeFs.open,
+  rename: nodeFs.rename,
+  unlink: nodeFs.unlink,
+  readFile: nodeFs.readFile,
+  stat: nodeFs.stat,
+  mkdir: nodeFs.mkdir,
+};
+
+export class FileServiceError extends Error {
+  override readonly name = 'FileServiceError';
+}
+
+function isMissing(error: unknown): boolean {
+  return (error as NodeJS.ErrnoException)?.code === 'ENOENT';
+}
+
+/** Write `data` to `target` atomically (temp file in the same folder + fsync + rename + folder fsync). */
+export async function atomicWriteFile(target: string, data: string | Uint8Array, fs: FileSystem = realFileSystem): Promise<void> {
+  const dir = path.dirname(target);
+  const temp = path.join(dir, `.${path.basename(target)}.${process.pid}.${randomBytes(6).toString('hex')}.tmp`);
+  let handle: nodeFs.FileHandle | undefined;
+  try {
+    // 'wx': fail rather than reuse a temp name that somehow exists.
+    handle = await fs.open(temp, 'wx', 0o644);
+    await handle.writeFile(data);
+    await handle.sync();
+    await handle.close();
+    handle = undefined;
+    await fs.rename(temp, target);
+  } catch (error) {
+    if (handle) await handle.close().catch(() => undefined);
+    await fs.unlink(temp).catch(() => undefined);
+    throw error;
+  }
+  await syncDirectory(dir, fs);
+}
+
+async function syncDirectory(dir: string, fs: FileSystem): Promise<void> {
+  // Flushing a folder is how POSIX makes a rename durable; Windows cannot open folders this way,
+  // and there the rename is already journaled, so a failure here is not an error.
+  let handle: nodeFs.FileHandle | undefined;
+  try {
+    handle = await fs.open(dir, 'r');
+    await handle.sync();
+  } catch {
+    /* best effort, see above */
+  } finally {
+    await handle?.close().catch(() => undefined);
+  }
+}
+
+/** Read a text file, refusing anything larger than the IPC payload limit. */
+export async function readTextFile(file: string, fs: FileSystem = realFileSystem): Promise<string> {
+  const info = await fs.stat(file);
+  if (!info.isFile()) throw new FileServiceError(`${path.basename(file)} is not a file. Choose a study file.`);
+  if (info.size > MAX_PAYLOAD_BYTES) {
+    throw new FileServiceError(
+      `${path.basename(file)} is ${(info.size / 1048576).toFixed(1)} MiB, larger than the ${MAX_PAYLOAD_BYTES / 1048576} MiB a study may be. Choose the study file, not a data file.`,
+    );
+  }
+  return fs.readFile(file, 'utf8');
+}
+
+/** Read a study file and check its envelope; throws FileServiceError with a user-facing message. */
+export async function readStudyFile(file: string, fs: FileSystem = realFileSystem): Promise<string> {
+  let text: string;
+  try {
+    text = await readTextFile(file, fs);
+  } catch (error) {
+    if (error instanceof FileServiceError) throw error;
+    if (isMissing(error)) throw new FileServiceError(`${path.basename(file)} no longer exists. It may have been moved or deleted.`);
+    throw new FileServiceError(`${path.basename(file)} cannot be read: ${(error as Error).message}.`);
+  }
+  const check = checkEnvelope(text);
+  if (check.kind !== 'study') throw new FileServiceError(describeEnvelopeProblem(path.basename(file), check));
+  return text;
+}
+
+/**
+ * Refuse to overwrite a file that is not a study this build understands. A missing file is fine;
+ * an existing readable study of a supported version is fine; anything else would destroy data the
+ * user may still need.
+ */
+export async function assertStudyOverwritable(file: string, fs: FileSystem = realFileSystem): Promise<void> {
+  let existing: string;
+  try {
+    existing = await readTextFile(file, fs);
+  } catch (error) {
+    if (isMissing(error)) return;
+    if (error instanceof FileServiceError) throw new FileServiceError(`Not saved: ${error.message}`);
+    throw new FileServiceError(`Not saved: ${path.basename(file)} exists but cannot be read (${(error as Error).message}).`);
+  }
+  const check = checkEnvelope(existing);
+  if (check.kind === 'study') return;
+  throw new FileServiceError(`Not saved, to protect the existing file: ${describeEnvelopeProblem(path.basename(file), check)} Use Save As to choose another name.`);
+}
+
+/** Save a study: the text must itself be a valid envelope, and the target must be safe to replace. */
+export async function writeStudyFile(file: string, text: string, fs: FileSystem = realFileSystem): Promise<void> {
+  const own = checkEnvelope(text);
+  if (own.kind !== 'study') {
+    // The renderer builds the text; a bad envelope here is a program error, caught before any write.
+    throw new FileServiceError(`Not saved: the study to write is invalid (${own.kind}). Please report this.`);
+  }
+  await assertStudyOverwritable(file, fs);
+  await atomicWriteFile(file, text, fs);
+}
+
+/** Ensure a folder exists (for recovery copies and settings). */
+export async function ensureDirectory(dir: string, fs: FileSystem = realFileSystem): Promise<void> {
+  await fs.mkdir(dir, { recursive: true });
+}
+
+/** Give `name` the extension `ext` (without dot) unless it already ends with it. */
+export function withExtension(name: string, ext: string): string {
+  return name.toLowerCase().endsWith(`.${ext}`) ? name : `${name}.${ext}`;
+}

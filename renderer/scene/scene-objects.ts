@@ -1,0 +1,143 @@
+/**
+ * three.js objects for the markers over the terrain: nominal-target ring, ignition point with its
+ * drop line, trajectories (path + thrust vectors) and the landing ellipse. Built from plain data by
+ * the pure geometry builders; no renderer needed, so this is unit-tested in Node.
+ */
+import { BufferAttribute, BufferGeometry, Color, Line, LineBasicMaterial, LineSegments, Mesh, MeshLambertMaterial, SphereGeometry, type Object3D } from 'three';
+import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
+import { formatAxisTick, niceTicks } from './view.ts';
+import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from './markers.ts';
+import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-lines.ts';
+import { TRAJECTORY_COLOURS } from '../plots/palette.ts';
+
+/** A trajectory to draw: samples relative to the target, as core/descent returns them. */
+export interface SceneTrajectory {
+  samples: TrajectorySamples;
+  thrustMax_N: number;
+  /** CSS colour; defaults cycle through the colour-blind-safe series palette. */
+  color?: string;
+}
+
+/** Landing dispersion ellipse around the nominal target. */
+export interface LandingEllipse {
+  semiMajor_m: number;
+  semiMinor_m: number;
+  /** Major-axis direction, degrees clockwise from north. */
+  azimuth_deg: number;
+}
+
+export interface IgnitionMarker {
+  east_m: number;
+  north_m: number;
+  altitude_m: number;
+}
+
+/** A target the user picked on the terrain. */
+export interface PickedTarget {
+  east_m: number;
+  north_m: number;
+}
+
+export interface MarkerInputs {
+  ignition: IgnitionMarker | null;
+  trajectories: readonly SceneTrajectory[];
+  ellipse: LandingEllipse | null;
+  /** Picked targets, drawn as double rings in the colour their trajectory will have. */
+  picks?: readonly PickedTarget[];
+}
+
+export { TRAJECTORY_COLOURS };
+const MARKER_INK = 0xf4f1ea;
+
+export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, inputs: MarkerInputs): Object3D[] {
+  const ex = exaggeration;
+  const heightAt = (e: number, n: number) => {
+    const h = sampleHeight(grid, e, n);
+    return Number.isNaN(h) ? 0 : h;
+  };
+  // Lines sit 2 m above the ground so the terrain does not swallow them.
+  const ground = (e: number, n: number) => (heightAt(e, n) + 2) * ex;
+  const span = (grid.width - 1) * grid.pixelSize_m;
+  const base = heightAt(0, 0);
+  const objects: Object3D[] = [];
+
+  const target = new Line(lineGeometry(ringPositions(0, 0, span / 60, 48, ground)), new LineBasicMaterial({ color: 0xffffff }));
+  target.name = 'nominal-target';
+  objects.push(target);
+
+  if (inputs.ignition) {
+    const { east_m, north_m, altitude_m } = inputs.ignition;
+    const z = (base + altitude_m) * ex;
+    const ball = new Mesh(new SphereGeometry(span / 150, 16, 12), new MeshLambertMaterial({ color: MARKER_INK, emissive: 0x404040 }));
+    ball.position.set(east_m, north_m, z);
+    ball.name = 'ignition-point';
+    const drop = new Line(lineGeometry(dropLinePositions(east_m, north_m, z, ground(east_m, north_m))), new LineBasicMaterial({ color: MARKER_INK, transparent: true, opacity: 0.6 }));
+    drop.name = 'ignition-drop-line';
+    objects.push(ball, drop);
+  }
+
+  inputs.trajectories.forEach((t, k) => {
+    const color = new Color(t.color ?? TRAJECTORY_COLOURS[k % TRAJECTORY_COLOURS.length]);
+    const { path, vectors } = buildTrajectoryGeometry(t.samples, { baseHeight_m: base, exaggeration: ex, vectorEvery: 5, vectorLength_m: span / 25, thrustMax_N: t.thrustMax_N });
+    const line = new Line(path, new LineBasicMaterial({ color }));
+    line.name = `trajectory-${k}`;
+    const arrows = new LineSegments(vectors, new LineBasicMaterial({ color, transparent: true, opacity: 0.75 }));
+    arrows.name = `thrust-vectors-${k}`;
+    objects.push(line, arrows);
+  });
+
+  (inputs.picks ?? []).forEach((p, k) => {
+    const material = new LineBasicMaterial({ color: new Color(TRAJECTORY_COLOURS[k % TRAJECTORY_COLOURS.length]) });
+    for (const [radius, part] of [[span / 90, 'outer'], [span / 160, 'inner']] as const) {
+      const ring = new Line(lineGeometry(ringPositions(p.east_m, p.north_m, radius, 40, ground)), material);
+      ring.name = `pick-${k}-${part}`;
+      objects.push(ring);
+    }
+  });
+
+  if (inputs.ellipse) {
+    const { semiMajor_m, semiMinor_m, azimuth_deg } = inputs.ellipse;
+    const ellipse = new Line(lineGeometry(ellipsePositions(0, 0, semiMajor_m, semiMinor_m, azimuth_deg, 96, ground)), new LineBasicMaterial({ color: 0xffffff }));
+    ellipse.name = 'landing-ellipse';
+    objects.push(ellipse);
+  }
+  return objects;
+}
+
+export interface AxisLabel {
+  text: string;
+  position: [number, number, number];
+}
+
+/**
+ * Metre-ticked axes framing the terrain: an east axis along the south edge and a north axis along
+ * the west edge, at a level just below the lowest ground so relief never hides them, with ticks
+ * pointing outwards and one label per tick (distances from the nominal target).
+ */
+export function buildAxisObjects(grid: ElevationGrid, exaggeration: number, tickCount = 6): { object: LineSegments; labels: AxisLabel[] } {
+  const west = grid.west_m;
+  const east = grid.west_m + (grid.width - 1) * grid.pixelSize_m;
+  const north = grid.north_m;
+  const south = grid.north_m - (grid.height - 1) * grid.pixelSize_m;
+  const [lo, hi] = heightRange(grid.heights);
+  const z = (lo - 0.02 * (hi - lo || 1)) * exaggeration;
+  const tick = Math.max(east - west, north - south) / 60;
+  const coords: number[] = [west, south, z, east, south, z, west, south, z, west, north, z];
+  const labels: AxisLabel[] = [];
+  for (const x of niceTicks(west, east, tickCount)) {
+    coords.push(x, south, z, x, south - tick, z);
+    labels.push({ text: formatAxisTick(x), position: [x, south - 3 * tick, z] });
+  }
+  for (const y of niceTicks(south, north, tickCount)) {
+    // The south-west corner already carries the east axis's first label.
+    if (Math.abs(y - south) < 1e-6 * (north - south)) continue;
+    coords.push(west, y, z, west - tick, y, z);
+    labels.push({ text: formatAxisTick(y), position: [west - 4 * tick, y, z] });
+  }
+  labels.push({ text: 'E', position: [east + 3 * tick, south, z] }, { text: 'N', position: [west, north + 3 * tick, z] });
+  const geometry = new BufferGeometry();
+  geometry.setAttribute('position', new BufferAttribute(new Float32Array(coords), 3));
+  const object = new LineSegments(geometry, new LineBasicMaterial({ color: 0x8c9aa7 }));
+  object.name = 'axes';
+  return { object, labels };
+}

@@ -1,0 +1,168 @@
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import * as fs from 'node:fs/promises';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import { INVOKE_CHANNELS } from '../../../electron/bridge-api.ts';
+import { createIpcHandlers, registerIpcHandlers, type DocumentSession, type InvokeHandler } from '../../../electron/ipc.ts';
+import { RecentFiles } from '../../../electron/recent-files.ts';
+import { RecoveryStore } from '../../../electron/recovery.ts';
+import { STUDY_FORMAT, STUDY_VERSION } from '../../../electron/study-envelope.ts';
+
+const APP = 'file:///opt/landreach/dist/index.html';
+const trusted = { senderFrame: { url: APP, parent: null } };
+const study = (name = 'invented demo') => JSON.stringify({ format: STUDY_FORMAT, version: STUDY_VERSION, name });
+const PNG = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 1, 2, 3]);
+
+let dir: string;
+let handlers: Record<string, InvokeHandler>;
+let session: DocumentSession;
+let nextOpen: string | null;
+let nextSave: string | null;
+let saveDialogNames: string[];
+let changes: string[];
+
+beforeEach(async () => {
+  dir = await fs.mkdtemp(path.join(os.tmpdir(), 'landreach-ipc-'));
+  session = { currentPath: null, dirty: true, title: 't' };
+  nextOpen = null;
+  nextSave = null;
+  saveDialogNames = [];
+  changes = [];
+  handlers = createIpcHandlers({
+    appUrl: APP,
+    appVersion: '9.9.9',
+    dialogs: {
+      chooseOpenPath: async () => nextOpen,
+      chooseSavePath: async (name) => {
+        saveDialogNames.push(name);
+        return nextSave;
+      },
+    },
+    recent: new RecentFiles(path.join(dir, 'settings', 'recent.json')),
+    recovery: new RecoveryStore(path.join(dir, 'settings', 'recovery.json')),
+    session,
+    onChange: (what) => changes.push(what),
+  });
+});
+afterEach(async () => {
+  await fs.rm(dir, { recursive: true, force: true });
+});
+
+const call = (channel: string, ...args: unknown[]) => handlers[channel](trusted, ...args);
+
+describe('handler table', () => {
+  it('registers exactly one handler per bridge channel', () => {
+    const registered: string[] = [];
+    registerIpcHandlers({ handle: (channel) => registered.push(channel) }, {
+      appUrl: APP, appVersion: '1', dialogs: { chooseOpenPath: async () => null, chooseSavePath: async () => null },
+      recent: new RecentFiles('/nowhere/r.json'), recovery: new RecoveryStore('/nowhere/x.json'), session,
+    });
+    expect(registered.sort()).toEqual(Object.values(INVOKE_CHANNELS).sort());
+  });
+
+  it.each(Object.values(INVOKE_CHANNELS))('%s refuses foreign, sub-frame and vanished senders', async (channel) => {
+    await expect(handlers[channel]({ senderFrame: { url: 'https://example.invalid/', parent: null } })).rejects.toThrow(/not the app page/);
+    await expect(handlers[channel]({ senderFrame: { url: APP, parent: {} } })).rejects.toThrow(/sub-frame/);
+    await expect(handlers[channel]({ senderFrame: null })).rejects.toThrow(/frame is gone/);
+  });
+});
+
+describe('open and save', () => {
+  it('opens a chosen study, remembers it as current and recent', async () => {
+    const file = path.join(dir, 'site.landreach.json');
+    await fs.writeFile(file, study());
+    nextOpen = file;
+    const result = await call(INVOKE_CHANNELS.openStudy);
+    expect(result).toEqual({ status: 'opened', path: file, name: 'site.landreach.json', text: study() });
+    expect(session.currentPath).toBe(file);
+    expect(await call(INVOKE_CHANNELS.listRecent)).toEqual([file]);
+    expect(changes).toEqual(['recent']);
+  });
+
+  it('reports a corrupt study as an error result, not an exception', async () => {
+    const file = path.join(dir, 'broken.landreach.json');
+    await fs.writeFile(file, '{');
+    nextOpen = file;
+    const result = (await call(INVOKE_CHANNELS.openStudy)) as { status: string; message: string };
+    expect(result.status).toBe('error');
+    expect(result.message).toMatch(/broken\.landreach\.json cannot be read/);
+    expect(session.currentPath).toBeNull();
+  });
+
+  it('returns cancelled when a dialog is dismissed', async () => {
+    expect(await call(INVOKE_CHANNELS.openStudy)).toEqual({ status: 'cancelled' });
+    expect(await call(INVOKE_CHANNELS.saveStudyAs, study(), 'x')).toEqual({ status: 'cancelled' });
+  });
+
+  it('save without a current file asks for a path, then saves in place', async () => {
+    const file = path.join(dir, 'new.landreach.json');
+    nextSave = file;
+    await fs.mkdir(path.join(dir, 'settings'));
+    await call(INVOKE_CHANNELS.writeRecovery, study('unsaved'));
+    const first = await call(INVOKE_CHANNELS.saveStudy, study('v1'), 'My study');
+    expect(first).toEqual({ status: 'written', path: file, name: 'new.landreach.json' });
+    expect(saveDialogNames).toEqual(['My study.landreach.json']);
+    expect(session.dirty).toBe(false);
+    expect(await call(INVOKE_CHANNELS.readRecovery)).toBeNull();
+    nextSave = null;
+    await call(INVOKE_CHANNELS.saveStudy, study('v2'), 'My study');
+    expect(saveDialogNames).toHaveLength(1);
+    expect(JSON.parse(await fs.readFile(file, 'utf8')).name).toBe('v2');
+  });
+
+  it('save over a newer-version file is refused with a message and leaves it untouched', async () => {
+    const file = path.join(dir, 'future.landreach.json');
+    const newer = JSON.stringify({ format: STUDY_FORMAT, version: STUDY_VERSION + 3 });
+    await fs.writeFile(file, newer);
+    nextSave = file;
+    const result = (await call(INVOKE_CHANNELS.saveStudyAs, study(), 'future')) as { status: string; message: string };
+    expect(result.status).toBe('error');
+    expect(result.message).toMatch(/newer Landreach/);
+    expect(await fs.readFile(file, 'utf8')).toBe(newer);
+  });
+
+  it('openRecent accepts only paths in the recent list', async () => {
+    await fs.writeFile(path.join(dir, 'secret.txt'), 'x');
+    await expect(call(INVOKE_CHANNELS.openRecent, path.join(dir, 'secret.txt'))).rejects.toThrow(/not in the recent list/);
+    await expect(call(INVOKE_CHANNELS.openRecent, 42)).rejects.toThrow(/invalid recent file path: expected a string/);
+  });
+
+  it('validates arguments with messages naming the argument', async () => {
+    await expect(call(INVOKE_CHANNELS.saveStudy, 12, 'x')).rejects.toThrow(/invalid study text: expected a string, got number/);
+    await expect(call(INVOKE_CHANNELS.saveStudyAs, study(), '../../etc/passwd')).rejects.toThrow(/invalid suggestedName/);
+    await expect(call(INVOKE_CHANNELS.setDocumentState, { dirty: 'yes', title: 't' })).rejects.toThrow(/"dirty" must be a boolean/);
+  });
+});
+
+describe('export', () => {
+  it('writes a PNG export atomically with the right extension proposed', async () => {
+    const file = path.join(dir, 'figure.png');
+    nextSave = file;
+    const result = await call(INVOKE_CHANNELS.exportFile, { kind: 'png', suggestedName: 'figure', data: PNG });
+    expect(result).toEqual({ status: 'written', path: file, name: 'figure.png' });
+    expect(saveDialogNames).toEqual(['figure.png']);
+    expect(new Uint8Array(await fs.readFile(file))).toEqual(PNG);
+  });
+
+  it('rejects unknown kinds, wrong data types and bytes that are not PNG', async () => {
+    await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'exe', suggestedName: 'a', data: 'x' })).rejects.toThrow(/invalid export kind: "exe"/);
+    await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'csv', suggestedName: 'a', data: PNG })).rejects.toThrow(/csv export data: expected a string/);
+    await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'png', suggestedName: 'a', data: new Uint8Array([1, 2, 3]) })).rejects.toThrow(/PNG signature/);
+    expect(saveDialogNames).toEqual([]);
+  });
+});
+
+describe('document state and version', () => {
+  it('records dirty flag and title and notifies', async () => {
+    await call(INVOKE_CHANNELS.setDocumentState, { dirty: true, title: 'Crater rim trade' });
+    expect(session).toMatchObject({ dirty: true, title: 'Crater rim trade' });
+    expect(changes).toEqual(['document']);
+    expect(await call(INVOKE_CHANNELS.appVersion)).toBe('9.9.9');
+  });
+
+  it('new study forgets the current file', async () => {
+    session.currentPath = '/x/y.landreach.json';
+    await call(INVOKE_CHANNELS.newStudy);
+    expect(session.currentPath).toBeNull();
+  });
+});
