@@ -76,13 +76,15 @@ export function brentMinimise(f: (x: number) => number, a: number, b: number, x:
  * Bracketing from a feasible start: steps of `h` (growing by the golden ratio) downhill from x until
  * the cost rises, is infeasible (+∞) or the bound is hit. Returns [a, b] holding the minimiser and the
  * best point seen. With a warm start near the optimum this replaces shrinking the whole physical bracket.
+ * Returns at once when a value at or below `stopBelow` is found.
  */
 export function bracketFrom(
-  f: (x: number) => number, x: number, fx: number, h: number, lo: number, hi: number,
+  f: (x: number) => number, x: number, fx: number, h: number, lo: number, hi: number, stopBelow = -Infinity,
 ): { a: number; b: number; x: number; fx: number } {
   const GROW = 1.618033988749895;
   const up = Math.min(hi, x + h);
   const fUp = up > x ? f(up) : Infinity;
+  if (fUp <= stopBelow) return { a: x, b: up, x: up, fx: fUp };
   if (fUp < fx) {
     let a = x;
     let xb = up;
@@ -92,6 +94,7 @@ export function bracketFrom(
       step *= GROW;
       const nx = Math.min(hi, xb + step);
       const fn = f(nx);
+      if (fn <= stopBelow) return { a: xb, b: nx, x: nx, fx: fn };
       if (!(fn < fb)) return { a, b: nx, x: xb, fx: fb };
       a = xb;
       xb = nx;
@@ -101,6 +104,7 @@ export function bracketFrom(
   }
   const down = Math.max(lo, x - h);
   const fDown = down < x ? f(down) : Infinity;
+  if (fDown <= stopBelow) return { a: down, b: x, x: down, fx: fDown };
   if (fDown < fx) {
     let b = x;
     let xb = down;
@@ -110,6 +114,7 @@ export function bracketFrom(
       step *= GROW;
       const nx = Math.max(lo, xb - step);
       const fn = f(nx);
+      if (fn <= stopBelow) return { a: nx, b: xb, x: nx, fx: fn };
       if (!(fn < fb)) return { a: nx, b, x: xb, fx: fb };
       b = xb;
       xb = nx;

@@ -156,15 +156,26 @@ export class DescentProgram {
     assertMasked(step.phi, masks.phi, 'Φ');
     assertMasked(step.uNow, masks.uNow, 'Γ⁻');
     assertMasked(step.uNext, masks.uNext, 'Γ⁺');
+    // Per state row: the (column offset, value) pairs of Φ, Γ⁻ (node k) and Γ⁺ (node k + 1) in the pattern.
+    const rowTerms: { now: number[]; nowVal: number[]; next: number[]; nextVal: number[] }[] = [];
+    for (let i = 0; i < 6; i++) {
+      const t = { now: [] as number[], nowVal: [] as number[], next: [] as number[], nextVal: [] as number[] };
+      for (let j = 0; j < 6; j++) if (masks.phi[i * 6 + j]) { t.now.push(j); t.nowVal.push(-step.phi[i * 6 + j]); }
+      for (let j = 0; j < 3; j++) {
+        if (masks.uNow[i * 3 + j]) { t.now.push(NODE.u + j); t.nowVal.push(-step.uNow[i * 3 + j]); }
+        if (masks.uNext[i * 3 + j]) { t.next.push(NODE.u + j); t.nextVal.push(-step.uNext[i * 3 + j]); }
+      }
+      rowTerms.push(t);
+    }
     for (let k = 0; k + 1 < N; k++) {
+      const o0 = k * NODE.size;
+      const o1 = o0 + NODE.size;
       for (let i = 0; i < 6; i++) {
         const r = e.eqRow(rowScaleState(i));
-        e.a(r, idx(k + 1, i), 1);
-        for (let j = 0; j < 6; j++) if (masks.phi[i * 6 + j]) e.a(r, idx(k, j), -step.phi[i * 6 + j]);
-        for (let j = 0; j < 3; j++) {
-          if (masks.uNow[i * 3 + j]) e.a(r, idx(k, NODE.u + j), -step.uNow[i * 3 + j]);
-          if (masks.uNext[i * 3 + j]) e.a(r, idx(k + 1, NODE.u + j), -step.uNext[i * 3 + j]);
-        }
+        const t = rowTerms[i];
+        e.a(r, o1 + i, 1);
+        for (let q = 0; q < t.now.length; q++) e.a(r, o0 + t.now[q], t.nowVal[q]);
+        for (let q = 0; q < t.next.length; q++) e.a(r, o1 + t.next[q], t.nextVal[q]);
         e.b(r, step.gravityTerm[i]);
       }
       const r = e.eqRow(1);

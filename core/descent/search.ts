@@ -4,8 +4,9 @@
  * 1. Bracket t_f from physics (bracket.ts).
  * 2. Find a feasible t_f: the warm-start guess (a neighbour's t_f) first, then a few probe points.
  *    Each infeasible probe carries the solver's infeasibility certificate.
- * 3. Bracket the minimum by steps downhill from that point, then Brent's method inside the bracket
- *    (infeasible = +∞, see brent.ts).
+ * 3. Minimise from that point: by default a safeguarded secant search on the slope dP/dt_f, which the
+ *    dual solution gives by the envelope theorem (secant.ts); otherwise steps downhill to a bracket and
+ *    Brent's method inside it (brent.ts). Infeasible times count as +∞ in both.
  * If no probe is feasible, the minimum-landing-error problem (Blackmore et al. 2010), feasible over a much
  * wider range of t_f, is searched the same way; a zero miss means the probes stepped over a narrow
  * feasible window, and the
@@ -18,7 +19,10 @@ import type { Vec3 } from './constants.ts';
 import { timeOfFlightBracket } from './bracket.ts';
 import type { TimeBracket } from './bracket.ts';
 import { bracketFrom, brentMinimise } from './brent.ts';
+import { secantMinimise } from './secant.ts';
+import type { Probe } from './secant.ts';
 import type { ProgramKind } from './program.ts';
+import { NODE } from './program.ts';
 import type { IgnitionState } from './setup.ts';
 import type { DescentSolver, FixedTimeSolve } from './solver.ts';
 import type { DecodedTrajectory } from './trajectory.ts';
@@ -32,12 +36,17 @@ export interface SearchOptions {
   /** Probe times as multiples of the bracket's lower bound, tried when the guess is infeasible. */
   probes?: readonly number[];
   /** How many of the start times the minimum-propellant problem tries before the minimum-landing-error
-   * search takes over to locate the feasible window (or prove the target unreachable). Default 3. */
+   * search takes over to locate the feasible window (or prove the target unreachable). Default 1 with a
+   * usable warm start (the guess itself), else 3. */
   propellantProbes?: number;
   /** Cap on solves per target (all phases). Default 60. */
   maxSolves?: number;
   /** Override the physical bracket. */
   bracket?: TimeBracket;
+  /** Use the envelope-theorem slope dP/dt_f in the minimum-propellant search (default true); false: Brent. */
+  useDerivative?: boolean;
+  /** Stop the slope search once the remaining propellant gain is bounded below this, kg. Default 0.01. */
+  propellantTolerance?: number;
   /** Decode the trajectory of the result (default true). */
   decode?: boolean;
 }
@@ -72,10 +81,10 @@ export interface DescentResult {
 
 /**
  * Probe times as multiples of the bracket's lower bound, in the order tried (capped at the upper bound).
- * A heuristic: minimum-propellant times of flight seen in our checks sit at about 1.6–1.9 × the
- * lower bound; the list then widens outwards.
+ * A heuristic: the minimum-propellant times of flight in our checks sit at 1.7–2.6 × the lower bound
+ * (Açıkmeşe 2007 example 1.7–1.85, demo study 2.3, our Moon scenarios 2.5–2.6); the list then widens.
  */
-export const DEFAULT_PROBES: readonly number[] = [1.75, 1.55, 1.95, 1.4, 2.2, 1.25, 2.6, 1.1, 3.2, 4, 5.5, 8];
+export const DEFAULT_PROBES: readonly number[] = [2.3, 1.9, 2.7, 1.6, 3.2, 1.35, 4, 1.15, 5.5, 8];
 
 interface Phase {
   best: FixedTimeSolve | null;
@@ -90,6 +99,7 @@ interface Phase {
 function runPhase(
   solver: DescentSolver, kind: ProgramKind, target: Vec3, ignition: IgnitionState, br: TimeBracket,
   starts: number[], tol: number, budget: () => number, knownInfeasible: readonly number[] = [], stopBelow = -Infinity,
+  useDerivative = true, propellantTolerance = 0,
 ): Phase {
   const cache = new Map<number, FixedTimeSolve>();
   const statuses: SolveStatus[] = [];
@@ -133,10 +143,22 @@ function runPhase(
   let res: { x: number };
   if (cost(start) <= stopBelow) {
     res = { x: x0 };
+  } else if (useDerivative) {
+    // Envelope-theorem slope at every solved point: a safeguarded slope search (secant.ts). For the
+    // landing-error problem the cost is the objective in metres (miss plus the tiny propellant tie-break).
+    const L = solver.scales.length;
+    const probe = (tf: number): Probe => {
+      const r = evalAt(tf);
+      if (!isSolved(r.status)) return { feasible: false, f: Infinity, g: NaN };
+      if (kind === 'min-propellant') return { feasible: true, f: r.propellant, g: solver.timeDerivative(r, target, ignition) };
+      return { feasible: true, f: r.solution.info.primalObjective * L, g: solver.objectiveSlope(r, target, ignition) * L, stop: r.miss <= stopBelow };
+    };
+    const step = Math.max(4 * tol, LOCAL_STEP_FRACTION * x0);
+    res = secantMinimise(probe, x0, probe(x0), lo, hi, tol, step, Math.max(0, budget()), kind === 'min-propellant' ? propellantTolerance : 0);
   } else {
     // Local bracket around the (often warm-started) feasible point, then Brent inside it.
     const step = Math.max(4 * tol, LOCAL_STEP_FRACTION * x0);
-    const br = bracketFrom(f, x0, cost(start), step, lo, hi);
+    const br = bracketFrom(f, x0, cost(start), step, lo, hi, stopBelow);
     res = brentMinimise(f, br.a, br.b, br.x, br.fx, tol, Math.max(0, budget()), stopBelow);
   }
   const best = cache.get(res.x) ?? start;
@@ -170,7 +192,9 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
     });
   };
 
-  const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts.slice(0, options.propellantProbes ?? 3), tol, budget);
+  const useDerivative = options.useDerivative ?? true;
+  const propTol = options.propellantTolerance ?? 0.01;
+  const fuel = runPhase(solver, 'min-propellant', target, ignition, br, starts.slice(0, options.propellantProbes ?? (starts[0] === options.tfGuess ? 1 : 3)), tol, budget, [], -Infinity, useDerivative, propTol);
   if (fuel.best) return finish(fuel.best, fuel, { status: 'solved' });
 
   const missTolerance = 1e-6 * solver.scales.length + 1e-3;
@@ -187,14 +211,17 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
     // Minimum-landing-error infeasible ⇒ minimum-propellant infeasible (the latter is a restriction).
     // So is it wherever the smallest landing error is positive.
     const known = [...fuel.infeasibleTimes, ...err.infeasibleTimes, ...err.solvedTimes.filter((t) => t.miss > missTolerance).map((t) => t.timeOfFlight)];
-    const again = runPhase(solver, 'min-propellant', target, ignition, br, [err.best.timeOfFlight], tol, budget, known);
+    const again = runPhase(solver, 'min-propellant', target, ignition, br, [err.best.timeOfFlight], tol, budget, known, -Infinity, useDerivative, propTol);
     if (again.best) return finish(again.best, again, { status: 'solved' });
   }
-  const traj = decodeTrajectory(solver.program('min-landing-error'), err.best.solution.x, err.best.timeOfFlight, target);
+  const prog = solver.program('min-landing-error');
+  const last = (solver.setup.nodes - 1) * NODE.size + NODE.r;
+  const x = err.best.solution.x;
+  const closestPoint: Vec3 = [prog.value(x, last), prog.value(x, last + 1), prog.value(x, last + 2) - solver.setup.constraints.gateHeight];
   const status: DescentStatus = fuel.failures > 0 && fuel.statuses.every((s) => !isInfeasible(s)) ? 'solver-failure' : 'unreachable';
   return finish(err.best, { ...err, statuses: fuel.statuses }, {
     status,
-    closestPoint: traj.landing,
+    closestPoint,
     miss: err.best.miss,
     failures: fuel.failures + err.failures,
   });

@@ -81,4 +81,42 @@ export class DescentSolver {
     }
     return { kind, timeOfFlight, status: solution.status, propellant, miss, solution };
   }
+
+  /**
+   * dJ/dt_f at a solved point, J the problem's objective in solver units, by the envelope theorem: with
+   * Aᵀy + Gᵀz + c = 0 at the optimum, dJ/dt_f = ∂L/∂t_f = yᵀ(A′x − b′) + zᵀ(G′x − h′), where the data
+   * derivatives come from central differences of the problem refresh (no extra solve). NaN unless solved.
+   */
+  objectiveSlope(r: FixedTimeSolve, target: Vec3, ignition: IgnitionState): number {
+    if (!(r.status === 'solved' || r.status === 'almost-solved')) return NaN;
+    const e = this.programs.get(r.kind)!;
+    const P = e.program.problem;
+    const eps = 1e-5 * r.timeOfFlight;
+    const { x, y, z } = r.solution;
+    // L(t) = yᵀ(A(t)x − b(t)) + zᵀ(G(t)x − h(t)) at the fixed solution; dJ/dt_f = L′(t_f) (central difference).
+    const lagrangianTerms = (tf: number) => {
+      e.program.update({ timeOfFlight: tf, target, ignition });
+      let sum = 0;
+      for (let i = 0; i < P.b.length; i++) sum -= y[i] * P.b[i];
+      for (let i = 0; i < P.h.length; i++) sum -= z[i] * P.h[i];
+      for (const [M, w] of [[P.A, y], [P.G, z]] as const) {
+        for (let j = 0; j < M.n; j++) {
+          const xj = x[j];
+          if (xj === 0) continue;
+          for (let q = M.colPtr[j]; q < M.colPtr[j + 1]; q++) sum += w[M.rowIdx[q]] * M.values[q] * xj;
+        }
+      }
+      return sum;
+    };
+    return (lagrangianTerms(r.timeOfFlight + eps) - lagrangianTerms(r.timeOfFlight - eps)) / (2 * eps);
+  }
+
+  /**
+   * dPropellant/dt_f at a solved minimum-propellant point, kg/s: J = −z_N, so dP/dt_f = e^{z_N} dJ/dt_f.
+   * NaN unless `r` is a solved minimum-propellant result.
+   */
+  timeDerivative(r: FixedTimeSolve, target: Vec3, ignition: IgnitionState): number {
+    if (r.kind !== 'min-propellant') return NaN;
+    return (ignition.mass - r.propellant) * this.objectiveSlope(r, target, ignition);
+  }
 }

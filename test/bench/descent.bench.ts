@@ -35,8 +35,12 @@ export async function benchDescent(): Promise<Record<string, number>> {
   const setup = { ...d.setup, nodes: 50 };
   const grid = targets(5, 300);
   const ours = new DescentSolver(setup, landreachConicBackend(), d.ignition);
-  // Warm-up (JIT) on the nominal target.
+  // Warm-up (JIT) on the nominal target, then one cold search (no neighbour) timed on a fresh solver.
   searchFreeFinalTime(ours, [0, 0, 0], d.ignition, { decode: false });
+  const coldSolver = new DescentSolver(setup, landreachConicBackend(), d.ignition);
+  const tc = performance.now();
+  searchFreeFinalTime(coldSolver, [150, -150, 0], d.ignition, { decode: false });
+  const coldMs = performance.now() - tc;
   let tfGuess: number | undefined;
   const solvesBefore = ours.solves;
   let solved = 0;
@@ -65,6 +69,8 @@ export async function benchDescent(): Promise<Record<string, number>> {
     'descent.solvesPerTarget': oursSolves / grid.length,
     'descent.msPerSolve': oursMs / oursSolves,
     'descent.refreshUsPerSolve': refreshUs,
+    'descent.cold.msPerTarget': coldMs,
+    'descent.cold.solvesPerTarget': coldSolver.solves,
   };
 
   if (cvxoptAvailable()) {

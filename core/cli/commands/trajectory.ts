@@ -14,9 +14,15 @@ import { searchFreeFinalTime } from '../../descent/search.ts';
 import type { DescentResult } from '../../descent/search.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { discretisationCheck } from '../../descent/refine.ts';
+import { polynomialGuidance } from '../../descent/baselines/polynomial.ts';
+import { gravityTurn } from '../../descent/baselines/gravityTurn.ts';
 import type { Vec3 } from '../../descent/constants.ts';
-import { CAUTION } from '../../study/provenance.ts';
+import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 
+export interface BaselineFigures {
+  polynomial: { propellant_kg: number | null; tf_s: number | null; miss_m: number | null; velocity_error_mps: number | null; saturated_fraction: number | null };
+  gravity_turn: { propellant_kg: number | null; tf_s: number | null; landing_m: number[]; touchdown_speed_mps: number | null; out_of_propellant: boolean };
+}
 
 const USAGE = `Usage: landreach trajectory STUDY.json [options]
 
@@ -27,7 +33,9 @@ Options:
   --target X,Y[,Z]   target in metres east, north (and up) of the nominal target (default: the study's)
   --json FILE        write the full result as JSON (status, propellant_kg, tf_s, series, ...)
   --csv FILE         write the time series as CSV (one row per node)
-  --no-refine        skip the discretisation check (the same target solved again with 2N nodes)
+  --no-refine        skip the discretisation check (the same target solved again with 2N − 1 nodes)
+  --baselines        also fly polynomial guidance to the target and a gravity-turn soft landing,
+                     for comparison with the optimum (propellant, miss, landing point)
 
 Exit codes: 0 solved or unreachable (see "status"), 1 solver failure, 2 bad usage or bad study file.
 
@@ -39,10 +47,11 @@ interface Options {
   json: string | null;
   csv: string | null;
   refine: boolean;
+  baselines: boolean;
 }
 
 function parseArgs(args: string[]): Options {
-  const o: Options = { study: '', target: null, json: null, csv: null, refine: true };
+  const o: Options = { study: '', target: null, json: null, csv: null, refine: true, baselines: false };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
     const value = () => {
@@ -60,6 +69,7 @@ function parseArgs(args: string[]): Options {
     } else if (a === '--json') o.json = value();
     else if (a === '--csv') o.csv = value();
     else if (a === '--no-refine') o.refine = false;
+    else if (a === '--baselines') o.baselines = true;
     else if (a.startsWith('--')) throw new UsageError(`unknown option '${a}' (see landreach trajectory --help)`);
     else if (!o.study) o.study = a;
     else throw new UsageError(`unexpected argument '${a}': give one study file`);
@@ -71,7 +81,10 @@ function parseArgs(args: string[]): Options {
 const round = (v: number, digits = 6) => (Number.isFinite(v) ? Number(v.toPrecision(digits + 3)) : null);
 const deg = (rad: number) => (rad * 180) / Math.PI;
 
-export function resultToJson(study: Study, r: DescentResult, nodes: number, refine: { nodes: number; propellant: number } | null) {
+export function resultToJson(
+  study: Study, r: DescentResult, nodes: number, refine: { nodes: number; propellant: number } | null,
+  baselines: BaselineFigures | null = null, hash = '',
+) {
   const t = r.trajectory;
   const s = t?.series;
   const arr = (a: Float64Array | undefined, f: (v: number) => number = (v) => v) => (a ? Array.from(a, (v) => round(f(v))) : []);
@@ -79,7 +92,11 @@ export function resultToJson(study: Study, r: DescentResult, nodes: number, refi
     format: 'landreach-trajectory',
     version: 1,
     caution: CAUTION,
+    appVersion: APP_VERSION,
+    createdAt: new Date().toISOString(),
     study: study.name,
+    /** SHA-256 of the study and the target: equal inputs, equal hash. */
+    inputsHash: hash,
     status: r.status,
     problem: r.kind,
     propellant_kg: round(r.propellant),
@@ -108,6 +125,7 @@ export function resultToJson(study: Study, r: DescentResult, nodes: number, refi
     discretisation_check: refine
       ? { nodes: refine.nodes, propellant_kg: round(refine.propellant), difference_kg: round(r.propellant - refine.propellant) }
       : null,
+    baselines,
     warnings: r.warnings,
     series: {
       t_s: arr(s?.t), x_m: arr(s?.x), y_m: arr(s?.y), z_m: arr(s?.z),
@@ -131,7 +149,7 @@ export function seriesToCsv(r: DescentResult): string {
   return lines.join('\n') + '\n';
 }
 
-function summary(r: DescentResult, refine: { nodes: number; propellant: number } | null, nodes: number): string {
+function summary(r: DescentResult, refine: { nodes: number; propellant: number } | null, nodes: number, baselines: BaselineFigures | null): string {
   const f = (v: number, d = 2) => (Number.isFinite(v) ? v.toFixed(d) : '—');
   const lines = [`status            ${r.status}`];
   if (r.status === 'unreachable' && r.closestPoint) {
@@ -146,6 +164,12 @@ function summary(r: DescentResult, refine: { nodes: number; propellant: number }
   }
   lines.push(`nodes, solves     ${nodes}, ${r.solves}`);
   if (refine) lines.push(`with ${refine.nodes} nodes     ${f(refine.propellant, 3)} kg (difference ${f(r.propellant - refine.propellant, 3)} kg)`);
+  if (baselines) {
+    const p = baselines.polynomial;
+    const g = baselines.gravity_turn;
+    lines.push(`polynomial        ${f(p.propellant_kg ?? NaN)} kg, miss ${f(p.miss_m ?? NaN, 1)} m, t_f ${f(p.tf_s ?? NaN)} s (guidance baseline)`);
+    lines.push(`gravity turn      ${f(g.propellant_kg ?? NaN)} kg, lands at ${f(g.landing_m[0], 0)} m E, ${f(g.landing_m[1], 0)} m N (no targeting)${g.out_of_propellant ? ', RUNS OUT OF PROPELLANT in the air' : ''}`);
+  }
   for (const w of r.warnings) lines.push(`warning: ${w}`);
   lines.push('', CAUTION, '');
   return lines.join('\n');
@@ -170,11 +194,23 @@ export const trajectoryCommand: CliCommand = {
     const r = searchFreeFinalTime(solver, target, d.ignition);
     const check = o.refine ? discretisationCheck(d.setup, landreachConicBackend(), d.ignition, target, r) : null;
     const refine = check ? { nodes: check.nodes, propellant: check.propellant } : null;
+    let baselines: BaselineFigures | null = null;
+    if (o.baselines) {
+      const p = polynomialGuidance(d.setup, d.ignition, target);
+      const g = gravityTurn(d.setup, d.ignition, target[2]);
+      baselines = {
+        polynomial: { propellant_kg: round(p.propellant), tf_s: round(p.timeOfFlight), miss_m: round(p.miss), velocity_error_mps: round(p.velocityError), saturated_fraction: round(p.saturatedFraction) },
+        gravity_turn: { propellant_kg: round(g.propellant), tf_s: round(g.timeOfFlight), landing_m: g.landing.map((v) => round(v) ?? NaN), touchdown_speed_mps: round(g.touchdownSpeed), out_of_propellant: g.outOfPropellant },
+      };
+    }
     const files: { path: string; text: string }[] = [];
-    if (o.json) files.push({ path: o.json, text: JSON.stringify(resultToJson(study, r, d.setup.nodes, refine), null, 1) + '\n' });
+    if (o.json) {
+      const hash = await inputsHash({ study, target });
+      files.push({ path: o.json, text: JSON.stringify(resultToJson(study, r, d.setup.nodes, refine, baselines, hash), null, 1) + '\n' });
+    }
     if (o.csv) files.push({ path: o.csv, text: seriesToCsv(r) });
     if (files.length) writeFilesAtomically(files);
-    io.stdout(summary(r, refine, d.setup.nodes));
+    io.stdout(summary(r, refine, d.setup.nodes, baselines));
     return r.status === 'solver-failure' ? 1 : 0;
   },
 };

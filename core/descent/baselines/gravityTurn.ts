@@ -29,6 +29,8 @@ export interface GravityTurnResult {
   /** Where the vehicle reaches the target's height (or the gate height), m. */
   landing: Vec3;
   touchdownSpeed: number;
+  /** True when the propellant ran out above the ground (landing and speed are then not a touchdown). */
+  outOfPropellant: boolean;
   samples: SimSample[];
 }
 
@@ -62,5 +64,6 @@ export function gravityTurn(setup: DescentSetup, ignition: IgnitionState, ground
   const lerp = (x: number, y: number) => x + f * (y - x);
   const landing: Vec3 = [lerp(a.r[0], b.r[0]), lerp(a.r[1], b.r[1]), floor - setup.constraints.gateHeight];
   const vEnd: Vec3 = [lerp(a.v[0], b.v[0]), lerp(a.v[1], b.v[1]), lerp(a.v[2], b.v[2])];
-  return { propellant: ignition.mass - lerp(a.m, b.m), timeOfFlight: lerp(a.t, b.t), landing, touchdownSpeed: norm3(vEnd), samples };
+  const outOfPropellant = b.r[2] > floor && b.m <= setup.vehicle.dryMass * (1 + 1e-9);
+  return { propellant: ignition.mass - lerp(a.m, b.m), timeOfFlight: lerp(a.t, b.t), landing, touchdownSpeed: norm3(vEnd), outOfPropellant, samples };
 }

@@ -58,6 +58,12 @@ describe('polynomial guidance (Klumpp 1974 form)', () => {
 });
 
 describe('gravity turn', () => {
+  it('says so when the propellant runs out in the air', () => {
+    const setup: DescentSetup = { ...strong, vehicle: { ...strong.vehicle, dryMass: 995 } }; // 5 kg of propellant
+    const res = gravityTurn(setup, { position: [0, 0, 3000], velocity: [0, 0, -80], mass: 1000 });
+    expect(res.outOfPropellant).toBe(true);
+  });
+
   it('on schedule and vertical, matches the constant-deceleration rocket-equation result', () => {
     // Vertical fall starting on the schedule v = √(v_t² + 2 a_s h): constant deceleration a_s for
     // t_b = (v0 − v_t)/a_s with thrust acceleration a_s + g, so m = m0 exp(−α (a_s + g) t_b)
@@ -77,6 +83,7 @@ describe('gravity turn', () => {
 
   it('lands the demo vehicle softly, away from the target (no targeting)', () => {
     const res = gravityTurn(demo.setup, demo.ignition);
+    expect(res.outOfPropellant).toBe(false);
     expect(res.touchdownSpeed).toBeLessThan(2);
     expect(Math.hypot(res.landing[0], res.landing[1])).toBeGreaterThan(100);
   });

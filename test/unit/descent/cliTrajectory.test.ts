@@ -17,13 +17,14 @@ describe('landreach trajectory', () => {
   it('solves the demo study and writes JSON and CSV', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'lr-traj-'));
     const { io, out } = fakeIo();
-    const code = await main(['trajectory', demoPath, '--target', '300,-150', '--json', join(dir, 'r.json'), '--csv', join(dir, 'r.csv'), '--no-refine'], io);
+    const code = await main(['trajectory', demoPath, '--target', '300,-150', '--json', join(dir, 'r.json'), '--csv', join(dir, 'r.csv'), '--no-refine', '--baselines'], io);
     expect(code).toBe(0);
     expect(out.join('')).toMatch(/status\s+solved/);
     expect(out.join('')).toMatch(/not flight software/);
     const json = JSON.parse(readFileSync(join(dir, 'r.json'), 'utf8'));
     expect(json.status).toBe('solved');
     expect(json.nodes).toBe(50);
+    expect(json.inputsHash).toMatch(/^[0-9a-f]{64}$/);
     expect(json.solves).toBeGreaterThan(0);
     expect(json.target_m).toEqual([300, -150, 0]);
     expect(json.series.t_s).toHaveLength(50);
@@ -32,6 +33,9 @@ describe('landreach trajectory', () => {
     expect(json.series.x_m[49]).toBeCloseTo(300, 3);
     expect(json.series.z_m[49]).toBeCloseTo(20, 3);
     expect(json.propellant_kg).toBeCloseTo(json.series.mass_kg[0] - json.series.mass_kg[49], 3);
+    expect(json.baselines.polynomial.propellant_kg).toBeGreaterThan(0);
+    expect(json.baselines.gravity_turn.touchdown_speed_mps).toBeLessThan(2);
+    expect(out.join('')).toMatch(/polynomial .* kg/);
     const csv = readFileSync(join(dir, 'r.csv'), 'utf8').trim().split('\n');
     expect(csv).toHaveLength(52); // caution comment, header, 50 nodes
     expect(readdirSync(dir).sort()).toEqual(['r.csv', 'r.json']); // no temporary files left
