@@ -13,14 +13,21 @@ import { makeTargetGrid, parseGridSize, type TargetGrid } from '../../footprint/
 import { ignitionAtAltitude, minimumAltitude, reserveStudy, type AltitudeStudyRow, type IgnitionRule } from '../../footprint/studies.ts';
 import { guaranteedDivertRadius, propellantRegions, regionBounds } from '../../footprint/contours.ts';
 import { TARGET } from '../../footprint/field.ts';
-import type { Study } from '../../study/index.ts';
+import { studyToDescent, type Study } from '../../study/index.ts';
+import { dispersionStudy, type DispersionSigmas } from '../../footprint/dispersion.ts';
+import { DescentSolver } from '../../descent/solver.ts';
+import { searchFreeFinalTime } from '../../descent/search.ts';
+import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 
-const USAGE = `Usage: landreach study reserve|ignition-altitude STUDY.json --out DIR [options]
+const USAGE = `Usage: landreach study reserve|ignition-altitude|dispersion STUDY.json --out DIR [options]
 
   reserve             one footprint; reachable area and guaranteed divert radius for each reserve
   ignition-altitude   a footprint per ignition altitude; guaranteed divert radius at the reserve, and the
                       lowest altitude meeting --required-radius-m
+  dispersion          Monte Carlo landing ellipse of the no-divert landing point: the nominal optimal
+                      thrust flown open loop from dispersed ignition states (the probability-of-reach map
+                      is not in this version)
 
 Common options:
   --out DIR             folder for study-<name>.csv and study-<name>.json
@@ -36,11 +43,16 @@ ignition-altitude:
                         fixed-flight-path-angle (slide along the ignition velocity's direction)
   --reserve-kg R        reserve to keep (default: the study's vehicle.propellantReserve_kg)
   --required-radius-m D divert radius the mission requires, m (reports the lowest altitude meeting it)
+dispersion (1σ values; the defaults are illustrative, not from any mission):
+  --samples N           Monte Carlo samples (default 1000)      --seed S        (default 1)
+  --probability P       ellipse probability (default 0.997; 2-D: 3.409σ)
+  --sigma-position-m    per axis (default 50)                   --sigma-velocity-mps  per axis (default 2)
+  --sigma-mass-kg       (default 5)      --sigma-thrust  fraction (default 0.01)   --sigma-isp  fraction (default 0.005)
 
 ${CAUTION}`;
 
 interface Common {
-  kind: 'reserve' | 'ignition-altitude';
+  kind: 'reserve' | 'ignition-altitude' | 'dispersion';
   study: string;
   out: string;
   grid: [number, number];
@@ -58,8 +70,8 @@ const LIST = (flag: string, text: string) => {
 
 function parse(args: string[]): Common {
   const [kind, ...rest] = args;
-  if (kind !== 'reserve' && kind !== 'ignition-altitude') {
-    throw new UsageError(`unknown study '${kind ?? ''}': choose reserve or ignition-altitude (see landreach study --help)`);
+  if (kind !== 'reserve' && kind !== 'ignition-altitude' && kind !== 'dispersion') {
+    throw new UsageError(`unknown study '${kind ?? ''}': choose reserve, ignition-altitude or dispersion (see landreach study --help)`);
   }
   const o: Common = {
     kind,
@@ -71,7 +83,13 @@ function parse(args: string[]): Common {
     nodes: FOOTPRINT_NODES,
     values: {},
   };
-  const known = new Set(kind === 'reserve' ? ['reserves'] : ['altitudes', 'rule', 'reserve-kg', 'required-radius-m']);
+  const known = new Set(
+    kind === 'reserve'
+      ? ['reserves']
+      : kind === 'ignition-altitude'
+        ? ['altitudes', 'rule', 'reserve-kg', 'required-radius-m']
+        : ['samples', 'seed', 'probability', 'sigma-position-m', 'sigma-velocity-mps', 'sigma-mass-kg', 'sigma-thrust', 'sigma-isp'],
+  );
   for (let i = 0; i < rest.length; i++) {
     const a = rest[i];
     const value = () => {
@@ -176,6 +194,45 @@ async function runAltitude(o: Common, study: Study, io: CliIo) {
   return { rows, csv, cancelled, extra: { rule: ruleName, reserve_kg: reserve, requiredRadius_m: required, minimumAltitude: minimum } };
 }
 
+async function runDispersion(o: Common, study: Study) {
+  const numberOpt = (name: string, fallback: number, check: (v: number) => boolean, fix: string) => {
+    const t = o.values[name];
+    if (t === undefined) return fallback;
+    const v = Number(t);
+    if (!check(v)) throw new UsageError(`--${name} ${t}: ${fix}`);
+    return v;
+  };
+  const nonNeg = (v: number) => Number.isFinite(v) && v >= 0;
+  const samples = numberOpt('samples', 1000, (v) => Number.isInteger(v) && v >= 10 && v <= 100000, 'must be a whole number from 10 to 100000');
+  const seed = numberOpt('seed', 1, (v) => Number.isInteger(v) && v >= 0, 'must be a whole number ≥ 0');
+  const probability = numberOpt('probability', 0.997, (v) => v > 0 && v < 1, 'must be between 0 and 1, e.g. 0.997');
+  const sigmas: DispersionSigmas = {
+    position_m: numberOpt('sigma-position-m', 50, nonNeg, 'must be zero or a positive distance in metres'),
+    velocity_mps: numberOpt('sigma-velocity-mps', 2, nonNeg, 'must be zero or a positive speed in m/s'),
+    mass_kg: numberOpt('sigma-mass-kg', 5, nonNeg, 'must be zero or a positive mass in kg'),
+    thrustFraction: numberOpt('sigma-thrust', 0.01, nonNeg, 'must be zero or a positive fraction, e.g. 0.01'),
+    ispFraction: numberOpt('sigma-isp', 0.005, nonNeg, 'must be zero or a positive fraction, e.g. 0.005'),
+  };
+  const d = studyToDescent(study);
+  const setup = { ...d.setup, nodes: o.nodes };
+  const solver = new DescentSolver(setup, landreachConicBackend(), d.ignition);
+  const nominal = searchFreeFinalTime(solver, d.target, d.ignition);
+  if (nominal.status !== 'solved' || !nominal.trajectory) {
+    throw new UsageError(`the nominal target is ${nominal.status} from the study's ignition state: a dispersion study needs a nominal trajectory`);
+  }
+  const r = dispersionStudy(setup, d.ignition, nominal.trajectory.series, sigmas, { samples, seed, probability });
+  const csv = [`# ${CAUTION}`, 'sample,landing_east_m,landing_north_m'];
+  for (let i = 0; i < r.samples; i++) csv.push([i, csvNum(r.landingEast_m[i], 2), csvNum(r.landingNorth_m[i], 2)].join(','));
+  const e = r.ellipse;
+  return {
+    rows: [{ ...e }],
+    csv,
+    cancelled: false,
+    extra: { sigmas, samples, seed, nominalPropellant_kg: nominal.propellant, nominalTimeOfFlight_s: nominal.timeOfFlight, model: 'nominal optimal thrust flown open loop; landing point at the end of powered descent' },
+    summaryLine: `${(probability * 100).toFixed(1)} % landing ellipse: ${e.semiMajor_m.toFixed(1)} × ${e.semiMinor_m.toFixed(1)} m (semi-axes), major axis ${e.orientation_deg.toFixed(1)}° from east, centre ${e.centreEast_m.toFixed(1)} m east, ${e.centreNorth_m.toFixed(1)} m north`,
+  };
+}
+
 export const studyCommand: CliCommand = {
   name: 'study',
   summary: 'trade studies: reserve (area and divert radius vs reserve), ignition-altitude (divert radius vs altitude)',
@@ -183,7 +240,8 @@ export const studyCommand: CliCommand = {
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parse(args);
     const study = readStudy(o.study);
-    const result = o.kind === 'reserve' ? await runReserve(o, study, io) : await runAltitude(o, study, io);
+    const result: { rows: unknown[]; csv: string[]; cancelled: boolean; extra: Record<string, unknown>; summaryLine?: string } =
+      o.kind === 'reserve' ? await runReserve(o, study, io) : o.kind === 'ignition-altitude' ? await runAltitude(o, study, io) : await runDispersion(o, study);
     mkdirSync(o.out, { recursive: true });
     const inputs = { study, kind: o.kind, grid: o.grid, extent_m: o.extent, nodes: o.nodes, options: o.values };
     const report = {
@@ -204,9 +262,10 @@ export const studyCommand: CliCommand = {
       { path: `${base}.csv`, text: result.csv.join('\n') + '\n' },
       { path: `${base}.json`, text: JSON.stringify(report, null, 1) },
     ]);
-    io.stdout(result.csv.slice(1).join('\n') + '\n');
+    if (result.summaryLine) io.stdout(result.summaryLine + '\n');
+    else io.stdout(result.csv.slice(1).join('\n') + '\n');
     if ('minimumAltitude' in result.extra && result.extra.requiredRadius_m !== null) {
-      const m = result.extra.minimumAltitude;
+      const m = result.extra.minimumAltitude as { altitude_m: number; bracketed: boolean } | null;
       io.stdout(
         m === null
           ? `no sampled altitude meets a ${result.extra.requiredRadius_m} m divert radius with ${result.extra.reserve_kg} kg in reserve\n`

@@ -46,10 +46,23 @@ describe('landreach study', () => {
     expect(h.out.join('')).toMatch(/lowest ignition altitude|no sampled altitude/);
   }, 120_000);
 
+  it('dispersion: writes the landing points and the ellipse; bad sigmas are named', async () => {
+    const h = io();
+    const code = await main(['study', 'dispersion', DEMO, '--out', dir, '--samples', '100', '--seed', '5', '--sigma-thrust', '0'], h.io);
+    expect(code, h.err.join('')).toBe(0);
+    const report = JSON.parse(readFileSync(join(dir, 'study-dispersion.json'), 'utf8'));
+    expect(report.rows[0].probability).toBe(0.997);
+    expect(report.rows[0].semiMajor_m).toBeGreaterThanOrEqual(report.rows[0].semiMinor_m);
+    expect(readFileSync(join(dir, 'study-dispersion.csv'), 'utf8').trim().split('\n')).toHaveLength(102);
+    const g = io();
+    expect(await main(['study', 'dispersion', DEMO, '--out', dir, '--sigma-mass-kg', '-3'], g.io)).toBe(2);
+    expect(g.err.join('')).toMatch(/--sigma-mass-kg -3: must be zero or a positive mass in kg/);
+  }, 60_000);
+
   it('rejects an unknown study and options of the other study', async () => {
     const h = io();
     expect(await main(['study', 'dispersal', DEMO, '--out', dir], h.io)).toBe(2);
-    expect(h.err.join('')).toMatch(/unknown study 'dispersal': choose reserve or ignition-altitude/);
+    expect(h.err.join('')).toMatch(/unknown study 'dispersal': choose reserve, ignition-altitude or dispersion/);
     const g = io();
     expect(await main(['study', 'reserve', DEMO, '--out', dir, '--altitudes', '100'], g.io)).toBe(2);
     expect(g.err.join('')).toMatch(/unknown option '--altitudes' for the reserve study/);
