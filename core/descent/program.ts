@@ -30,13 +30,22 @@ import { FixedPatternProblem } from './assembler.ts';
 import type { DescentSetup, IgnitionState } from './setup.ts';
 import { deriveVehicle } from './vehicle.ts';
 
-export type ProgramKind = 'min-propellant' | 'min-landing-error';
+/**
+ * min-propellant: land on the target using least propellant. min-landing-error: land as close to the target
+ * as the vehicle can (Blackmore et al. 2010). max-divert: land as far along a horizontal direction as a
+ * propellant budget allows (the reach boundary of the footprint, one direction at a time).
+ */
+export type ProgramKind = 'min-propellant' | 'min-landing-error' | 'max-divert';
 
 /** Per-solve data: only values depend on it. */
 export interface ProgramData {
   readonly timeOfFlight: number;
   readonly target: Vec3;
   readonly ignition: IgnitionState;
+  /** max-divert: unit horizontal direction (east, north) to push the landing point along. */
+  readonly direction?: readonly [number, number];
+  /** max-divert: propellant that may be used, kg. */
+  readonly propellantBudget?: number;
 }
 
 /** Field offsets inside one node's block of variables. */
@@ -246,6 +255,16 @@ export class DescentProgram {
       e.g(r, idx(last, NODE.z), -1);
       e.h(r, -Math.log(veh.dryMass));
     }
+    if (kind === 'max-divert') {
+      // Propellant ≤ budget ⇔ z_final ≥ ln(m0 − budget).
+      const budget = d.propellantBudget;
+      if (budget === undefined || !(budget > 0) || !(m0 - budget > 0)) {
+        throw new RangeError(`propellantBudget: ${budget} kg (max-divert needs a budget between 0 and the ignition mass)`);
+      }
+      const r = e.orthRow(1);
+      e.g(r, idx(last, NODE.z), -1);
+      e.h(r, -Math.log(m0 - budget));
+    }
     if (con.minAltitude !== null) {
       for (let k = 1; k < last; k++) {
         const r = e.orthRow(1 / S.length);
@@ -303,6 +322,13 @@ export class DescentProgram {
       }
       e.c(this.errorVariable, 1 / S.length);
       e.c(idx(last, NODE.z), -MIN_ERROR_PROPELLANT_WEIGHT);
+    } else if (kind === 'max-divert') {
+      const dir = d.direction;
+      if (!dir || !(Math.abs(Math.hypot(dir[0], dir[1]) - 1) < 1e-9)) {
+        throw new RangeError(`direction: ${dir ? `[${dir.join(', ')}]` : 'missing'} (max-divert needs a unit east–north direction)`);
+      }
+      e.c(idx(last, NODE.r), -dir[0] / S.length);
+      e.c(idx(last, NODE.r + 1), -dir[1] / S.length);
     } else {
       e.c(idx(last, NODE.z), -1);
     }

@@ -50,6 +50,9 @@ export class DescentSolver {
   }
 
   private entry(kind: ProgramKind, data: ProgramData) {
+    if (kind === 'max-divert' && data.direction === undefined) {
+      data = { ...data, direction: [1, 0], propellantBudget: 0.5 * (data.ignition.mass - this.setup.vehicle.dryMass) };
+    }
     let e = this.programs.get(kind);
     if (!e) {
       const program = new DescentProgram(this.setup, kind, data, this.scales);
@@ -59,9 +62,15 @@ export class DescentSolver {
     return e;
   }
 
-  /** Solves one fixed-final-time problem. */
-  solveFixed(kind: ProgramKind, timeOfFlight: number, target: Vec3, ignition: IgnitionState): FixedTimeSolve {
-    const data: ProgramData = { timeOfFlight, target, ignition };
+  /** Solves one fixed-final-time problem (`extra`: the direction and budget of a max-divert problem). */
+  solveFixed(
+    kind: ProgramKind,
+    timeOfFlight: number,
+    target: Vec3,
+    ignition: IgnitionState,
+    extra: Pick<ProgramData, 'direction' | 'propellantBudget'> = {},
+  ): FixedTimeSolve {
+    const data: ProgramData = { timeOfFlight, target, ignition, ...extra };
     const e = this.entry(kind, data);
     e.session.update(e.program.update(data));
     const warm = this.warmStart && e.last ? e.last : undefined;

@@ -148,3 +148,28 @@ export function guaranteedDivertRadius(
 export function regionBounds(field: FootprintField): [number, number, number, number] {
   return [field.east[0], field.north[0], field.east[field.nx - 1], field.north[field.ny - 1]];
 }
+
+/**
+ * Distance from (x0, y0) along the unit direction (dx, dy) to the farthest crossing of the region's
+ * boundary (0 when the ray never crosses it).
+ */
+export function rayBoundaryDistance(g: MultiPolygon, x0: number, y0: number, dx: number, dy: number): number {
+  let best = 0;
+  for (const poly of g.coordinates) {
+    for (const ring of poly) {
+      for (let k = 0; k < ring.length; k++) {
+        const [ax, ay] = ring[k];
+        const [bx, by] = ring[(k + 1) % ring.length];
+        const ex = bx - ax;
+        const ey = by - ay;
+        const den = dx * ey - dy * ex;
+        if (den === 0) continue;
+        // x0 + t d = a + s e  ⇒  t = ((a − x0) × e) / (d × e), s = ((a − x0) × d) / (d × e)
+        const t = ((ax - x0) * ey - (ay - y0) * ex) / den;
+        const s = ((ax - x0) * dy - (ay - y0) * dx) / den;
+        if (t > 0 && s >= 0 && s <= 1 && t > best) best = t;
+      }
+    }
+  }
+  return best;
+}
