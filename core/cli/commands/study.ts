@@ -11,7 +11,8 @@ import { readStudy, writeFilesAtomically } from '../files.ts';
 import { FOOTPRINT_NODES, runStudyFootprint } from '../footprintRun.ts';
 import { makeTargetGrid, parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
 import { ignitionAtAltitude, minimumAltitude, reserveStudy, type AltitudeStudyRow, type IgnitionRule } from '../../footprint/studies.ts';
-import { guaranteedDivertRadius, propellantRegions, regionBounds } from '../../footprint/contours.ts';
+import { guaranteedDivertRadius, propellantRegions, regionBounds, ringArea } from '../../footprint/contours.ts';
+import { reachBoundary } from '../../descent/reach.ts';
 import { TARGET } from '../../footprint/field.ts';
 import { studyToDescent, type Study } from '../../study/index.ts';
 import { dispersionStudy, type DispersionSigmas } from '../../footprint/dispersion.ts';
@@ -43,6 +44,9 @@ ignition-altitude:
                         fixed-flight-path-angle (slide along the ignition velocity's direction)
   --reserve-kg R        reserve to keep (default: the study's vehicle.propellantReserve_kg)
   --required-radius-m D divert radius the mission requires, m (reports the lowest altitude meeting it)
+  --method M            directions (default: the reach boundary along --directions K directions, 24 by
+                        default, from max-divert cone programs — far fewer solves) or grid (a footprint
+                        per altitude on --grid / --extent-m; its radius is limited by the grid's extent)
 dispersion (1σ values; the defaults are illustrative, not from any mission):
   --samples N           Monte Carlo samples (default 1000)      --seed S        (default 1)
   --probability P       ellipse probability (default 0.997; 2-D: 3.409σ)
@@ -87,7 +91,7 @@ function parse(args: string[]): Common {
     kind === 'reserve'
       ? ['reserves']
       : kind === 'ignition-altitude'
-        ? ['altitudes', 'rule', 'reserve-kg', 'required-radius-m']
+        ? ['altitudes', 'rule', 'reserve-kg', 'required-radius-m', 'method', 'directions']
         : ['samples', 'seed', 'probability', 'sigma-position-m', 'sigma-velocity-mps', 'sigma-mass-kg', 'sigma-thrust', 'sigma-isp'],
   );
   for (let i = 0; i < rest.length; i++) {
@@ -158,6 +162,12 @@ async function runAltitude(o: Common, study: Study, io: CliIo) {
   if (!(reserve >= 0 && reserve < usable)) throw new UsageError(`--reserve-kg ${o.values['reserve-kg']}: must be from 0 up to below ${usable} kg`);
   const required = o.values['required-radius-m'] !== undefined ? Number(o.values['required-radius-m']) : null;
   if (required !== null && !(required > 0)) throw new UsageError(`--required-radius-m ${o.values['required-radius-m']}: must be a positive distance in metres`);
+  const method = o.values.method ?? 'directions';
+  if (method !== 'directions' && method !== 'grid') throw new UsageError(`--method ${method}: choose directions or grid`);
+  const directions = o.values.directions === undefined ? 24 : Number(o.values.directions);
+  if (!Number.isInteger(directions) || directions < 3 || directions > 720) {
+    throw new UsageError(`--directions ${o.values.directions}: must be a whole number from 3 to 720`);
+  }
   const rows: AltitudeStudyRow[] = [];
   let cancelled = false;
   for (const h of altitudes) {
@@ -169,6 +179,10 @@ async function runAltitude(o: Common, study: Study, io: CliIo) {
     }
     const at: Study = { ...study, ignition: { ...study.ignition, position_m: [...state.position], velocity_mps: [...state.velocity] } };
     io.stderr(`ignition altitude ${h} m (${ruleName}): position [${state.position.map((v) => v.toFixed(0)).join(', ')}] m\n`);
+    if (method === 'directions') {
+      rows.push(directionRow(at, h, usable - reserve, directions, o.nodes));
+      continue;
+    }
     const run = await runStudyFootprint(at, grid(o), { nodes: o.nodes, workers: o.workers }, io);
     cancelled ||= run.cancelled;
     const [region] = propellantRegions(run.field, [usable - reserve]);
@@ -191,7 +205,29 @@ async function runAltitude(o: Common, study: Study, io: CliIo) {
   const minimum = required === null ? null : minimumAltitude(rows, required);
   const csv = [`# ${CAUTION}`, 'ignition_altitude_m,guaranteed_divert_radius_m,limited_by_grid,nominal_propellant_kg,reachable_area_m2'];
   for (const r of rows) csv.push([r.altitude_m, csvNum(r.divertRadius_m, 1), r.limitedByGrid ? 1 : 0, csvNum(r.nominalPropellant_kg, 3), Math.round(r.area_m2)].join(','));
-  return { rows, csv, cancelled, extra: { rule: ruleName, reserve_kg: reserve, requiredRadius_m: required, minimumAltitude: minimum } };
+  return { rows, csv, cancelled, extra: { method, directions: method === 'directions' ? directions : null, rule: ruleName, reserve_kg: reserve, requiredRadius_m: required, minimumAltitude: minimum } };
+}
+
+/**
+ * One altitude by the reach boundary: the guaranteed divert radius is the smallest reach over the
+ * directions (an upper bound between directions; more directions tighten it), the area that of the polygon.
+ */
+function directionRow(study: Study, altitude_m: number, budget_kg: number, directions: number, nodes: number): AltitudeStudyRow {
+  const d = studyToDescent(study);
+  const setup = { ...d.setup, nodes, vehicle: { ...d.setup.vehicle, dryMass: study.vehicle.dryMass_kg } };
+  const solver = new DescentSolver(setup, landreachConicBackend(), d.ignition);
+  const boundary = reachBoundary(solver, d.ignition, directions, budget_kg, { targetHeight_m: d.target[2] });
+  const reaches = boundary.map((b) => b.result.reach_m);
+  const radius = Math.max(0, Math.min(...reaches));
+  const ring = boundary.map((b) => [Math.max(0, b.result.reach_m) * Math.cos(b.angle_rad), Math.max(0, b.result.reach_m) * Math.sin(b.angle_rad)] as [number, number]);
+  const nominal = searchFreeFinalTime(solver, d.target, d.ignition, { decode: false });
+  return {
+    altitude_m,
+    divertRadius_m: Number.isFinite(radius) ? radius : 0,
+    limitedByGrid: false,
+    nominalPropellant_kg: nominal.status === 'solved' ? nominal.propellant : NaN,
+    area_m2: Math.abs(ringArea(ring)),
+  };
 }
 
 async function runDispersion(o: Common, study: Study) {

@@ -32,7 +32,7 @@ describe('landreach study', () => {
   it('ignition-altitude: reports the radius per altitude and the lowest altitude meeting a requirement', async () => {
     const h = io();
     const code = await main(
-      ['study', 'ignition-altitude', DEMO, '--out', dir, '--grid', '5x5', '--extent-m', '1500', '--altitudes', '1200,1800', '--required-radius-m', '100', '--workers', '2'],
+      ['study', 'ignition-altitude', DEMO, '--out', dir, '--method', 'grid', '--grid', '5x5', '--extent-m', '1500', '--altitudes', '1200,1800', '--required-radius-m', '100', '--workers', '2'],
       h.io,
     );
     expect(code, h.err.join('')).toBe(0);
@@ -44,6 +44,16 @@ describe('landreach study', () => {
     expect(report.minimumAltitude.altitude_m).toBeLessThanOrEqual(meets[0] ? 1200 : 1800);
     expect(report.minimumAltitude.bracketed).toBe(!meets[0]);
     expect(h.out.join('')).toMatch(/lowest ignition altitude|no sampled altitude/);
+  }, 120_000);
+
+  it('ignition-altitude by directions: the divert radius grows with ignition altitude on the demo study', async () => {
+    const h = io();
+    const code = await main(['study', 'ignition-altitude', DEMO, '--out', dir, '--altitudes', '900,1800', '--directions', '8', '--reserve-kg', '250'], h.io);
+    expect(code, h.err.join('')).toBe(0);
+    const report = JSON.parse(readFileSync(join(dir, 'study-ignition-altitude.json'), 'utf8'));
+    expect(report.method).toBe('directions');
+    expect(report.rows[1].divertRadius_m).toBeGreaterThan(report.rows[0].divertRadius_m);
+    expect(report.rows[0].divertRadius_m).toBeGreaterThan(0);
   }, 120_000);
 
   it('dispersion: writes the landing points and the ellipse; bad sigmas are named', async () => {
