@@ -7,22 +7,9 @@
 
 const SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
 
-let crcTable: Uint32Array | null = null;
-
-/** CRC-32 as the PNG spec defines it (polynomial 0xEDB88320, reflected, initial and final XOR 0xFFFFFFFF). */
-export function crc32(bytes: Uint8Array, start = 0, end = bytes.length): number {
-  if (!crcTable) {
-    crcTable = new Uint32Array(256);
-    for (let n = 0; n < 256; n++) {
-      let c = n;
-      for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1;
-      crcTable[n] = c >>> 0;
-    }
-  }
-  let c = 0xffffffff;
-  for (let i = start; i < end; i++) c = crcTable[(c ^ bytes[i]) & 0xff] ^ (c >>> 8);
-  return (c ^ 0xffffffff) >>> 0;
-}
+// CRC-32 as the PNG spec defines it: one implementation, shared with the PNG heightmap reader.
+import { crc32 } from '../../core/terrain/png-reader.ts';
+export { crc32 };
 
 export function isPng(bytes: Uint8Array): boolean {
   return bytes.length >= 8 && SIGNATURE.every((b, i) => bytes[i] === b);

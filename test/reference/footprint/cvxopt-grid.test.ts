@@ -7,32 +7,21 @@
  *   of flight, and the same minimum landing error (to 1 % or 1 m).
  * (The time-of-flight search itself is checked against the bracketing search in test/unit/descent.)
  */
-import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { footprintContext } from '../../../core/cli/footprintRun.ts';
+import { footprintInProcess, lowPropellantDemo } from '../../support/scenarios.ts';
 import { NODE, DescentProgram, chooseScales } from '../../../core/descent/program.ts';
-import { descentEvaluator } from '../../../core/footprint/descentEvaluator.ts';
-import { computeFootprint, rowJobHandler, type RowJob } from '../../../core/footprint/engine.ts';
-import { TARGET, type FieldRow, type FootprintField } from '../../../core/footprint/field.ts';
+import { TARGET, type FootprintField } from '../../../core/footprint/field.ts';
 import { makeTargetGrid } from '../../../core/footprint/grid.ts';
-import { inlineWorkerFactory, JobPool } from '../../../core/parallel/pool.ts';
-import { parseStudyText } from '../../../core/study/index.ts';
 import { cvxoptAvailable, solveWithCvxopt } from '../cvxopt.ts';
 import { CVXOPT_DESCENT_OPTIONS } from '../descent/cvxoptBackend.ts';
 
-const demo = parseStudyText(readFileSync(fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json', import.meta.url)), 'utf8'));
-// Our scenario: the demo lander loaded with 250 kg of usable propellant instead of 500.
-const study = { ...demo, vehicle: { ...demo.vehicle, wetMass_kg: demo.vehicle.dryMass_kg + 250 } };
-const ctx = footprintContext(study, 30);
+const { ctx } = lowPropellantDemo();
 let field: FootprintField;
 
 beforeAll(async () => {
   if (!cvxoptAvailable()) throw new Error('CVXOPT is missing: install Debian python3-cvxopt (apt-get install -y python3-cvxopt)');
   const grid = makeTargetGrid({ halfWidthEast_m: 2500, halfWidthNorth_m: 2500, nx: 11, ny: 11 });
-  const handler = rowJobHandler(descentEvaluator(ctx));
-  const pool = new JobPool<RowJob, FieldRow>(inlineWorkerFactory((job: RowJob) => handler(job).result), 1);
-  field = (await computeFootprint(grid, pool, { context: ctx })).field;
+  field = await footprintInProcess(grid, ctx);
 }, 600_000);
 
 describe('footprint agrees with CVXOPT on an 11 × 11 grid', () => {

@@ -4,33 +4,23 @@
  * grid footprint {propellant ≤ budget} on the same scenario — along every direction within one grid
  * spacing, and the enclosed areas within the error of a 24-gon and a grid of that spacing.
  */
-import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { footprintContext } from '../../../core/cli/footprintRun.ts';
+import { footprintInProcess, lowPropellantDemo } from '../../support/scenarios.ts';
 import { landreachConicBackend } from '../../../core/descent/conicBackend.ts';
 import { reachBoundary } from '../../../core/descent/reach.ts';
 import { DescentSolver } from '../../../core/descent/solver.ts';
 import { propellantRegions, rayBoundaryDistance, ringArea } from '../../../core/footprint/contours.ts';
-import { descentEvaluator } from '../../../core/footprint/descentEvaluator.ts';
-import { computeFootprint, rowJobHandler, type RowJob } from '../../../core/footprint/engine.ts';
-import type { FieldRow, FootprintField } from '../../../core/footprint/field.ts';
+import type { FootprintField } from '../../../core/footprint/field.ts';
 import { makeTargetGrid } from '../../../core/footprint/grid.ts';
-import { inlineWorkerFactory, JobPool } from '../../../core/parallel/pool.ts';
-import { parseStudyText } from '../../../core/study/index.ts';
 
-const demo = parseStudyText(readFileSync(fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json', import.meta.url)), 'utf8'));
-const study = { ...demo, vehicle: { ...demo.vehicle, wetMass_kg: demo.vehicle.dryMass_kg + 250 } };
-const ctx = footprintContext(study, 30);
+const { ctx } = lowPropellantDemo();
 const BUDGET = 240;
 const SPACING = 250;
 let field: FootprintField;
 
 beforeAll(async () => {
   const grid = makeTargetGrid({ halfWidthEast_m: 3500, halfWidthNorth_m: 3500, nx: 29, ny: 29 });
-  const handler = rowJobHandler(descentEvaluator(ctx));
-  const pool = new JobPool<RowJob, FieldRow>(inlineWorkerFactory((job: RowJob) => handler(job).result), 1);
-  field = (await computeFootprint(grid, pool, { context: ctx })).field;
+  field = await footprintInProcess(grid, ctx);
 }, 600_000);
 
 describe('reach boundary by direction vs the grid footprint', () => {

@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../../core/cli/main.ts';
+import { captureIo } from '../../support/cli-io.ts';
 import { landreachConicBackend } from '../../../core/descent/conicBackend.ts';
 import { searchFreeFinalTime } from '../../../core/descent/search.ts';
 import { DescentSolver } from '../../../core/descent/solver.ts';
@@ -17,11 +18,7 @@ const DEMO = fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json'
 const dir = mkdtempSync(join(tmpdir(), 'landreach-fp-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-function io() {
-  const out: string[] = [];
-  const err: string[] = [];
-  return { out, err, io: { stdout: (t: string) => out.push(t), stderr: (t: string) => err.push(t), interactive: false } };
-}
+const io = captureIo;
 
 describe('landreach footprint', () => {
   it('writes the four result files for the demo study, and the targets agree with single-target searches', async () => {

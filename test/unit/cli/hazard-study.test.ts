@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../../core/cli/main.ts';
+import { captureIo } from '../../support/cli-io.ts';
 import { readGeoTiff } from '../../../core/terrain/index.ts';
 
 const DEM = fileURLToPath(new URL('../../../assets/demo/terrain/demo-site.tif', import.meta.url));
@@ -12,11 +13,7 @@ const STUDY = fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json
 const dir = mkdtempSync(join(tmpdir(), 'landreach-hz-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-function io() {
-  const out: string[] = [];
-  const err: string[] = [];
-  return { out, err, io: { stdout: (t: string) => out.push(t), stderr: (t: string) => err.push(t), interactive: false } };
-}
+const io = captureIo;
 
 describe('landreach hazard --study', () => {
   it('writes the safe reachable mask and ranks sites that are safe, reachable and within budget', async () => {

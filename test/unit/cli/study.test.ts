@@ -5,15 +5,12 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../../core/cli/main.ts';
+import { captureIo } from '../../support/cli-io.ts';
 
 const DEMO = fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json', import.meta.url));
 const dir = mkdtempSync(join(tmpdir(), 'landreach-st-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
-const io = () => {
-  const out: string[] = [];
-  const err: string[] = [];
-  return { out, err, io: { stdout: (t: string) => out.push(t), stderr: (t: string) => err.push(t), interactive: false } };
-};
+const io = captureIo;
 
 describe('landreach study', () => {
   it('reserve: area and divert radius shrink as the reserve grows', async () => {
