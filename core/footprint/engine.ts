@@ -29,7 +29,8 @@ export function solveRow(job: RowJob, evaluate: TargetEvaluator): FieldRow {
   for (const i of columns) {
     const prev = previous[i];
     let guess: number | undefined;
-    if (prev >= 0 && out.status[prev] === TARGET.reachable) guess = out.timeOfFlight_s[prev];
+    // The neighbour's time of flight, optimal or (unreachable neighbour) of its closest approach.
+    if (prev >= 0 && Number.isFinite(out.timeOfFlight_s[prev])) guess = out.timeOfFlight_s[prev];
     else if (job.tfHint && Number.isFinite(job.tfHint[i])) guess = job.tfHint[i];
     setOutcome(out, i, evaluate(job.east_m[i], job.north_m, guess));
   }
