@@ -271,7 +271,7 @@ async function runDispersion(o: Common, study: Study) {
 
 export const studyCommand: CliCommand = {
   name: 'study',
-  summary: 'trade studies: reserve (area and divert radius vs reserve), ignition-altitude (divert radius vs altitude)',
+  summary: 'trade studies: reserve (area, divert radius vs reserve), ignition-altitude (divert radius vs altitude), dispersion (landing ellipse)',
   usage: USAGE,
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parse(args);
