@@ -50,6 +50,10 @@ export async function main(argv: string[], io: CliIo = defaultIo()): Promise<num
       io.stderr(`landreach ${name}: ${err.message}\n`);
       return 2;
     }
-    throw err;
+    // A computation that failed: say so plainly (the stack only on request), exit 1; nothing was written.
+    const e = err instanceof Error ? err : new Error(String(err));
+    io.stderr(`landreach ${name}: the computation failed: ${e.message}\n`);
+    if (process.env.LANDREACH_DEBUG) io.stderr(`${e.stack ?? ''}\n`);
+    return 1;
   }
 }

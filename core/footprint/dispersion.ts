@@ -12,6 +12,7 @@ import type { DescentSetup, IgnitionState } from '../descent/setup.ts';
 import type { TrajectorySeries } from '../descent/trajectory.ts';
 import { simulate } from '../descent/baselines/simulate.ts';
 import { dispersionEllipse, sampleMoments, type Ellipse } from './ellipse.ts';
+import { TARGET, type FootprintField } from './field.ts';
 
 export interface DispersionSigmas {
   /** 1σ of each ignition position axis, m. */
@@ -80,6 +81,38 @@ export function openLoopLanding(setup: DescentSetup, series: TrajectorySeries, i
   return [last.r[0], last.r[1]];
 }
 
+/** One dispersed ignition: the state, and the thrust and Isp of that sample. */
+export interface DispersedSample {
+  ignition: IgnitionState;
+  thrustScale: number;
+  isp_s: number;
+}
+
+/** Seeded dispersed samples around the nominal ignition state (see the file comment for the model). */
+export function sampleDispersions(setup: DescentSetup, nominal: IgnitionState, sigmas: DispersionSigmas, count: number, seed: number): DispersedSample[] {
+  if (!Number.isInteger(count) || count < 1 || count > 100000) throw new RangeError(`samples: ${count} (must be a whole number from 1 to 100000)`);
+  for (const [k, v] of Object.entries(sigmas)) {
+    if (!(v >= 0) || !Number.isFinite(v)) throw new RangeError(`sigma ${k}: ${v} (must be zero or positive)`);
+  }
+  const normal = seededNormal(seed);
+  return Array.from({ length: count }, () => {
+    const dr = [normal(), normal(), normal()].map((z) => z * sigmas.position_m);
+    const dv = [normal(), normal(), normal()].map((z) => z * sigmas.velocity_mps);
+    const dm = normal() * sigmas.mass_kg;
+    const thrustScale = 1 + normal() * sigmas.thrustFraction;
+    const isp_s = setup.vehicle.isp * (1 + normal() * sigmas.ispFraction);
+    return {
+      ignition: {
+        position: [nominal.position[0] + dr[0], nominal.position[1] + dr[1], nominal.position[2] + dr[2]],
+        velocity: [nominal.velocity[0] + dv[0], nominal.velocity[1] + dv[1], nominal.velocity[2] + dv[2]],
+        mass: nominal.mass + dm,
+      },
+      thrustScale,
+      isp_s,
+    };
+  });
+}
+
 export function dispersionStudy(
   setup: DescentSetup,
   nominal: IgnitionState,
@@ -91,27 +124,31 @@ export function dispersionStudy(
   if (!Number.isInteger(samples) || samples < 10 || samples > 100000) {
     throw new RangeError(`samples: ${samples} (must be a whole number from 10 to 100000)`);
   }
-  for (const [k, v] of Object.entries(sigmas)) {
-    if (!(v >= 0) || !Number.isFinite(v)) throw new RangeError(`sigma ${k}: ${v} (must be zero or positive)`);
-  }
-  const normal = seededNormal(seed);
+  const draws = sampleDispersions(setup, nominal, sigmas, samples, seed);
   const east = new Float64Array(samples);
   const north = new Float64Array(samples);
-  for (let i = 0; i < samples; i++) {
-    const dr = [normal(), normal(), normal()].map((z) => z * sigmas.position_m);
-    const dv = [normal(), normal(), normal()].map((z) => z * sigmas.velocity_mps);
-    const dm = normal() * sigmas.mass_kg;
-    const thrustScale = 1 + normal() * sigmas.thrustFraction;
-    const isp = setup.vehicle.isp * (1 + normal() * sigmas.ispFraction);
-    const ignition: IgnitionState = {
-      position: [nominal.position[0] + dr[0], nominal.position[1] + dr[1], nominal.position[2] + dr[2]],
-      velocity: [nominal.velocity[0] + dv[0], nominal.velocity[1] + dv[1], nominal.velocity[2] + dv[2]],
-      mass: nominal.mass + dm,
-    };
-    const [e, n] = openLoopLanding({ ...setup, vehicle: { ...setup.vehicle, isp } }, series, ignition, thrustScale, options.step_s);
+  draws.forEach((s, i) => {
+    const [e, n] = openLoopLanding({ ...setup, vehicle: { ...setup.vehicle, isp: s.isp_s } }, series, s.ignition, s.thrustScale, options.step_s);
     east[i] = e;
     north[i] = n;
-  }
+  });
   const { mean, cov } = sampleMoments(east, north);
   return { landingEast_m: east, landingNorth_m: north, ellipse: dispersionEllipse(mean, cov, probability), samples };
+}
+
+/**
+ * Probability of reach: for each target, the fraction of dispersed samples whose footprint holds it within
+ * that sample's budget (its propellant on board less dry mass and reserve; fields all on the same grid).
+ */
+export function probabilityOfReach(fields: readonly FootprintField[], budgets_kg: readonly number[]): Float32Array {
+  if (fields.length === 0) throw new RangeError('probability of reach needs at least one sample footprint');
+  if (budgets_kg.length !== fields.length) throw new RangeError('probability of reach: one budget per sample footprint');
+  const n = fields[0].nx * fields[0].ny;
+  const count = new Float32Array(n);
+  fields.forEach((f, s) => {
+    if (f.nx * f.ny !== n) throw new RangeError('probability of reach: every sample footprint must use the same grid');
+    for (let k = 0; k < n; k++) if (f.status[k] === TARGET.reachable && f.propellant_kg[k] <= budgets_kg[s]) count[k]++;
+  });
+  for (let k = 0; k < n; k++) count[k] /= fields.length;
+  return count;
 }

@@ -15,7 +15,7 @@ import { guaranteedDivertRadius, propellantRegions, regionBounds, ringArea } fro
 import { reachBoundary } from '../../descent/reach.ts';
 import { TARGET } from '../../footprint/field.ts';
 import { studyToDescent, type Study } from '../../study/index.ts';
-import { dispersionStudy, type DispersionSigmas } from '../../footprint/dispersion.ts';
+import { dispersionStudy, probabilityOfReach, sampleDispersions, type DispersionSigmas } from '../../footprint/dispersion.ts';
 import { DescentSolver } from '../../descent/solver.ts';
 import { searchFreeFinalTime } from '../../descent/search.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
@@ -26,9 +26,9 @@ const USAGE = `Usage: landreach study reserve|ignition-altitude|dispersion STUDY
   reserve             one footprint; reachable area and guaranteed divert radius for each reserve
   ignition-altitude   a footprint per ignition altitude; guaranteed divert radius at the reserve, and the
                       lowest altitude meeting --required-radius-m
-  dispersion          Monte Carlo landing ellipse of the no-divert landing point: the nominal optimal
-                      thrust flown open loop from dispersed ignition states (the probability-of-reach map
-                      is not in this version)
+  dispersion          Monte Carlo landing ellipse of the no-divert landing point (the nominal optimal
+                      thrust flown open loop from dispersed ignition states) and, with --reach-samples,
+                      the probability-of-reach map
 
 Common options:
   --out DIR             folder for study-<name>.csv and study-<name>.json
@@ -52,6 +52,8 @@ dispersion (1σ values; the defaults are illustrative, not from any mission):
   --probability P       ellipse probability (default 0.997; 2-D: 3.409σ)
   --sigma-position-m    per axis (default 50)                   --sigma-velocity-mps  per axis (default 2)
   --sigma-mass-kg       (default 5)      --sigma-thrust  fraction (default 0.01)   --sigma-isp  fraction (default 0.005)
+  --reach-samples K     also the probability-of-reach map: a footprint (--grid, --extent-m) for each of K
+                        dispersed samples; each target's fraction of samples reaching it with the reserve kept
 
 ${CAUTION}`;
 
@@ -92,7 +94,7 @@ function parse(args: string[]): Common {
       ? ['reserves']
       : kind === 'ignition-altitude'
         ? ['altitudes', 'rule', 'reserve-kg', 'required-radius-m', 'method', 'directions']
-        : ['samples', 'seed', 'probability', 'sigma-position-m', 'sigma-velocity-mps', 'sigma-mass-kg', 'sigma-thrust', 'sigma-isp'],
+        : ['samples', 'seed', 'probability', 'sigma-position-m', 'sigma-velocity-mps', 'sigma-mass-kg', 'sigma-thrust', 'sigma-isp', 'reach-samples'],
   );
   for (let i = 0; i < rest.length; i++) {
     const a = rest[i];
@@ -230,7 +232,7 @@ function directionRow(study: Study, altitude_m: number, budget_kg: number, direc
   };
 }
 
-async function runDispersion(o: Common, study: Study) {
+async function runDispersion(o: Common, study: Study, io: CliIo) {
   const numberOpt = (name: string, fallback: number, check: (v: number) => boolean, fix: string) => {
     const t = o.values[name];
     if (t === undefined) return fallback;
@@ -260,11 +262,54 @@ async function runDispersion(o: Common, study: Study) {
   const csv = [`# ${CAUTION}`, 'sample,landing_east_m,landing_north_m'];
   for (let i = 0; i < r.samples; i++) csv.push([i, csvNum(r.landingEast_m[i], 2), csvNum(r.landingNorth_m[i], 2)].join(','));
   const e = r.ellipse;
+  const reachSamples = numberOpt('reach-samples', 0, (v) => Number.isInteger(v) && v >= 0 && v <= 1000, 'must be a whole number from 0 to 1000');
+  let reachMap: { csv: string; samples: number; cancelled: boolean } | null = null;
+  if (reachSamples > 0) {
+    const draws = sampleDispersions(setup, d.ignition, sigmas, reachSamples, seed + 1);
+    const fields = [];
+    const budgets: number[] = [];
+    let cancelled = false;
+    for (const [i, s] of draws.entries()) {
+      io.stderr(`reach map: sample ${i + 1} of ${reachSamples}\n`);
+      // A heavier sample carries more propellant: its wet mass is its ignition mass.
+      const at: Study = {
+        ...study,
+        ignition: { ...study.ignition, position_m: [...s.ignition.position], velocity_mps: [...s.ignition.velocity], mass_kg: s.ignition.mass },
+        vehicle: {
+          ...study.vehicle,
+          wetMass_kg: Math.max(study.vehicle.wetMass_kg, s.ignition.mass),
+          isp_s: s.isp_s,
+          thrustPerEngine_N: study.vehicle.thrustPerEngine_N * s.thrustScale,
+        },
+      };
+      const run = await runStudyFootprint(at, grid(o), { nodes: o.nodes, workers: o.workers }, io);
+      fields.push(run.field);
+      budgets.push(s.ignition.mass - study.vehicle.dryMass_kg - study.vehicle.propellantReserve_kg);
+      if (run.cancelled) {
+        cancelled = true;
+        break;
+      }
+    }
+    const pr = probabilityOfReach(fields, budgets);
+    const f = fields[0];
+    const lines = [`# ${CAUTION}`, `# fraction of ${fields.length} dispersed samples reaching each target with ${study.vehicle.propellantReserve_kg} kg in reserve`, 'east_m,north_m,probability_of_reach'];
+    for (let j = 0; j < f.ny; j++) for (let i = 0; i < f.nx; i++) lines.push([csvNum(f.east[i], 1), csvNum(f.north[j], 1), csvNum(pr[j * f.nx + i], 4)].join(','));
+    reachMap = { csv: lines.join('\n') + '\n', samples: fields.length, cancelled };
+  }
   return {
     rows: [{ ...e }],
     csv,
-    cancelled: false,
-    extra: { sigmas, samples, seed, nominalPropellant_kg: nominal.propellant, nominalTimeOfFlight_s: nominal.timeOfFlight, model: 'nominal optimal thrust flown open loop; landing point at the end of powered descent' },
+    cancelled: reachMap?.cancelled ?? false,
+    extraFiles: reachMap ? [{ suffix: '-reach.csv', text: reachMap.csv }] : [],
+    extra: {
+      sigmas,
+      samples,
+      seed,
+      nominalPropellant_kg: nominal.propellant,
+      nominalTimeOfFlight_s: nominal.timeOfFlight,
+      model: 'nominal optimal thrust flown open loop; landing point at the end of powered descent',
+      reachMapSamples: reachMap?.samples ?? 0,
+    },
     summaryLine: `${(probability * 100).toFixed(1)} % landing ellipse: ${e.semiMajor_m.toFixed(1)} × ${e.semiMinor_m.toFixed(1)} m (semi-axes), major axis ${e.orientation_deg.toFixed(1)}° from east, centre ${e.centreEast_m.toFixed(1)} m east, ${e.centreNorth_m.toFixed(1)} m north`,
   };
 }
@@ -276,8 +321,8 @@ export const studyCommand: CliCommand = {
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parse(args);
     const study = readStudy(o.study);
-    const result: { rows: unknown[]; csv: string[]; cancelled: boolean; extra: Record<string, unknown>; summaryLine?: string } =
-      o.kind === 'reserve' ? await runReserve(o, study, io) : o.kind === 'ignition-altitude' ? await runAltitude(o, study, io) : await runDispersion(o, study);
+    const result: { rows: unknown[]; csv: string[]; cancelled: boolean; extra: Record<string, unknown>; summaryLine?: string; extraFiles?: { suffix: string; text: string }[] } =
+      o.kind === 'reserve' ? await runReserve(o, study, io) : o.kind === 'ignition-altitude' ? await runAltitude(o, study, io) : await runDispersion(o, study, io);
     mkdirSync(o.out, { recursive: true });
     const inputs = { study, kind: o.kind, grid: o.grid, extent_m: o.extent, nodes: o.nodes, options: o.values };
     const report = {
@@ -297,6 +342,7 @@ export const studyCommand: CliCommand = {
     writeFilesAtomically([
       { path: `${base}.csv`, text: result.csv.join('\n') + '\n' },
       { path: `${base}.json`, text: JSON.stringify(report, null, 1) },
+      ...(result.extraFiles ?? []).map((f) => ({ path: `${base}${f.suffix}`, text: f.text })),
     ]);
     if (result.summaryLine) io.stdout(result.summaryLine + '\n');
     else io.stdout(result.csv.slice(1).join('\n') + '\n');
@@ -308,7 +354,8 @@ export const studyCommand: CliCommand = {
           : `lowest ignition altitude for a ${result.extra.requiredRadius_m} m divert radius: ${m.bracketed ? '' : 'at most '}${m.altitude_m.toFixed(0)} m\n`,
       );
     }
-    io.stdout(`${result.cancelled ? 'stopped early; ' : ''}wrote ${base}.csv and ${base}.json\n\n${CAUTION}\n`);
+    const written = [`${base}.csv`, `${base}.json`, ...(result.extraFiles ?? []).map((f) => `${base}${f.suffix}`)];
+    io.stdout(`${result.cancelled ? 'stopped early; ' : ''}wrote ${written.join(', ')}\n\n${CAUTION}\n`);
     return 0;
   },
 };

@@ -1,11 +1,12 @@
 /** `landreach study reserve|ignition-altitude` on the invented demo study (small grids). */
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../../core/cli/main.ts';
 import { captureIo } from '../../support/cli-io.ts';
+import { lowPropellantDemo } from '../../support/scenarios.ts';
 
 const DEMO = fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json', import.meta.url));
 const dir = mkdtempSync(join(tmpdir(), 'landreach-st-'));
@@ -65,6 +66,21 @@ describe('landreach study', () => {
     expect(await main(['study', 'dispersion', DEMO, '--out', dir, '--sigma-mass-kg', '-3'], g.io)).toBe(2);
     expect(g.err.join('')).toMatch(/--sigma-mass-kg -3: must be zero or a positive mass in kg/);
   }, 60_000);
+
+  it('dispersion with --reach-samples: the probability-of-reach map is 1 at the nominal target, 0 far out', async () => {
+    // Our low-propellant scenario (250 kg usable), so the ±3500 m grid has an edge.
+    const { study } = lowPropellantDemo();
+    const path = join(dir, 'low.study.json');
+    writeFileSync(path, JSON.stringify(study));
+    const h = io();
+    const code = await main(['study', 'dispersion', path, '--out', dir, '--samples', '20', '--reach-samples', '2', '--grid', '5x5', '--extent-m', '3500', '--workers', '2'], h.io);
+    expect(code, h.err.join('')).toBe(0);
+    const rows = readFileSync(join(dir, 'study-dispersion-reach.csv'), 'utf8').trim().split('\n').slice(3).map((l) => l.split(',').map(Number));
+    expect(rows).toHaveLength(25);
+    for (const [, , p] of rows) expect(p === 0 || p === 0.5 || p === 1).toBe(true);
+    expect(rows.find(([e, n]) => e === 0 && n === 0)?.[2]).toBe(1);
+    expect(rows.find(([e, n]) => e === 3500 && n === 3500)?.[2]).toBe(0);
+  }, 120_000);
 
   it('rejects an unknown study and options of the other study', async () => {
     const h = io();
