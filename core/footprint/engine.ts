@@ -5,7 +5,7 @@
  * Knows nothing of threads beyond the JobPool interface.
  */
 import type { JobPool } from '../parallel/pool.ts';
-import { emptyField, emptyRow, rowBuffers, setOutcome, TARGET, writeRow, type FieldRow, type FootprintField, type TargetOutcome } from './field.ts';
+import { emptyField, emptyRow, rowBuffers, setOutcome, writeRow, type FieldRow, type FootprintField, type TargetOutcome } from './field.ts';
 import { columnOrder, rowOrder, type TargetGrid } from './grid.ts';
 
 /** Solves one target: minimum propellant with free final time, starting the search from `tfGuess_s`. */
