@@ -49,6 +49,11 @@ export interface SearchOptions {
   propellantTolerance?: number;
   /** Decode the trajectory of the result (default true). */
   decode?: boolean;
+  /**
+   * t_f tolerance of the minimum-landing-error search, s (default: tfTolerance). The miss is flat in t_f
+   * near its minimum, so a footprint can afford a coarser one.
+   */
+  landingErrorTfTolerance?: number;
 }
 
 /** First step of the local bracketing, as a fraction of the starting t_f. */
@@ -198,7 +203,7 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
   if (fuel.best) return finish(fuel.best, fuel, { status: 'solved' });
 
   const missTolerance = 1e-6 * solver.scales.length + 1e-3;
-  const err = runPhase(solver, 'min-landing-error', target, ignition, br, starts, tol, budget, [], missTolerance);
+  const err = runPhase(solver, 'min-landing-error', target, ignition, br, starts, options.landingErrorTfTolerance ?? tol, budget, [], missTolerance);
   if (!err.best) {
     const status: DescentStatus = fuel.failures + err.failures > 0 || budget() <= 0 ? 'solver-failure' : 'unreachable';
     warnings.push(status === 'unreachable'
