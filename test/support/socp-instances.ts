@@ -118,13 +118,17 @@ function sizes(rng: Rng, nMax: number) {
   return { n, p, m };
 }
 
-export function feasibleInstance(seed: number, nMax = 40): Instance {
+/** The random part every family shares: sizes, cones, and sparse A and G (in this order from the seed). */
+function randomBase(seed: number, nMax: number) {
   const rng = new Rng(seed);
   const { n, p, m } = sizes(rng, nMax);
   const { l, soc } = randomCones(rng, m);
   const density = Math.min(0.3, 4 / n);
-  const A = randomSparse(rng, p, n, density);
-  const G = randomSparse(rng, m, n, density);
+  return { rng, n, p, m, l, soc, A: randomSparse(rng, p, n, density), G: randomSparse(rng, m, n, density) };
+}
+
+export function feasibleInstance(seed: number, nMax = 40): Instance {
+  const { rng, n, p, m, l, soc, A, G } = randomBase(seed, nMax);
   const x0 = vec(n, () => rng.normal());
   const s0 = interiorPoint(rng, l, soc);
   const z0 = interiorPoint(rng, l, soc);
@@ -143,12 +147,7 @@ export function feasibleInstance(seed: number, nMax = 40): Instance {
 }
 
 export function primalInfeasibleInstance(seed: number, nMax = 40): Instance {
-  const rng = new Rng(seed);
-  const { n, p, m } = sizes(rng, nMax);
-  const { l, soc } = randomCones(rng, m);
-  const density = Math.min(0.3, 4 / n);
-  const A = randomSparse(rng, p, n, density);
-  const G = randomSparse(rng, m, n, density);
+  const { rng, n, p, m, l, soc, A, G } = randomBase(seed, nMax);
   // Certificate z0 ∈ int K on all rows, y0 random; fix row r of G so Aᵀy0 + Gᵀz0 = 0.
   const z0 = interiorPoint(rng, l, soc);
   const y0 = vec(p, () => rng.normal());
@@ -181,12 +180,7 @@ export function primalInfeasibleInstance(seed: number, nMax = 40): Instance {
 }
 
 export function dualInfeasibleInstance(seed: number, nMax = 40): Instance {
-  const rng = new Rng(seed);
-  const { n, p, m } = sizes(rng, nMax);
-  const { l, soc } = randomCones(rng, m);
-  const density = Math.min(0.3, 4 / n);
-  const A = randomSparse(rng, p, n, density);
-  const G = randomSparse(rng, m, n, density);
+  const { rng, n, p, m, l, soc, A, G } = randomBase(seed, nMax);
   // Recession direction d with support on a few variables; column jStar is adjusted.
   const d = new Float64Array(n);
   const jStar = rng.int(0, n - 1);
