@@ -17,7 +17,10 @@ import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 import { footprintCsv, footprintGeoJson, footprintReport, type FootprintSummary } from '../../study/footprintExport.ts';
 import { footprintSvg, niceStep } from '../../study/footprintSvg.ts';
 import { sampleColormap, VIRIDIS } from '../../study/colormap.ts';
-import { runStudyFootprint } from '../footprintRun.ts';
+import { footprintContext, runStudyFootprint } from '../footprintRun.ts';
+import { DescentSolver } from '../../descent/solver.ts';
+import { landreachConicBackend } from '../../descent/conicBackend.ts';
+import { reachBoundary } from '../../descent/reach.ts';
 import { guaranteedDivertRadius, propellantRegions, regionBounds } from '../../footprint/contours.ts';
 import { countByStatus, TARGET, type FootprintField } from '../../footprint/field.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
@@ -31,8 +34,9 @@ propellant to land there (free final time), or a certificate that it cannot be r
 
 Options:
   --out DIR          folder for the result files (created if missing)
-  --grid NXxNY       targets east × north (default 41x41)
-  --extent-m M       half-width of the grid, m (default 1500)
+  --grid NXxNY       targets east × north (default 21x21)
+  --extent-m M       half-width of the grid, m (default: 10 % beyond the farthest reach along 16 directions
+                     with the reserve kept, rounded up to 100 m)
   --reserve-kg R     propellant to keep in reserve, kg (default: the study's vehicle.propellantReserve_kg)
   --workers N        worker threads (default: the number of cores, at most 8)
   --nodes N          time nodes per trajectory (default ${FOOTPRINT_NODES})
@@ -49,7 +53,7 @@ interface Options {
   out: string;
   nx: number;
   ny: number;
-  extent: number;
+  extent: number | null;
   reserve: number | null;
   workers: number;
   nodes: number;
@@ -68,9 +72,9 @@ function parseArgs(args: string[]): Options {
   const o: Options = {
     study: '',
     out: '',
-    nx: 41,
-    ny: 41,
-    extent: 1500,
+    nx: 21,
+    ny: 21,
+    extent: null,
     reserve: null,
     workers: Math.min(8, Math.max(1, os.availableParallelism?.() ?? os.cpus().length)),
     nodes: FOOTPRINT_NODES,
@@ -113,6 +117,21 @@ function parseArgs(args: string[]): Options {
   return o;
 }
 
+/**
+ * Grid half-width from the reach boundary (max-divert cone programs along 16 directions): 10 % beyond the
+ * farthest reach, rounded up to 100 m, so the footprint shows its edge.
+ */
+function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): number {
+  const ctx = footprintContext(study, nodes);
+  const solver = new DescentSolver(ctx.setup, landreachConicBackend(), ctx.ignition);
+  const boundary = reachBoundary(solver, ctx.ignition, 16, budget_kg, { targetHeight_m: ctx.targetHeight_m });
+  const far = Math.max(...boundary.map((b) => b.result.reach_m));
+  if (!(far > 0)) throw new UsageError('the nominal target cannot be reached with the reserve kept: no footprint to draw (lower the reserve or check the ignition state)');
+  const extent = Math.ceil((1.1 * far) / 100) * 100;
+  io.stderr(`grid extent ±${extent} m (farthest reach ${far.toFixed(0)} m along 16 directions)\n`);
+  return extent;
+}
+
 /** Six round contour levels from the cheapest target up to the budget. */
 export function defaultLevels(field: FootprintField, budget: number): number[] {
   let min = Infinity;
@@ -138,10 +157,11 @@ export const footprintCommand: CliCommand = {
     if (existsSync(o.out) && !statSync(o.out).isDirectory()) throw new UsageError(`--out ${o.out}: exists and is not a folder`);
     mkdirSync(o.out, { recursive: true });
     const budget = usable - reserve;
-    const grid = makeTargetGrid({ halfWidthEast_m: o.extent, halfWidthNorth_m: o.extent, nx: o.nx, ny: o.ny });
-    const inputs = { study, grid: { nx: o.nx, ny: o.ny, extent_m: o.extent }, nodes: o.nodes, reserve_kg: reserve };
+    const extent = o.extent ?? autoExtent(study, budget, o.nodes, io);
+    const grid = makeTargetGrid({ halfWidthEast_m: extent, halfWidthNorth_m: extent, nx: o.nx, ny: o.ny });
+    const inputs = { study, grid: { nx: o.nx, ny: o.ny, extent_m: extent }, nodes: o.nodes, reserve_kg: reserve };
     const hash = await inputsHash(inputs);
-    io.stderr(`footprint of '${study.name}': ${o.nx} × ${o.ny} targets, ±${o.extent} m, N = ${o.nodes}, ${o.workers} worker(s)\n`);
+    io.stderr(`footprint of '${study.name}': ${o.nx} × ${o.ny} targets, ±${extent} m, N = ${o.nodes}, ${o.workers} worker(s)\n`);
     const run = await runStudyFootprint(study, grid, { nodes: o.nodes, workers: o.workers }, io);
     if (io.interactive) io.stderr('\n');
     const field = run.field;

@@ -2,13 +2,14 @@
  * `landreach footprint` end to end on the invented demo study (small grid), and its input errors.
  * The per-target values are checked against independent single-target searches.
  */
-import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../../core/cli/main.ts';
 import { captureIo } from '../../support/cli-io.ts';
+import { lowPropellantDemo } from '../../support/scenarios.ts';
 import { landreachConicBackend } from '../../../core/descent/conicBackend.ts';
 import { searchFreeFinalTime } from '../../../core/descent/search.ts';
 import { DescentSolver } from '../../../core/descent/solver.ts';
@@ -65,6 +66,21 @@ describe('landreach footprint', () => {
     expect(h.err.join('')).toMatch(message);
     expect(existsSync(join(out, 'footprint.json'))).toBe(false);
   });
+
+  it('without --extent-m, sizes the grid from the reach boundary so the footprint shows its edge', async () => {
+    const { study } = lowPropellantDemo();
+    const path = join(dir, 'low.study.json');
+    writeFileSync(path, JSON.stringify(study));
+    const h = io();
+    const out = join(dir, 'auto');
+    expect(await main(['footprint', path, '--out', out, '--grid', '7x7', '--workers', '2'], h.io), h.err.join('')).toBe(0);
+    const report = JSON.parse(readFileSync(join(out, 'footprint.json'), 'utf8'));
+    expect(report.inputs.grid.extent_m % 100).toBe(0);
+    expect(h.err.join('')).toMatch(/grid extent ±\d+ m \(farthest reach \d+ m along 16 directions\)/);
+    // 10 % beyond the farthest reach: the grid's corners lie outside the reachable set.
+    expect(report.summary.unreachable).toBeGreaterThan(0);
+    expect(report.summary.divertRadiusLimitedByGrid).toBe(false);
+  }, 120_000);
 
   it('requires --out', async () => {
     const h = io();
