@@ -8,7 +8,7 @@
  *   s, z ∈ K,  τ, κ ≥ 0.
  * τ → 0 with κ > 0 exposes infeasibility; the iterates then converge to a certificate.
  */
-import { cscMulAdd, cscMulTransAdd, cscSamePattern, type CscMatrix } from '../linalg/csc.ts';
+import { cscMulAdd, cscMulTransAdd, type CscMatrix } from '../linalg/csc.ts';
 import type { Cone } from './cones/cone.ts';
 import { NonnegativeCone } from './cones/nonnegative.ts';
 import { SecondOrderCone } from './cones/secondOrder.ts';
@@ -189,16 +189,6 @@ export class ConicWorkspace {
     if (data.GValues) this.G.values.set(data.GValues);
     this.equilibrate();
     this.kkt.setAG(this.As.values, this.Gs.values);
-  }
-
-  /** True when `other` has the sizes and sparsity patterns this workspace was analysed for. */
-  accepts(other: ConicProblem): boolean {
-    return (
-      other.c.length === this.n &&
-      cscSamePattern(other.A, this.A) &&
-      cscSamePattern(other.G, this.G) &&
-      other.cones.nonnegative === (this.cones[0] instanceof NonnegativeCone ? this.cones[0].dim : 0)
-    );
   }
 
   /** Fill-in diagnostic: entries of the LDLᵀ factor. */
