@@ -108,8 +108,45 @@ describe('footprint in Chromium (demo study, small grids)', () => {
     await fs.writeFile(new URL('../../test-artifacts/footprint-7x7.csv', import.meta.url), text);
   });
 
+  it('exports the JSON report and the SVG map with the caution and the inputs hash', async () => {
+    const { page, context } = session;
+    const [json] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-json').click()]);
+    expect(json.suggestedFilename()).toMatch(/-footprint\.json$/);
+    const report = JSON.parse(await fs.readFile((await json.path())!, 'utf8'));
+    expect(report.caution).toMatch(/^Preliminary design and trade studies only; not flight software/);
+    expect(report.inputsHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(report).toMatchObject({ format: 'landreach-footprint', version: 1, summary: { budget_kg: 300, targets: 49, pending: 0 }, grid: { nx: 7, ny: 7 } });
+    const [svg] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-svg').click()]);
+    const svgText = await fs.readFile((await svg.path())!, 'utf8');
+    expect(svgText).toMatch(/^<svg[^>]*xmlns="http:\/\/www\.w3\.org\/2000\/svg"/);
+    expect(svgText).toContain('Preliminary design and trade studies only');
+    const svgFile = new URL('../../test-artifacts/footprint-7x7.svg', import.meta.url);
+    await fs.writeFile(svgFile, svgText);
+    // Chromium renders the exported map on its own, outside the app (a report reader's view of it).
+    const viewer = await context.newPage();
+    await viewer.goto(svgFile.href);
+    await viewer.screenshot({ path: new URL('../../test-artifacts/footprint-7x7-svg-rendered.png', import.meta.url).pathname });
+    await viewer.close();
+    const [geo] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-geojson').click()]);
+    const collection = JSON.parse(await fs.readFile((await geo.path())!, 'utf8'));
+    expect(collection.type).toBe('FeatureCollection');
+    expect(collection.features[0].properties).toMatchObject({ kind: 'reachable-with-reserve', level_kg: 300, reserve_kg: 200 });
+  });
+
+  it('marks the footprint stale when an input changes, and current again when undone', async () => {
+    const { page } = session;
+    const isp = page.locator('[data-field="vehicle.isp_s"] input');
+    await isp.fill('231');
+    await page.getByTestId('footprint-stale').waitFor();
+    await page.getByTestId('undo').click();
+    await page.getByTestId('footprint-stale').waitFor({ state: 'detached' });
+  });
+
   it('picks a target and shows its optimal trajectory in the scene and the charts', async () => {
     const { page } = session;
+    // Close the export notices first: they sit over the scene where the target is clicked.
+    await page.evaluate('document.querySelectorAll(\'[data-testid="notice"] button\').forEach((b) => b.click())');
+    await page.waitForFunction(() => document.querySelectorAll('[data-testid="notice"]').length === 0);
     const point = await page.evaluate(() => {
       const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { projectGroundPoint(e: number, n: number): { x: number; y: number } | null } };
       const p = canvas.landreachScene.projectGroundPoint(500, -300);
