@@ -78,6 +78,11 @@ describe('footprint in Chromium (demo study, small grids)', () => {
     expect(await page.getByTestId('reserve-legend').textContent()).toMatch(/≤ 300 kg/);
     expect(await page.locator('.legend-title').textContent()).toMatch(/propellant.*\(kg\)/i);
     await screenshot(page, 'footprint-7x7-top');
+    await page.getByTestId('view-oblique').click();
+    await page.waitForTimeout(200);
+    await screenshot(page, 'footprint-7x7-oblique');
+    await page.getByTestId('view-top').click();
+    await page.waitForTimeout(200);
     const after = await drapeStats();
     // Draped propellant replaces the height colouring inside the grid: the scene's colour mix changes, and
     // the reserve boundary adds white line pixels.
@@ -183,6 +188,8 @@ describe('footprint in Chromium (demo study, small grids)', () => {
       const m = /([\d,]+) \/ 225 targets/.exec(document.querySelector('[data-testid="run-progress"]')?.textContent ?? '');
       return m !== null && Number(m[1].replace(/,/g, '')) >= 30;
     }, null, { timeout: 60_000 });
+    // Mid-run the bar reports the rate and the time left.
+    expect(await page.getByTestId('run-progress').textContent()).toMatch(/targets · [\d.]+ \/s · about \d+ s left/);
     await page.getByTestId('run-cancel').click();
     await page.waitForFunction(() => /Cancelled: [\d,]+ \/ 225 targets kept/.test(document.querySelector('[data-testid="run-progress"]')?.textContent ?? ''));
     const kept = Number(/Cancelled: ([\d,]+)/.exec((await page.getByTestId('run-progress').textContent()) ?? '')![1].replace(/,/g, ''));
