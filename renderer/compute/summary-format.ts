@@ -15,11 +15,13 @@ export function footprintFigureList(s: FootprintSummary): Figure[] {
   return [
     { label: 'Targets', value: `${s.reachable} reachable / ${done} computed`, note: s.pending ? `${s.pending} not computed${s.cancelled ? ' (cancelled)' : ''}` : undefined },
     { label: 'Budget', value: `${fixed(s.budget_kg, 1)} kg`, note: `usable ${fixed(s.usablePropellant_kg, 1)} kg − reserve ${fixed(s.reserve_kg, 1)} kg` },
-    { label: 'Reachable area', value: `${fixed(s.reachableArea_m2 / 1e6, 3)} km²`, note: 'with the reserve kept' },
+    // Targets not computed count as out of reach (core/footprint/contours.ts), so a partial field gives
+    // lower bounds: said so rather than shown as if final.
+    { label: 'Reachable area', value: `${fixed(s.reachableArea_m2 / 1e6, 3)} km²`, note: s.pending ? 'with the reserve kept; at least (rows not computed)' : 'with the reserve kept' },
     {
       label: 'Guaranteed divert radius',
       value: `${fixed(s.guaranteedDivertRadius_m, 0)} m`,
-      note: s.divertRadiusLimitedByGrid ? 'limited by the grid: widen it' : undefined,
+      note: s.pending ? 'at least (rows not computed)' : s.divertRadiusLimitedByGrid ? 'limited by the grid: widen it' : undefined,
     },
     { label: 'Propellant', value: Number.isFinite(s.minPropellant_kg) ? `${fixed(s.minPropellant_kg, 1)} … ${fixed(s.maxPropellant_kg, 1)} kg` : '—', note: 'over reachable targets' },
   ];

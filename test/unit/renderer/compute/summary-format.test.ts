@@ -16,7 +16,12 @@ describe('result figures carry their units', () => {
   it('footprint: km² to three decimals, metres, kg, and says what is partial', () => {
     const byLabel = Object.fromEntries(footprintFigureList(summary).map((f) => [f.label, f]));
     expect(byLabel['Reachable area'].value).toBe('12.346 km²');
-    expect(byLabel['Guaranteed divert radius']).toEqual({ label: 'Guaranteed divert radius', value: '1235 m', note: 'limited by the grid: widen it' });
+    // 14 targets pending: area and radius are lower bounds, and say so.
+    expect(byLabel['Guaranteed divert radius']).toEqual({ label: 'Guaranteed divert radius', value: '1235 m', note: 'at least (rows not computed)' });
+    expect(byLabel['Reachable area'].note).toMatch(/at least/);
+    const complete = Object.fromEntries(footprintFigureList({ ...summary, pending: 0, cancelled: false }).map((f) => [f.label, f]));
+    expect(complete['Guaranteed divert radius'].note).toBe('limited by the grid: widen it');
+    expect(complete['Reachable area'].note).toBe('with the reserve kept');
     expect(byLabel['Budget']).toMatchObject({ value: '480.0 kg', note: 'usable 500.0 kg − reserve 20.0 kg' });
     expect(byLabel['Propellant'].value).toBe('201.3 … 282.9 kg');
     expect(byLabel['Targets']).toEqual({ label: 'Targets', value: '30 reachable / 35 computed', note: '14 not computed (cancelled)' });
