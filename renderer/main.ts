@@ -1,3 +1,4 @@
+import './zod-config.ts';
 import { mount } from 'svelte';
 import App from './App.svelte';
 import './styles.css';

@@ -1,15 +1,13 @@
 /** Running a study's footprint in worker threads, with progress on stderr and Ctrl-C keeping what finished. */
 import type { CliIo } from './command.ts';
 import { computeFootprint, type FootprintProgress, type FootprintRun, type RowJob } from '../footprint/engine.ts';
-import type { DescentFootprintContext } from '../footprint/descentEvaluator.ts';
 import type { FieldRow } from '../footprint/field.ts';
 import type { TargetGrid } from '../footprint/grid.ts';
 import { nodeWorkerFactory } from '../parallel/nodeWorker.ts';
 import { JobPool } from '../parallel/pool.ts';
-import { studyToDescent, type Study } from '../study/index.ts';
+import type { Study } from '../study/index.ts';
+import { footprintContext } from '../footprint/studyFootprint.ts';
 
-/** Nodes for footprint targets: at N = 30 the demo study's propellant is within 0.04 kg of N = 200 (DEVELOPERS.md). */
-export const FOOTPRINT_NODES = 30;
 
 export function progressLine(p: FootprintProgress): string {
   const pct = (100 * p.targetsDone) / p.targetsTotal;
@@ -19,18 +17,6 @@ export function progressLine(p: FootprintProgress): string {
   return `[${'#'.repeat(fill)}${'.'.repeat(width - fill)}] ${pct.toFixed(0).padStart(3)} %  ${p.targetsDone}/${p.targetsTotal} targets  ${p.rate_per_s.toFixed(1)} /s  ${eta}`;
 }
 
-/**
- * Targets are solved against the dry mass alone (no reserve): the reserve is then a contour level, so one
- * run serves every reserve.
- */
-export function footprintContext(study: Study, nodes: number): DescentFootprintContext {
-  const d = studyToDescent(study);
-  return {
-    setup: { ...d.setup, nodes, vehicle: { ...d.setup.vehicle, dryMass: study.vehicle.dryMass_kg } },
-    ignition: d.ignition,
-    targetHeight_m: d.target[2],
-  };
-}
 
 export async function runStudyFootprint(
   study: Study,

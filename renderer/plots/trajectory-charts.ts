@@ -19,7 +19,8 @@ export interface TrajectorySeries {
 }
 
 /** A trajectory with the name it has in legends (e.g. the target it reaches). */
-export type Labelled<T> = { label: string; series: T };
+/** `colourIndex`: position of the trajectory among the picks (its scene colour); default its list position. */
+export type Labelled<T> = { label: string; series: T; colourIndex?: number };
 
 export interface ThrottleLimits {
   thrustMax_N: number;
@@ -64,7 +65,7 @@ export function throttleChart(list: readonly Labelled<Pick<TrajectorySeries, 'ti
   const [t0, t1] = span(list, emptyEnd_s);
   const datasets = list.map((t, k) => {
     const throttle = norms(t.series.thrust_N, t.series.time_s.length).map((f) => f / limits.thrustMax_N);
-    return series(t.label, toPoints(t.series.time_s, throttle), colour(k));
+    return series(t.label, toPoints(t.series.time_s, throttle), colour(t.colourIndex ?? k));
   });
   datasets.push(limit(`Maximum throttle ${formatValue(limits.throttleMax)}`, limits.throttleMax, t0, t1, DASH_UPPER));
   datasets.push(limit(`Minimum throttle ${formatValue(limits.throttleMin)}`, limits.throttleMin, t0, t1, DASH_LOWER));
@@ -89,8 +90,8 @@ export function massChart(list: readonly Labelled<Pick<TrajectorySeries, 'time_s
     const n = t.series.time_s.length;
     const m0 = n ? t.series.mass_kg[0] : 0;
     const used = Float64Array.from({ length: n }, (_, i) => m0 - t.series.mass_kg[i]);
-    datasets.push(series(`${t.label}: mass`, toPoints(t.series.time_s, t.series.mass_kg), colour(k)));
-    datasets.push({ ...series(`${t.label}: propellant used`, toPoints(t.series.time_s, used), colour(k), 'used'), borderDash: [5, 3] });
+    datasets.push(series(`${t.label}: mass`, toPoints(t.series.time_s, t.series.mass_kg), colour(t.colourIndex ?? k)));
+    datasets.push({ ...series(`${t.label}: propellant used`, toPoints(t.series.time_s, used), colour(t.colourIndex ?? k), 'used'), borderDash: [5, 3] });
   });
   datasets.push(limit(`Dry mass + reserve ${formatValue(dryMass_kg + reserve_kg)} kg`, dryMass_kg + reserve_kg, t0, t1, DASH_LOWER));
   return lineChart(datasets, timeAxis(t0, t1), { y: linearAxis('Mass (kg)'), used: rightAxis('Propellant used (kg)') }, 'Mass and propellant');
@@ -103,8 +104,8 @@ export function altitudeSpeedChart(list: readonly Labelled<Pick<TrajectorySeries
   list.forEach((t, k) => {
     const n = t.series.time_s.length;
     const altitude = Float64Array.from({ length: n }, (_, i) => t.series.position_m[3 * i + 2]);
-    datasets.push(series(`${t.label}: altitude`, toPoints(t.series.time_s, altitude), colour(k)));
-    datasets.push({ ...series(`${t.label}: speed`, toPoints(t.series.time_s, norms(t.series.velocity_mps, n)), colour(k), 'speed'), borderDash: [5, 3] });
+    datasets.push(series(`${t.label}: altitude`, toPoints(t.series.time_s, altitude), colour(t.colourIndex ?? k)));
+    datasets.push({ ...series(`${t.label}: speed`, toPoints(t.series.time_s, norms(t.series.velocity_mps, n)), colour(t.colourIndex ?? k), 'speed'), borderDash: [5, 3] });
   });
   datasets.push(limit(`Speed limit ${formatValue(speedMax_mps)} m/s`, speedMax_mps, t0, t1, DASH_UPPER, 'speed'));
   return lineChart(datasets, timeAxis(t0, t1), { y: linearAxis('Altitude above target (m)', { min: 0 }), speed: rightAxis('Speed (m/s)') }, 'Altitude and speed');
@@ -122,7 +123,7 @@ export function tiltAngles_deg(thrust_N: ArrayLike<number>, n: number): Float64A
 
 export function tiltChart(list: readonly Labelled<Pick<TrajectorySeries, 'time_s' | 'thrust_N'>>[], pointingLimit_deg: number, emptyEnd_s = 100): LineConfig {
   const [t0, t1] = span(list, emptyEnd_s);
-  const datasets = list.map((t, k) => series(t.label, toPoints(t.series.time_s, tiltAngles_deg(t.series.thrust_N, t.series.time_s.length)), colour(k)));
+  const datasets = list.map((t, k) => series(t.label, toPoints(t.series.time_s, tiltAngles_deg(t.series.thrust_N, t.series.time_s.length)), colour(t.colourIndex ?? k)));
   datasets.push(limit(`Tilt limit ${formatValue(pointingLimit_deg)}°`, pointingLimit_deg, t0, t1, DASH_UPPER));
   return lineChart(
     datasets,

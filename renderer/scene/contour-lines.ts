@@ -17,6 +17,8 @@ export interface ContourMultiPolygon {
 
 export interface ContourLabel {
   value: number;
+  /** Unit shown after the value; default "m" (terrain height). */
+  unit?: string;
   position: [number, number, number];
 }
 

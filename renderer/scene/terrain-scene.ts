@@ -30,6 +30,7 @@ import { buildAxisObjects, buildMarkerObjects, type AxisLabel, type IgnitionMark
 import { pickGround, toNdc, type GroundPick } from './picking.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
 import { colorizeLinear } from '../../core/study/colormap.ts';
+import { buildOutlineGeometry, type FootprintOutline } from './footprint-outlines.ts';
 import { buildHazardGeometry, hazardStripeTexture } from './hazard-overlay.ts';
 import { declutter, distanceToGround, fitPose, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
 
@@ -41,7 +42,7 @@ const LABEL_SPACING_PX = 48;
 export interface ViewInfo {
   scaleBar: { pixels: number; label: string };
   northAngle_rad: number;
-  contourLabels: { value: number; x: number; y: number }[];
+  contourLabels: { value: number; unit: string; x: number; y: number }[];
   axisLabels: { text: string; x: number; y: number }[];
 }
 
@@ -53,6 +54,7 @@ export interface SceneSnapshot {
 
 export type { IgnitionMarker, LandingEllipse, PickedTarget, SceneTrajectory } from './scene-objects.ts';
 export type { GroundPick } from './picking.ts';
+export type { FootprintOutline } from './footprint-outlines.ts';
 
 /** A field draped on the terrain instead of its height: one value per terrain sample (NaN = none). */
 export interface SceneDrape {
@@ -76,6 +78,9 @@ export class TerrainScene {
   private trajectories: SceneTrajectory[] = [];
   private ellipse: LandingEllipse | null = null;
   private picks: PickedTarget[] = [];
+  private outlines: FootprintOutline[] = [];
+  private outlineObjects: LineSegments[] = [];
+  private outlineLabels: ContourLabel[] = [];
   private exaggeration = 1;
   private drape: SceneDrape | null = null;
   private hazardMask: Uint8Array | null = null;
@@ -159,6 +164,32 @@ export class TerrainScene {
     this.trajectories = trajectories;
     this.rebuildMarkers();
     this.requestRender();
+  }
+
+  /** Footprint outlines (propellant contours, reserve boundary emphasised), replacing any shown. */
+  setFootprintOutlines(outlines: FootprintOutline[]): void {
+    this.outlines = outlines;
+    this.rebuildOutlines();
+    this.requestRender();
+  }
+
+  private rebuildOutlines(): void {
+    // Height contours fade under a footprint so its outlines read first.
+    if (this.contours) (this.contours.material as LineBasicMaterial).opacity = this.outlines.length ? 0.18 : 0.55;
+    for (const o of this.outlineObjects) this.removeObject(o);
+    this.outlineObjects = [];
+    this.outlineLabels = [];
+    if (!this.grid) return;
+    for (const outline of this.outlines) {
+      const { geometry, label } = buildOutlineGeometry(outline, this.grid, this.exaggeration, outline.emphasis ? 3 : 2);
+      // The reserve boundary in white at full opacity, contours dimmer (line width is 1 px in WebGL).
+      const material = new LineBasicMaterial({ color: outline.emphasis ? 0xffffff : 0xe8e2d6, transparent: !outline.emphasis, opacity: outline.emphasis ? 1 : 0.6, depthTest: !outline.emphasis });
+      const object = new LineSegments(geometry, material);
+      object.renderOrder = outline.emphasis ? 3 : 2;
+      this.outlineObjects.push(object);
+      this.scene.add(object);
+      if (label) this.outlineLabels.push(label);
+    }
   }
 
   /** The ground point under a pointer position (client pixels), or null off the terrain. */
@@ -285,10 +316,12 @@ export class TerrainScene {
     const distance = distanceToGround(this.camera.position.toArray(), forward.toArray(), groundZ) ?? this.camera.position.distanceTo(this.controls.target);
     const bar = scaleBar(metresPerPixel(distance, this.camera.fov, height), maxBar_px);
     const labels = declutter(
-      this.labels.flatMap((label) => {
+      // Footprint labels first: when labels crowd, the propellant levels are the ones kept.
+      // Over a footprint the height labels give way: the propellant levels are what the drape shows.
+      [...this.outlineLabels, ...(this.outlines.length ? [] : this.labels)].flatMap((label) => {
         const v = this.camera.position.clone().set(...label.position).project(this.camera);
         if (v.z > 1 || Math.abs(v.x) > 1 || Math.abs(v.y) > 1) return [];
-        return [{ value: label.value, x: ((v.x + 1) / 2) * width, y: ((1 - v.y) / 2) * height }];
+        return [{ value: label.value, unit: label.unit ?? 'm', x: ((v.x + 1) / 2) * width, y: ((1 - v.y) / 2) * height }];
       }),
       (LABEL_SPACING_PX * height) / Math.max(1, this.canvas.clientHeight || height),
     );
@@ -333,6 +366,7 @@ export class TerrainScene {
     this.scene.add(this.axes);
     this.rebuildHazard();
     this.rebuildMarkers();
+    this.rebuildOutlines();
   }
 
   private rebuildHazard(): void {

@@ -71,8 +71,12 @@ export class Workspace {
 
   /** Set several fields at once (a preset) as one undoable step. Unknown ids are a program error. */
   applyValues(values: Record<string, string>): void {
-    for (const id of Object.keys(values)) this.model.field(id);
-    const raw = { ...this.draft.raw, ...values };
+    // Only input fields are applied: the parts of the document the model carries alongside (names…)
+    // are the study's own, not a preset's.
+    const carried = new Set(Object.keys(this.model.defaults()).filter((id) => !this.model.fields.some((f) => f.id === id)));
+    const fields = Object.fromEntries(Object.entries(values).filter(([id]) => !carried.has(id)));
+    for (const id of Object.keys(fields)) this.model.field(id);
+    const raw = { ...this.draft.raw, ...fields };
     if (this.model.fields.every((f) => raw[f.id] === this.draft.raw[f.id])) return;
     this.history.seal();
     this.history.record({ ...this.draft, raw });
@@ -159,7 +163,7 @@ export class Workspace {
       const labels = errors.map(([id]) => this.model.field(id).label);
       return { ok: false, message: `Not saved: ${labels.length} input${labels.length > 1 ? 's need' : ' needs'} fixing first (${labels.join(', ')}). Your edits are kept.` };
     }
-    return { ok: true, text: JSON.stringify(this.model.toDocument(this.draft.name, this.values()), null, 2) + '\n' };
+    return { ok: true, text: JSON.stringify(this.model.toDocument(this.draft.name, this.values(), this.draft.raw), null, 2) + '\n' };
   }
 
   /** Everything as typed, valid or not: the crash-recovery copy. */
@@ -213,9 +217,10 @@ export class Workspace {
       throw new StudyFormatError('The recovery copy is damaged and cannot be restored.');
     }
     const raw = this.model.defaults();
-    for (const f of this.model.fields) {
-      const value = (doc.raw as Record<string, unknown>)[f.id];
-      if (typeof value === 'string') raw[f.id] = value;
+    // Every key the model knows (its fields and any document parts it carries in the raw values).
+    for (const id of Object.keys(raw)) {
+      const value = (doc.raw as Record<string, unknown>)[id];
+      if (typeof value === 'string') raw[id] = value;
     }
     const name = typeof doc.name === 'string' ? doc.name : 'Recovered study';
     this.history.reset({ name, raw });

@@ -1,14 +1,49 @@
 /**
  * The seam between the workspace and the study definition. The workspace sees only `StudyModel`:
  * which groups and fields exist, how one raw input is checked, which cross-field rules apply, and how
- * values become a study document and back. `localStudyModel` implements it from the field table; a
- * model built on core/study's zod schema will implement the same interface and replace it here.
+ * values become a study document and back. `createLocalStudyModel` implements it from the field table
+ * (numeric fields at their core/study paths); the parts of a study that are not numeric fields (names,
+ * planet body, hold, …) ride along unchanged in the raw values under BASE_DOCUMENT_KEY, so opening and
+ * saving a study loses nothing. Whole documents are validated by core/study's zod schema (toCoreStudy).
  */
-import { FIELDS, GROUPS, MAX_GRID_TARGETS, type FieldSpec, type GroupSpec } from './field-table.ts';
+import { FIELDS, GROUPS, type FieldSpec, type GroupSpec } from './field-table.ts';
+import { STUDY_FORMAT, STUDY_VERSION } from '../../core/study/schema.ts';
+import { MARS_SURFACE_GRAVITY, MOON_SURFACE_GRAVITY } from '../../core/descent/planet.ts';
 
-/** Must equal electron/study-envelope.ts (a unit test checks); both move to core/study when it lands. */
-export const STUDY_FORMAT = 'landreach-study';
-export const STUDY_VERSION = 1;
+export { STUDY_FORMAT, STUDY_VERSION };
+
+/**
+ * Raw-values key holding the JSON of the study's non-field parts (never an input field id: ids are
+ * dotted paths of letters and digits).
+ */
+export const BASE_DOCUMENT_KEY = '$document';
+
+/** The non-field parts of the invented demo study (assets/demo/demo-lander.study.json): a new study starts from them. */
+const DEMO_BASE: Record<string, unknown> = {
+  format: STUDY_FORMAT,
+  version: STUDY_VERSION,
+  name: 'Untitled study',
+  description: 'INVENTED demo data: the vehicle, the site and the ignition state are made up for illustration and match no real mission or vehicle.',
+  planet: { body: 'mars' },
+  site: { name: 'Aster Basin (invented site)', invented: true },
+  vehicle: { name: 'LR-Demo lander (invented)', invented: true },
+  ignition: {},
+  constraints: { minAltitude_m: null },
+  discretisation: { hold: 'foh' },
+  target: { x_m: 0, y_m: 0 },
+};
+
+/** Values core/study's schema fills in when a file leaves these out (core/study/schema.ts); 0 = none. */
+const SCHEMA_DEFAULTS: Record<string, number> = {
+  'vehicle.propellantReserve_kg': 0,
+  'vehicle.cantAngle_deg': 0,
+  'vehicle.pointingLimit_deg': 180,
+  'constraints.glideSlope_deg': 0,
+  'constraints.maxSpeed_mps': 0,
+  'constraints.gateHeight_m': 0,
+  'constraints.gateDescentRate_mps': 0,
+  'discretisation.nodes': 50,
+};
 
 /** Raw text of every field, keyed by field id: what the user typed, kept even when invalid. */
 export type RawValues = Record<string, string>;
@@ -38,7 +73,8 @@ export interface StudyModel {
   defaults(): RawValues;
   checkField(id: string, raw: string): FieldCheck;
   crossIssues(values: Values): CrossIssue[];
-  toDocument(name: string, values: Values): object;
+  /** The study document; `raw` carries the non-field parts (BASE_DOCUMENT_KEY) of an opened study. */
+  toDocument(name: string, values: Values, raw?: RawValues): object;
   /** Parse a study document's text; throws StudyFormatError with a user-facing message. */
   fromText(text: string): StudyDocumentContent;
 }
@@ -54,8 +90,11 @@ export function formatNumber(value: number): string {
 
 function rangeText(spec: FieldSpec): string {
   const unit = spec.unit ? ` ${spec.unit}` : '';
-  const low = spec.minExclusive ? `above ${formatNumber(spec.min)}` : `${formatNumber(spec.min)}`;
-  return spec.minExclusive ? `a value ${low} and up to ${formatNumber(spec.max)}${unit}` : `a value from ${low} to ${formatNumber(spec.max)}${unit}`;
+  const high = spec.maxExclusive ? `below ${formatNumber(spec.max)}` : `up to ${formatNumber(spec.max)}`;
+  const none = spec.zeroMeansNone ? ' (0 for none)' : '';
+  if (spec.minExclusive) return `a value above ${formatNumber(spec.min)} and ${high}${unit}${none}`;
+  if (spec.maxExclusive) return `a value from ${formatNumber(spec.min)} and ${high}${unit}${none}`;
+  return `a value from ${formatNumber(spec.min)} to ${formatNumber(spec.max)}${unit}${none}`;
 }
 
 export function checkFieldValue(spec: FieldSpec, raw: string): FieldCheck {
@@ -73,7 +112,7 @@ export function checkFieldValue(spec: FieldSpec, raw: string): FieldCheck {
   if (value < spec.min || (spec.minExclusive && value === spec.min)) {
     return { ok: false, message: `${text}${unit} is below the allowed range. Enter ${wanted}.` };
   }
-  if (value > spec.max) return { ok: false, message: `${text}${unit} is above the allowed range. Enter ${wanted}.` };
+  if (value > spec.max || (spec.maxExclusive && value === spec.max)) return { ok: false, message: `${text}${unit} is above the allowed range. Enter ${wanted}.` };
   return { ok: true, value };
 }
 
@@ -83,41 +122,58 @@ export function localCrossIssues(v: Values): CrossIssue[] {
   const kg = (x: number) => `${formatNumber(x)} kg`;
   if (has('vehicle.wetMass_kg', 'vehicle.dryMass_kg') && v['vehicle.dryMass_kg'] >= v['vehicle.wetMass_kg']) {
     issues.push({ field: 'vehicle.dryMass_kg', severity: 'error', message: `Dry mass ${kg(v['vehicle.dryMass_kg'])} must be less than the mass at ignition ${kg(v['vehicle.wetMass_kg'])}. Lower the dry mass or raise the mass at ignition.` });
-  } else if (has('vehicle.wetMass_kg', 'vehicle.dryMass_kg', 'reserve.propellantReserve_kg')) {
+  } else if (has('vehicle.wetMass_kg', 'vehicle.dryMass_kg', 'vehicle.propellantReserve_kg')) {
     const onBoard = v['vehicle.wetMass_kg'] - v['vehicle.dryMass_kg'];
-    if (v['reserve.propellantReserve_kg'] >= onBoard) {
-      issues.push({ field: 'reserve.propellantReserve_kg', severity: 'error', message: `A reserve of ${kg(v['reserve.propellantReserve_kg'])} leaves nothing to fly with: only ${kg(onBoard)} of propellant is on board (mass at ignition − dry mass). Lower the reserve or raise the mass at ignition.` });
+    if (v['vehicle.propellantReserve_kg'] >= onBoard) {
+      issues.push({ field: 'vehicle.propellantReserve_kg', severity: 'error', message: `A reserve of ${kg(v['vehicle.propellantReserve_kg'])} leaves nothing to fly with: only ${kg(onBoard)} of propellant is on board (mass at ignition − dry mass). Lower the reserve or raise the mass at ignition.` });
     }
   }
   if (has('vehicle.throttleMin', 'vehicle.throttleMax') && v['vehicle.throttleMin'] >= v['vehicle.throttleMax']) {
     issues.push({ field: 'vehicle.throttleMin', severity: 'error', message: `Minimum throttle ${formatNumber(v['vehicle.throttleMin'])} must be below maximum throttle ${formatNumber(v['vehicle.throttleMax'])}. Lower the minimum or raise the maximum.` });
   }
-  if (has('constraints.flightTimeMin_s', 'constraints.flightTimeMax_s') && v['constraints.flightTimeMin_s'] >= v['constraints.flightTimeMax_s']) {
-    issues.push({ field: 'constraints.flightTimeMin_s', severity: 'error', message: `Shortest flight time ${formatNumber(v['constraints.flightTimeMin_s'])} s must be below the longest ${formatNumber(v['constraints.flightTimeMax_s'])} s. Lower the shortest or raise the longest.` });
-  }
-  if (has('grid.halfWidth_m', 'grid.spacing_m')) {
-    const perSide = 2 * Math.floor(v['grid.halfWidth_m'] / v['grid.spacing_m']) + 1;
-    if (perSide < 3) {
-      issues.push({ field: 'grid.spacing_m', severity: 'error', message: `Spacing ${formatNumber(v['grid.spacing_m'])} m leaves only one target across the ${formatNumber(2 * v['grid.halfWidth_m'])} m grid. Use a spacing of at most ${formatNumber(v['grid.halfWidth_m'])} m.` });
-    } else if (perSide * perSide > MAX_GRID_TARGETS) {
-      const finest = (2 * v['grid.halfWidth_m']) / (Math.sqrt(MAX_GRID_TARGETS) - 1);
-      issues.push({ field: 'grid.spacing_m', severity: 'error', message: `This grid has ${(perSide * perSide).toLocaleString('en')} targets, more than the ${MAX_GRID_TARGETS.toLocaleString('en')} allowed. Use a spacing of at least ${formatNumber(Math.ceil(finest))} m or a smaller half-width.` });
-    }
-  }
-  if (has('vehicle.thrustMax_N', 'vehicle.throttleMax', 'vehicle.wetMass_kg', 'planet.surfaceGravity_mps2')) {
-    const ratio = (v['vehicle.thrustMax_N'] * v['vehicle.throttleMax']) / (v['vehicle.wetMass_kg'] * v['planet.surfaceGravity_mps2']);
+  const thrust = ['vehicle.engineCount', 'vehicle.thrustPerEngine_N', 'vehicle.cantAngle_deg', 'vehicle.throttleMax', 'vehicle.wetMass_kg', 'planet.gravity_mps2'];
+  if (has(...thrust)) {
+    const net = v['vehicle.engineCount'] * v['vehicle.thrustPerEngine_N'] * Math.cos((v['vehicle.cantAngle_deg'] * Math.PI) / 180);
+    const ratio = (net * v['vehicle.throttleMax']) / (v['vehicle.wetMass_kg'] * v['planet.gravity_mps2']);
     if (ratio <= 1) {
-      issues.push({ field: 'vehicle.thrustMax_N', severity: 'warning', message: `At maximum throttle the thrust-to-weight ratio at ignition is ${ratio.toFixed(3)} (≤ 1): the vehicle cannot hover, and most targets will be unreachable. Raise the thrust or lower the mass.` });
+      issues.push({ field: 'vehicle.thrustPerEngine_N', severity: 'warning', message: `At maximum throttle the net thrust-to-weight ratio at ignition is ${ratio.toFixed(3)} (≤ 1): the vehicle cannot hover, and most targets will be unreachable. Raise the thrust or lower the mass.` });
     }
   }
   return issues;
 }
 
+/** Sets a dotted path, creating objects, or arrays where the next part is an index. */
 function setPath(doc: Record<string, unknown>, dotted: string, value: unknown): void {
   const parts = dotted.split('.');
   let node = doc;
-  for (const part of parts.slice(0, -1)) node = (node[part] ??= {}) as Record<string, unknown>;
+  parts.slice(0, -1).forEach((part, k) => {
+    const container = /^\d+$/.test(parts[k + 1]) ? [] : {};
+    const existing = node[part];
+    if (existing === null || typeof existing !== 'object') node[part] = container;
+    node = node[part] as Record<string, unknown>;
+  });
   node[parts[parts.length - 1]] = value;
+}
+
+/** A copy of the document without the numeric field values (what rides along in BASE_DOCUMENT_KEY). */
+function baseOf(doc: Record<string, unknown>): Record<string, unknown> {
+  const base = structuredClone(doc);
+  for (const f of FIELDS) {
+    const parts = f.id.split('.');
+    const parent = getPath(base, parts.slice(0, -1).join('.')) as Record<string, unknown> | undefined;
+    if (parent && typeof parent === 'object' && !Array.isArray(parent)) delete parent[parts[parts.length - 1]];
+  }
+  for (const vector of ['ignition.position_m', 'ignition.velocity_mps']) {
+    const [group, key] = vector.split('.');
+    const g = base[group] as Record<string, unknown> | undefined;
+    if (g && typeof g === 'object') delete g[key];
+  }
+  return base;
+}
+
+function presetGravity(doc: unknown): number | undefined {
+  const body = getPath(doc, 'planet.body');
+  return body === 'mars' ? MARS_SURFACE_GRAVITY : body === 'moon' ? MOON_SURFACE_GRAVITY : undefined;
 }
 
 function getPath(doc: unknown, dotted: string): unknown {
@@ -135,12 +191,21 @@ export function createLocalStudyModel(): StudyModel {
     groups: GROUPS,
     fields: FIELDS,
     field,
-    defaults: () => Object.fromEntries(FIELDS.map((f) => [f.id, formatNumber(f.defaultValue)])),
+    defaults: () => ({ ...Object.fromEntries(FIELDS.map((f) => [f.id, formatNumber(f.defaultValue)])), [BASE_DOCUMENT_KEY]: JSON.stringify(DEMO_BASE) }),
     checkField: (id, raw) => checkFieldValue(field(id), raw),
     crossIssues: localCrossIssues,
-    toDocument(name, values) {
-      const doc: Record<string, unknown> = { format: STUDY_FORMAT, version: STUDY_VERSION, name };
-      for (const f of FIELDS) setPath(doc, f.id, values[f.id]);
+    toDocument(name, values, raw) {
+      let base = DEMO_BASE;
+      const carried = raw?.[BASE_DOCUMENT_KEY];
+      if (carried) {
+        try {
+          base = JSON.parse(carried) as Record<string, unknown>;
+        } catch {
+          base = DEMO_BASE;
+        }
+      }
+      const doc: Record<string, unknown> = { ...structuredClone(base), format: STUDY_FORMAT, version: STUDY_VERSION, name };
+      for (const f of FIELDS) setPath(doc, f.id, f.zeroMeansNone && values[f.id] === 0 ? null : values[f.id]);
       return doc;
     },
     fromText(text) {
@@ -150,7 +215,8 @@ export function createLocalStudyModel(): StudyModel {
       } catch (error) {
         throw new StudyFormatError(`The study is not valid JSON (${(error as Error).message}).`);
       }
-      const record = (doc ?? {}) as Record<string, unknown>;
+      if (doc === null || typeof doc !== 'object' || Array.isArray(doc)) throw new StudyFormatError('This is not a Landreach study (it is not a JSON object).');
+      const record = doc as Record<string, unknown>;
       if (record.format !== STUDY_FORMAT) throw new StudyFormatError(`This is not a Landreach study (its "format" is ${JSON.stringify(record.format)}).`);
       if (typeof record.version !== 'number' || record.version > STUDY_VERSION) {
         throw new StudyFormatError(`Study version ${JSON.stringify(record.version)} is not one this build reads (up to ${STUDY_VERSION}). Open it with a newer Landreach.`);
@@ -158,7 +224,10 @@ export function createLocalStudyModel(): StudyModel {
       const raw: RawValues = {};
       const missing: string[] = [];
       for (const f of FIELDS) {
-        const value = getPath(doc, f.id);
+        let value = getPath(doc, f.id);
+        if (value === undefined && f.id === 'planet.gravity_mps2') value = presetGravity(doc);
+        if (value === null && f.zeroMeansNone) value = 0;
+        if (value === undefined && f.id in SCHEMA_DEFAULTS) value = SCHEMA_DEFAULTS[f.id];
         if (typeof value === 'number' && Number.isFinite(value)) raw[f.id] = formatNumber(value);
         else {
           // Keep going with the default, and say so: the user sees which values were filled in.
@@ -167,6 +236,7 @@ export function createLocalStudyModel(): StudyModel {
         }
       }
       if (missing.length === FIELDS.length) throw new StudyFormatError('The study holds none of the expected inputs.');
+      raw[BASE_DOCUMENT_KEY] = JSON.stringify(baseOf(record));
       const name = typeof record.name === 'string' && record.name.trim() ? record.name : 'Untitled study';
       return { name, raw, ...(missing.length ? { missing } : {}) };
     },

@@ -11,7 +11,7 @@ import { countByStatus, type FieldRow } from '../../core/footprint/field.ts';
 import { makeTargetGrid } from '../../core/footprint/grid.ts';
 import { nodeWorkerFactory } from '../../core/parallel/nodeWorker.ts';
 import { JobPool } from '../../core/parallel/pool.ts';
-import { FOOTPRINT_NODES, footprintContext } from '../../core/cli/footprintRun.ts';
+import { FOOTPRINT_NODES, footprintContext } from '../../core/footprint/studyFootprint.ts';
 import { parseStudyText, studyToDescent } from '../../core/study/index.ts';
 import { DescentSolver } from '../../core/descent/solver.ts';
 import { searchFreeFinalTimeBySlope } from '../../core/descent/slopeSearch.ts';

@@ -22,16 +22,16 @@ describe('files in the browser fallback', () => {
   it('opens a study through the file input', async () => {
     const { page } = session;
     const file = path.join(dir, 'ridge.landreach.json');
-    const study = { format: 'landreach-study', version: 1, name: 'Ridge (invented)', vehicle: { isp_s: 305, thrustMax_N: 21000 } };
+    const study = { format: 'landreach-study', version: 1, name: 'Ridge (invented)', vehicle: { isp_s: 305, thrustPerEngine_N: 21000 } };
     await fs.writeFile(file, JSON.stringify(study));
     const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.getByRole('button', { name: 'Open…' }).click()]);
     await chooser.setFiles(file);
     await page.waitForFunction(() => (document.querySelector('[data-testid="study-name"]') as HTMLInputElement).value === 'Ridge (invented)');
     expect(await input('vehicle.isp_s').inputValue()).toBe('305');
-    expect(await input('vehicle.thrustMax_N').inputValue()).toBe('21000');
+    expect(await input('vehicle.thrustPerEngine_N').inputValue()).toBe('21000');
     // The file lacked most inputs: the user is told defaults were filled in.
-    expect(await page.getByTestId('notice').first().textContent()).toMatch(/ridge\.landreach\.json lacked 22 inputs \(Planet › Surface gravity, .* and 19 more\)/);
-    expect(await page.locator('[data-field="vehicle.wetMass_kg"] .message').textContent()).toMatch(/Not in the opened file: the default 2400 kg was filled in/);
+    expect(await page.getByTestId('notice').first().textContent()).toMatch(/ridge\.landreach\.json lacked 13 inputs \(Planet and site › Surface gravity, .* and 10 more\)/);
+    expect(await page.locator('[data-field="vehicle.wetMass_kg"] .message').textContent()).toMatch(/Not in the opened file: the default 2100 kg was filled in/);
     await screenshot(page, 'opened-study');
   });
 
@@ -75,7 +75,7 @@ describe('files in the browser fallback', () => {
     expect(await input('vehicle.isp_s').inputValue()).toBe('not a number yet');
     await page.getByRole('button', { name: 'New', exact: true }).click();
     await dialog.getByRole('button', { name: 'Discard changes' }).click();
-    await page.waitForFunction(() => (document.querySelector('[data-field="vehicle.isp_s"] input') as HTMLInputElement).value === '228');
+    await page.waitForFunction(() => (document.querySelector('[data-field="vehicle.isp_s"] input') as HTMLInputElement).value === '230');
     expect(await page.evaluate(() => localStorage.getItem('landreach.recovery'))).toBeNull();
   });
 });

@@ -24,7 +24,7 @@ describe('workspace in Chromium', () => {
     expect(await page.title()).toMatch(/Landreach/);
     const csp = await page.locator('meta[http-equiv="Content-Security-Policy"]').getAttribute('content');
     expect(csp).toBe(PRODUCTION_CSP);
-    for (const group of ['planet', 'vehicle', 'ignition', 'constraints', 'reserve', 'grid', 'terrain']) {
+    for (const group of ['planet', 'vehicle', 'ignition', 'constraints', 'reserve', 'discretisation']) {
       expect(await page.locator(`details[data-group="${group}"]`).count(), group).toBe(1);
     }
     expect(session.problems).toEqual([]);
@@ -44,7 +44,7 @@ describe('workspace in Chromium', () => {
   it('shows an inline error naming the problem and the fix, and undo restores the value', async () => {
     const { page } = session;
     const input = field('vehicle.isp_s').locator('input');
-    expect(await input.inputValue()).toBe('228');
+    expect(await input.inputValue()).toBe('230');
     await input.fill('20');
     const message = field('vehicle.isp_s').locator('.message');
     await message.waitFor();
@@ -53,20 +53,20 @@ describe('workspace in Chromium', () => {
     expect(await page.getByTestId('status-problems').textContent()).toMatch(/1 input needs fixing/);
     await screenshot(page, 'field-error');
     await page.keyboard.press('Control+z');
-    expect(await input.inputValue()).toBe('228');
+    expect(await input.inputValue()).toBe('230');
     await message.waitFor({ state: 'detached' });
     await page.getByTestId('status-ok').waitFor();
     await page.keyboard.press('Control+Shift+z');
     expect(await input.inputValue()).toBe('20');
     await page.getByTestId('undo').click();
-    expect(await input.inputValue()).toBe('228');
+    expect(await input.inputValue()).toBe('230');
   });
 
   it('shows a cross-field error on the field to fix', async () => {
     const { page } = session;
     const dry = field('vehicle.dryMass_kg');
     await dry.locator('input').fill('2500');
-    expect(await dry.locator('.message').textContent()).toMatch(/Dry mass 2500 kg must be less than the mass at ignition 2400 kg/);
+    expect(await dry.locator('.message').textContent()).toMatch(/Dry mass 2500 kg must be less than the mass at ignition 2100 kg/);
     await page.keyboard.press('Control+z');
     await page.getByTestId('status-ok').waitFor();
   });
@@ -78,8 +78,8 @@ describe('workspace in Chromium', () => {
     expect(await field('vehicle.isp_s').locator('input').inputValue()).toBe('320');
     await page.getByTestId('status-ok').waitFor();
     await page.getByTestId('undo').click();
-    expect(await field('vehicle.wetMass_kg').locator('input').inputValue()).toBe('2400');
-    expect(await field('vehicle.isp_s').locator('input').inputValue()).toBe('228');
+    expect(await field('vehicle.wetMass_kg').locator('input').inputValue()).toBe('2100');
+    expect(await field('vehicle.isp_s').locator('input').inputValue()).toBe('230');
   });
 
   it('draws the terrain: pixel readback of the WebGL canvas finds coloured terrain, not background', async () => {
@@ -306,7 +306,7 @@ describe('workspace in Chromium', () => {
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('save').click()]);
     expect(download.suggestedFilename()).toBe('rim-trade-invented.landreach.json');
     const doc = JSON.parse(await fs.readFile((await download.path())!, 'utf8'));
-    expect(doc).toMatchObject({ format: 'landreach-study', version: 1, name: 'Rim trade (invented)', vehicle: { isp_s: 228 } });
+    expect(doc).toMatchObject({ format: 'landreach-study', version: 1, name: 'Rim trade (invented)', vehicle: { isp_s: 230 } });
     expect(await page.getByTestId('file-state').textContent()).toMatch(/rim-trade-invented\.landreach\.json\s*$/);
     expect(session.problems).toEqual([]);
   });

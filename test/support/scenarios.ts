@@ -1,7 +1,7 @@
 /** Scenarios of our own for tests, and an in-process footprint run (no threads). */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { footprintContext } from '../../core/cli/footprintRun.ts';
+import { footprintContext } from '../../core/footprint/studyFootprint.ts';
 import type { DescentFootprintContext } from '../../core/footprint/descentEvaluator.ts';
 import { descentEvaluator } from '../../core/footprint/descentEvaluator.ts';
 import { computeFootprint, rowJobHandler, type RowJob } from '../../core/footprint/engine.ts';

@@ -15,17 +15,17 @@ import { readStudy, writeFilesAtomically } from '../files.ts';
 import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 import { footprintCsv, footprintGeoJson, footprintReport, type FootprintSummary } from '../../study/footprintExport.ts';
-import { footprintSvg, niceStep } from '../../study/footprintSvg.ts';
+import { footprintSvg } from '../../study/footprintSvg.ts';
 import { sampleColormap, VIRIDIS } from '../../study/colormap.ts';
-import { footprintContext, runStudyFootprint } from '../footprintRun.ts';
+import { runStudyFootprint } from '../footprintRun.ts';
 import { DescentSolver } from '../../descent/solver.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { reachBoundary } from '../../descent/reach.ts';
 import { guaranteedDivertRadius, propellantRegions, regionBounds } from '../../footprint/contours.ts';
-import { countByStatus, TARGET, type FootprintField } from '../../footprint/field.ts';
+import { countByStatus, TARGET } from '../../footprint/field.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
 
-import { FOOTPRINT_NODES } from '../footprintRun.ts';
+import { defaultLevels, FOOTPRINT_NODES, footprintContext } from '../../footprint/studyFootprint.ts';
 
 const USAGE = `Usage: landreach footprint STUDY.json --out DIR [options]
 
@@ -132,17 +132,6 @@ function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): 
   return extent;
 }
 
-/** Six round contour levels from the cheapest target up to the budget. */
-export function defaultLevels(field: FootprintField, budget: number): number[] {
-  let min = Infinity;
-  for (let k = 0; k < field.status.length; k++) if (field.status[k] === TARGET.reachable) min = Math.min(min, field.propellant_kg[k]);
-  if (!Number.isFinite(min) || min >= budget) return [budget];
-  const step = niceStep(budget - min, 6);
-  const levels: number[] = [];
-  for (let v = Math.ceil(min / step) * step; v < budget - 1e-9; v += step) levels.push(v);
-  levels.push(budget);
-  return levels;
-}
 
 export const footprintCommand: CliCommand = {
   name: 'footprint',

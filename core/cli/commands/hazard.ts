@@ -11,7 +11,8 @@ import { CAUTION } from '../../study/provenance.ts';
 import os from 'node:os';
 import type { Study } from '../../study/index.ts';
 import { readStudy } from '../files.ts';
-import { FOOTPRINT_NODES, runStudyFootprint } from '../footprintRun.ts';
+import { runStudyFootprint } from '../footprintRun.ts';
+import { FOOTPRINT_NODES } from '../../footprint/studyFootprint.ts';
 import { TARGET } from '../../footprint/field.ts';
 import { parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
 import {

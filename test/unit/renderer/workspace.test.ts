@@ -11,7 +11,7 @@ describe('workspace', () => {
     const s = w.snapshot();
     expect(s.dirty).toBe(false);
     expect(s.errorCount).toBe(0);
-    expect(s.draft.raw['vehicle.isp_s']).toBe('228');
+    expect(s.draft.raw['vehicle.isp_s']).toBe('230');
     expect(s.canUndo).toBe(false);
   });
 
@@ -25,7 +25,7 @@ describe('workspace', () => {
     expect(s.errorCount).toBe(1);
     expect(s.dirty).toBe(true);
     w.undo();
-    expect(w.snapshot().draft.raw['vehicle.isp_s']).toBe('228');
+    expect(w.snapshot().draft.raw['vehicle.isp_s']).toBe('230');
     expect(w.snapshot().dirty).toBe(false);
   });
 
@@ -44,11 +44,11 @@ describe('workspace', () => {
     const w = new Workspace(model);
     w.edit('vehicle.isp_s', '');
     w.seal();
-    w.edit('grid.directions', '4.5');
+    w.edit('vehicle.engineCount', '4.5');
     const out = w.studyText();
     expect(out.ok).toBe(false);
-    expect(!out.ok && out.message).toBe('Not saved: 2 inputs need fixing first (Specific impulse, Reach directions). Your edits are kept.');
-    expect(w.draft.raw['grid.directions']).toBe('4.5');
+    expect(!out.ok && out.message).toBe('Not saved: 2 inputs need fixing first (Specific impulse, Engines). Your edits are kept.');
+    expect(w.draft.raw['vehicle.engineCount']).toBe('4.5');
   });
 
   it('marks saved, opens a file as a new clean history, and restores a draft as unsaved', () => {
@@ -68,7 +68,7 @@ describe('workspace', () => {
 
     other.open(text, 'site-b.landreach.json');
     expect(other.snapshot()).toMatchObject({ dirty: false, canUndo: false });
-    expect(other.draft.raw['vehicle.isp_s']).toBe('228');
+    expect(other.draft.raw['vehicle.isp_s']).toBe('230');
   });
 
   it('marks inputs a file lacked until the user touches them or saves', () => {
@@ -76,7 +76,7 @@ describe('workspace', () => {
     w.open(JSON.stringify({ format: 'landreach-study', version: 1, name: 'x', vehicle: { isp_s: 310 } }), 'x.json');
     const problems = w.snapshot().problems;
     expect(problems['vehicle.isp_s']).toBeUndefined();
-    expect(problems['vehicle.wetMass_kg']).toEqual({ severity: 'warning', message: 'Not in the opened file: the default 2400 kg was filled in. Check it, or type the value you mean.' });
+    expect(problems['vehicle.wetMass_kg']).toEqual({ severity: 'warning', message: 'Not in the opened file: the default 2100 kg was filled in. Check it, or type the value you mean.' });
     expect(w.snapshot().errorCount).toBe(0);
     w.edit('vehicle.wetMass_kg', '2500');
     expect(w.snapshot().problems['vehicle.wetMass_kg']).toBeUndefined();
@@ -112,8 +112,8 @@ describe('workspace', () => {
     const w = new Workspace(model);
     let calls = 0;
     const off = w.subscribe(() => calls++);
-    w.edit('vehicle.isp_s', '228');
-    w.edit('vehicle.isp_s', '229');
+    w.edit('vehicle.isp_s', '230');
+    w.edit('vehicle.isp_s', '231');
     w.undo();
     w.undo();
     off();

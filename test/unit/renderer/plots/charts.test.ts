@@ -104,3 +104,12 @@ describe('study charts', () => {
     expect(() => toPoints([1, 2], [1])).toThrow(/2 x values and 1 y values/);
   });
 });
+
+describe('chart colours follow the picks', () => {
+  it('a trajectory keeps the colour of its pick even when an earlier pick has no curve', () => {
+    const series = { time_s: [0, 1], thrust_N: [0, 0, 100, 0, 0, 100] };
+    const config = throttleChart([{ label: 'Target 2', series, colourIndex: 1 }], { thrustMax_N: 200, throttleMin: 0.2, throttleMax: 0.8 });
+    const curve = config.data.datasets.find((d) => d.label === 'Target 2')!;
+    expect(curve.borderColor).toBe(TRAJECTORY_COLOURS[1]);
+  });
+});

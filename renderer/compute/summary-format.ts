@@ -1,0 +1,45 @@
+/** Result figures as the app shows them: a label, a value with its unit, and a note where it needs one. */
+import type { FootprintSummary } from '../../core/study/footprintExport.ts';
+import type { PickedTrajectory } from '../../core/footprint/pickedTrajectory.ts';
+
+export interface Figure {
+  label: string;
+  value: string;
+  note?: string;
+}
+
+const fixed = (v: number, digits: number) => (Number.isFinite(v) ? v.toFixed(digits) : '—');
+
+export function footprintFigureList(s: FootprintSummary): Figure[] {
+  const done = s.targets - s.pending;
+  return [
+    { label: 'Targets', value: `${s.reachable} reachable / ${done} computed`, note: s.pending ? `${s.pending} not computed${s.cancelled ? ' (cancelled)' : ''}` : undefined },
+    { label: 'Budget', value: `${fixed(s.budget_kg, 1)} kg`, note: `usable ${fixed(s.usablePropellant_kg, 1)} kg − reserve ${fixed(s.reserve_kg, 1)} kg` },
+    // Targets not computed count as out of reach (core/footprint/contours.ts), so a partial field gives
+    // lower bounds: said so rather than shown as if final.
+    { label: 'Reachable area', value: `${fixed(s.reachableArea_m2 / 1e6, 3)} km²`, note: s.pending ? 'with the reserve kept; at least (rows not computed)' : 'with the reserve kept' },
+    {
+      label: 'Guaranteed divert radius',
+      value: `${fixed(s.guaranteedDivertRadius_m, 0)} m`,
+      note: s.pending ? 'at least (rows not computed)' : s.divertRadiusLimitedByGrid ? 'limited by the grid: widen it' : undefined,
+    },
+    { label: 'Propellant', value: Number.isFinite(s.minPropellant_kg) ? `${fixed(s.minPropellant_kg, 1)} … ${fixed(s.maxPropellant_kg, 1)} kg` : '—', note: 'over reachable targets' },
+  ];
+}
+
+export function trajectoryFigureList(t: PickedTrajectory, budget_kg: number): Figure[] {
+  const at = `${fixed(t.target_m[0], 0)} m E, ${fixed(t.target_m[1], 0)} m N`;
+  if (t.status === 'solver-failure') return [{ label: 'Target', value: at }, { label: 'Status', value: 'solver failure', note: t.warnings.join('; ') || undefined }];
+  if (t.status === 'unreachable') {
+    return [
+      { label: 'Target', value: at },
+      { label: 'Status', value: 'unreachable', note: `closest landing ${fixed(t.miss_m, 0)} m away` },
+      { label: 'Time of flight', value: `${fixed(t.timeOfFlight_s, 2)} s`, note: 'closest-approach trajectory' },
+    ];
+  }
+  return [
+    { label: 'Target', value: at },
+    { label: 'Propellant', value: `${fixed(t.propellant_kg, 2)} kg`, note: t.propellant_kg <= budget_kg ? `within the ${fixed(budget_kg, 1)} kg budget` : `ABOVE the ${fixed(budget_kg, 1)} kg budget` },
+    { label: 'Time of flight t_f', value: `${fixed(t.timeOfFlight_s, 2)} s`, note: `N = ${t.nodes}` },
+  ];
+}

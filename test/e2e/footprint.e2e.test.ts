@@ -1,0 +1,232 @@
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
+import * as fs from 'node:fs/promises';
+import { openSession, screenshot, type Session } from './browser.ts';
+
+let session: Session;
+const DEMO_STUDY = new URL('../../assets/demo/demo-lander.study.json', import.meta.url);
+
+beforeAll(async () => {
+  session = await openSession(inject('baseUrl'));
+});
+afterAll(async () => {
+  await session?.close();
+});
+
+/** Fraction of scene pixels whose colour is close to viridis' yellow end or purple end (the drape's extremes). */
+async function drapeStats() {
+  return session.page.evaluate(() => {
+    const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement;
+    const copy = document.createElement('canvas');
+    copy.width = canvas.width;
+    copy.height = canvas.height;
+    const ctx = copy.getContext('2d')!;
+    ctx.drawImage(canvas, 0, 0);
+    const { data } = ctx.getImageData(0, 0, copy.width, copy.height);
+    let yellowGreen = 0;
+    let purpleBlue = 0;
+    let white = 0;
+    for (let i = 0; i < data.length; i += 4) {
+      const [r, g, b] = [data[i], data[i + 1], data[i + 2]];
+      // Viridis runs from dark purple (68, 1, 84) through teal to yellow (253, 231, 37); the lit terrain's
+      // height colouring uses the same map, so only the share of each end changes: counted, not assumed.
+      if (g > 150 && b < 110 && g > r * 0.8) yellowGreen++;
+      if (b > g && r < 110 && b > 70) purpleBlue++;
+      if (r > 230 && g > 230 && b > 220) white++;
+    }
+    const n = data.length / 4;
+    return { yellowGreen: yellowGreen / n, purpleBlue: purpleBlue / n, white: white / n };
+  });
+}
+
+describe('footprint in Chromium (demo study, small grids)', () => {
+  it('opens the invented demo study', async () => {
+    const { page } = session;
+    await page.getByTestId('status-ok').waitFor();
+    const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.getByRole('button', { name: 'Open…' }).click()]);
+    await chooser.setFiles(DEMO_STUDY.pathname);
+    await page.waitForFunction(() => (document.querySelector('[data-testid="study-name"]') as HTMLInputElement).value.startsWith('Demo: invented lander'));
+    expect(await page.locator('[data-field="vehicle.thrustPerEngine_N"] input').inputValue()).toBe('3300');
+    expect(await page.locator('[data-field="ignition.position_m.0"] input').inputValue()).toBe('-2500');
+    expect(await page.getByTestId('status-ok').count()).toBe(1);
+  });
+
+  it('computes a 7 × 7 footprint in workers, drapes it on the terrain and outlines the reserve boundary', async () => {
+    const { page } = session;
+    const before = await drapeStats();
+    // A 200 kg reserve (budget 500 − 200 = 300 kg) puts the reserve boundary inside the ±3500 m grid.
+    await page.locator('[data-field="vehicle.propellantReserve_kg"] input').fill('200');
+    await page.getByTestId('status-ok').waitFor();
+    await page.getByTestId('grid-side').fill('7');
+    await page.getByTestId('grid-half-width').fill('3500');
+    await page.getByTestId('compute').click();
+    await page.getByTestId('run-progress').waitFor();
+    // The scene stays live during the run: a view change draws new frames before the run ends.
+    const framesAtStart = await page.evaluate(() => (document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { framesDrawn: number } }).landreachScene.framesDrawn);
+    await page.getByTestId('view-top').click();
+    // The new frame comes on the next animation frame; the run is still going when it has been drawn.
+    await page.waitForFunction(
+      (start) => (document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { framesDrawn: number } }).landreachScene.framesDrawn > start,
+      framesAtStart,
+      { timeout: 5000 },
+    );
+    expect(await page.getByTestId('run-progress').textContent()).not.toMatch(/49 \/ 49 targets in/);
+    await page.waitForFunction(() => /49 \/ 49 targets in/.test(document.querySelector('[data-testid="run-progress"]')?.textContent ?? ''), null, { timeout: 60_000 });
+    await page.waitForTimeout(300);
+    const summary = (await page.getByTestId('footprint-summary').textContent()) ?? '';
+    expect(summary).toMatch(/Reachable area\s*[\d.]+ km²/);
+    expect(summary).toMatch(/Guaranteed divert radius\s*\d+ m/);
+    // Budget: the demo study's usable 2100 − 1600 = 500 kg (assets/demo) less the 200 kg reserve.
+    expect(summary).toMatch(/Budget\s*300\.0 kg/);
+    expect(await page.getByTestId('reserve-legend').textContent()).toMatch(/≤ 300 kg/);
+    expect(await page.locator('.legend-title').textContent()).toMatch(/propellant.*\(kg\)/i);
+    await screenshot(page, 'footprint-7x7-top');
+    await page.getByTestId('view-oblique').click();
+    await page.waitForTimeout(200);
+    await screenshot(page, 'footprint-7x7-oblique');
+    await page.getByTestId('view-top').click();
+    await page.waitForTimeout(200);
+    const after = await drapeStats();
+    // Draped propellant replaces the height colouring inside the grid: the scene's colour mix changes, and
+    // the reserve boundary adds white line pixels.
+    expect(Math.abs(after.yellowGreen - before.yellowGreen) + Math.abs(after.purpleBlue - before.purpleBlue)).toBeGreaterThan(0.02);
+    expect(after.white).toBeGreaterThan(before.white);
+    expect(session.problems).toEqual([]);
+  });
+
+  it('exports the footprint CSV: one row per target with units in the header', async () => {
+    const { page } = session;
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-csv').click()]);
+    expect(download.suggestedFilename()).toMatch(/-footprint\.csv$/);
+    const text = await fs.readFile((await download.path())!, 'utf8');
+    const lines = text.trim().split('\n');
+    expect(lines[0]).toMatch(/^# Preliminary design/);
+    expect(lines[1]).toBe('east_m,north_m,status,propellant_kg,time_of_flight_s,peak_tilt_deg,miss_m,solves,within_budget');
+    const rows = lines.slice(2).map((l) => l.split(','));
+    expect(rows).toHaveLength(49);
+    // The grid's corners are at ±3500 m.
+    expect(rows[0].slice(0, 2)).toEqual(['-3500', '-3500']);
+    expect(rows[48].slice(0, 2)).toEqual(['3500', '3500']);
+    for (const r of rows) expect(['reachable', 'unreachable', 'failed']).toContain(r[2]);
+    // within_budget agrees with the 300 kg budget, and the boundary runs through the grid: both kinds occur.
+    const reachable = rows.filter((x) => x[2] === 'reachable');
+    for (const r of reachable) expect(r[8]).toBe(Number(r[3]) <= 300 ? '1' : '0');
+    expect(rows.some((r) => r[8] === '1')).toBe(true);
+    expect(rows.some((r) => r[8] === '0')).toBe(true);
+    await fs.writeFile(new URL('../../test-artifacts/footprint-7x7.csv', import.meta.url), text);
+    // Pixel readback against the exported numbers: where the scene draws the cheapest target the drape is
+    // viridis' dark end, where it draws the dearest, its bright end (green channel: 1 at the purple end,
+    // 231 at the yellow end of viridis; lighting scales both). Median of 5 × 5 pixels, past 1-px lines.
+    const byCost = [...reachable].sort((a, b) => Number(a[3]) - Number(b[3]));
+    const [cheap, dear] = [byCost[0], byCost[byCost.length - 1]].map((r) => [Number(r[0]), Number(r[1])]);
+    const greens = await page.evaluate(([a, b]) => {
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { projectGroundPoint(e: number, n: number): { x: number; y: number } | null } };
+      const copy = document.createElement('canvas');
+      copy.width = canvas.width;
+      copy.height = canvas.height;
+      const ctx = copy.getContext('2d')!;
+      ctx.drawImage(canvas, 0, 0);
+      const scale = canvas.width / canvas.clientWidth;
+      return [a, b].map(([e, n]) => {
+        const p = canvas.landreachScene.projectGroundPoint(e, n)!;
+        const { data } = ctx.getImageData(Math.round(p.x * scale) - 2, Math.round(p.y * scale) - 2, 5, 5);
+        const g: number[] = [];
+        for (let i = 0; i < data.length; i += 4) g.push(data[i + 1]);
+        return g.sort((x, y) => x - y)[12];
+      });
+    }, [cheap, dear]);
+    expect(greens[1] - greens[0]).toBeGreaterThan(60);
+  });
+
+  it('exports the JSON report and the SVG map with the caution and the inputs hash', async () => {
+    const { page, context } = session;
+    const [json] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-json').click()]);
+    expect(json.suggestedFilename()).toMatch(/-footprint\.json$/);
+    const report = JSON.parse(await fs.readFile((await json.path())!, 'utf8'));
+    expect(report.caution).toMatch(/^Preliminary design and trade studies only; not flight software/);
+    expect(report.inputsHash).toMatch(/^[0-9a-f]{64}$/);
+    expect(report).toMatchObject({ format: 'landreach-footprint', version: 1, summary: { budget_kg: 300, targets: 49, pending: 0 }, grid: { nx: 7, ny: 7 } });
+    const [svg] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-svg').click()]);
+    const svgText = await fs.readFile((await svg.path())!, 'utf8');
+    expect(svgText).toMatch(/^<svg[^>]*xmlns="http:\/\/www\.w3\.org\/2000\/svg"/);
+    expect(svgText).toContain('Preliminary design and trade studies only');
+    const svgFile = new URL('../../test-artifacts/footprint-7x7.svg', import.meta.url);
+    await fs.writeFile(svgFile, svgText);
+    // Chromium renders the exported map on its own, outside the app (a report reader's view of it).
+    const viewer = await context.newPage();
+    await viewer.goto(svgFile.href);
+    await viewer.screenshot({ path: new URL('../../test-artifacts/footprint-7x7-svg-rendered.png', import.meta.url).pathname });
+    await viewer.close();
+    const [geo] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-geojson').click()]);
+    const collection = JSON.parse(await fs.readFile((await geo.path())!, 'utf8'));
+    expect(collection.type).toBe('FeatureCollection');
+    expect(collection.features[0].properties).toMatchObject({ kind: 'reachable-with-reserve', level_kg: 300, reserve_kg: 200 });
+  });
+
+  it('marks the footprint stale when an input changes, and current again when undone', async () => {
+    const { page } = session;
+    const isp = page.locator('[data-field="vehicle.isp_s"] input');
+    await isp.fill('231');
+    await page.getByTestId('footprint-stale').waitFor();
+    await page.getByTestId('undo').click();
+    await page.getByTestId('footprint-stale').waitFor({ state: 'detached' });
+  });
+
+  it('picks a target and shows its optimal trajectory in the scene and the charts', async () => {
+    const { page } = session;
+    // Close the export notices first: they sit over the scene where the target is clicked.
+    await page.evaluate('document.querySelectorAll(\'[data-testid="notice"] button\').forEach((b) => b.click())');
+    await page.waitForFunction(() => document.querySelectorAll('[data-testid="notice"]').length === 0);
+    const point = await page.evaluate(() => {
+      const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { projectGroundPoint(e: number, n: number): { x: number; y: number } | null } };
+      const p = canvas.landreachScene.projectGroundPoint(500, -300);
+      const box = canvas.getBoundingClientRect();
+      return p ? { x: box.left + p.x, y: box.top + p.y } : null;
+    });
+    expect(point).not.toBeNull();
+    await page.mouse.click(point!.x, point!.y);
+    await page.getByTestId('trajectory-summary').waitFor({ timeout: 30_000 });
+    const text = (await page.getByTestId('trajectory-summary').textContent()) ?? '';
+    expect(text).toMatch(/Propellant\s*[\d.]+ kg/);
+    // The picked target (500 m E, 300 m S) is solved at the study's N = 50 (the grid at N = 30): its
+    // propellant lies within the range over the grid's reachable targets.
+    const propellant = Number(/Propellant\s*([\d.]+) kg/.exec(text)![1]);
+    const range = /Propellant\s*([\d.]+) … ([\d.]+) kg/.exec((await page.getByTestId('footprint-summary').textContent()) ?? '')!;
+    expect(propellant).toBeGreaterThanOrEqual(Number(range[1]));
+    expect(propellant).toBeLessThanOrEqual(Number(range[2]));
+    expect(text).toMatch(/Time of flight t_f\s*[\d.]+ s/);
+    await page.getByTestId('chart-tab-throttle').click();
+    // data-series lists "label:points" per dataset of the chart's configuration.
+    const series = ((await page.locator('[data-testid="trajectory-plot"] canvas').getAttribute('data-series')) ?? '').split('|');
+    // The study's N = 50 nodes give 50 throttle samples for the picked target.
+    expect(series.some((d) => /^Target 1.*:50$/.test(d))).toBe(true);
+    await screenshot(page, 'trajectory-picked');
+    expect(session.problems).toEqual([]);
+  });
+
+  it('cancels a run mid-way and keeps the finished rows', async () => {
+    const { page } = session;
+    await page.getByTestId('grid-side').fill('15');
+    await page.getByTestId('compute').click();
+    // Wait for a few rows, then cancel.
+    await page.waitForFunction(() => {
+      const m = /([\d,]+) \/ 225 targets/.exec(document.querySelector('[data-testid="run-progress"]')?.textContent ?? '');
+      return m !== null && Number(m[1].replace(/,/g, '')) >= 30;
+    }, null, { timeout: 60_000 });
+    // Mid-run the bar reports the rate and the time left.
+    expect(await page.getByTestId('run-progress').textContent()).toMatch(/targets · [\d.]+ \/s · about .+ left/);
+    await page.getByTestId('run-cancel').click();
+    await page.waitForFunction(() => /Cancelled: [\d,]+ \/ 225 targets kept/.test(document.querySelector('[data-testid="run-progress"]')?.textContent ?? ''));
+    const kept = Number(/Cancelled: ([\d,]+)/.exec((await page.getByTestId('run-progress').textContent()) ?? '')![1].replace(/,/g, ''));
+    expect(kept).toBeGreaterThanOrEqual(30);
+    expect(kept).toBeLessThan(225);
+    expect(kept % 15).toBe(0);
+    const summary = (await page.getByTestId('footprint-summary').textContent()) ?? '';
+    expect(summary).toContain(`${225 - kept} not computed (cancelled)`);
+    await screenshot(page, 'footprint-cancelled');
+    // The partial result exports as such: pending rows have an empty within_budget.
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-csv').click()]);
+    const rows = (await fs.readFile((await download.path())!, 'utf8')).trim().split('\n').slice(2);
+    expect(rows.filter((r) => r.split(',')[2] === 'pending')).toHaveLength(225 - kept);
+    expect(session.problems).toEqual([]);
+  });
+});
