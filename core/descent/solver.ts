@@ -3,6 +3,7 @@
  * re-solves it with new values for each time of flight, target and ignition state.
  */
 import type { ConicSolution, SolveStatus } from '../conic/types.ts';
+import { isInfeasible, isSolved } from '../conic/types.ts';
 import type { ConicBackend, ConicSession } from './backend.ts';
 import type { Vec3 } from './constants.ts';
 import type { ProgramData, ProgramKind, ProgramScales } from './program.ts';
@@ -31,6 +32,8 @@ export class DescentSolver {
    * or target). Measured on the demo study at N = 30–50: 11–12 interior-point iterations cold, 6–8 warm.
    */
   warmStart = true;
+  /** Warm-started solves that ended without an answer and were solved again from a cold start. */
+  coldRetries = 0;
 
   constructor(
     readonly setup: DescentSetup,
@@ -74,8 +77,14 @@ export class DescentSolver {
     const e = this.entry(kind, data);
     e.session.update(e.program.update(data));
     const warm = this.warmStart && e.last ? e.last : undefined;
-    const solution = e.session.solve(warm && { x: warm.x, y: warm.y, z: warm.z, s: warm.s });
+    let solution = e.session.solve(warm && { x: warm.x, y: warm.y, z: warm.z, s: warm.s });
     this.solves++;
+    // A warm start far from a nearly infeasible problem's path can end without an answer: retry cold.
+    if (warm && !isSolved(solution.status) && !isInfeasible(solution.status)) {
+      solution = e.session.solve();
+      this.solves++;
+      this.coldRetries++;
+    }
     if (solution.status === 'solved') e.last = solution;
     let propellant = NaN;
     let miss = NaN;
