@@ -14,18 +14,16 @@ import { UsageError } from '../command.ts';
 import { readStudy, writeFilesAtomically } from '../files.ts';
 import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { footprintCsv, footprintGeoJson, footprintReport, type FootprintSummary } from '../../study/footprintExport.ts';
+import { footprintCsv, footprintGeoJson, footprintReport } from '../../study/footprintExport.ts';
 import { footprintSvg } from '../../study/footprintSvg.ts';
 import { sampleColormap, VIRIDIS } from '../../study/colormap.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { DescentSolver } from '../../descent/solver.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { reachBoundary } from '../../descent/reach.ts';
-import { guaranteedDivertRadius, propellantRegions, regionBounds } from '../../footprint/contours.ts';
-import { countByStatus, TARGET } from '../../footprint/field.ts';
+import { regionBounds } from '../../footprint/contours.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
-
-import { defaultLevels, FOOTPRINT_NODES, footprintContext } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintContext, footprintFigures } from '../../footprint/studyFootprint.ts';
 
 const USAGE = `Usage: landreach footprint STUDY.json --out DIR [options]
 
@@ -154,35 +152,14 @@ export const footprintCommand: CliCommand = {
     const run = await runStudyFootprint(study, grid, { nodes: o.nodes, workers: o.workers }, io);
     if (io.interactive) io.stderr('\n');
     const field = run.field;
-    const counts = countByStatus(field);
-    const levels = o.levels ?? defaultLevels(field, budget);
-    const bands = propellantRegions(field, levels);
-    const [reachable] = propellantRegions(field, [budget]);
-    const radius = guaranteedDivertRadius(reachable.geometry, 0, 0, regionBounds(field));
-    let minP = Infinity;
-    let maxP = -Infinity;
-    let solves = 0;
-    for (let k = 0; k < field.status.length; k++) {
-      solves += field.solves[k];
-      if (field.status[k] !== TARGET.reachable) continue;
-      minP = Math.min(minP, field.propellant_kg[k]);
-      maxP = Math.max(maxP, field.propellant_kg[k]);
-    }
-    const summary: FootprintSummary = {
-      targets: o.nx * o.ny,
-      ...counts,
-      usablePropellant_kg: usable,
-      reserve_kg: reserve,
-      budget_kg: budget,
-      reachableArea_m2: Math.round(reachable.area_m2),
-      guaranteedDivertRadius_m: Number(radius.radius_m.toFixed(1)),
-      divertRadiusLimitedByGrid: radius.limitedByGrid,
-      minPropellant_kg: Number.isFinite(minP) ? Number(minP.toFixed(3)) : NaN,
-      maxPropellant_kg: Number.isFinite(maxP) ? Number(maxP.toFixed(3)) : NaN,
-      solves,
-      elapsed_s: Number(run.progress.elapsed_s.toFixed(2)),
-      cancelled: run.cancelled,
-    };
+    const { summary, levels_kg: levels, bands, reachable, divert: radius } = footprintFigures(
+      field,
+      { usable_kg: usable, reserve_kg: reserve },
+      { elapsed_s: run.progress.elapsed_s, cancelled: run.cancelled },
+      o.levels ?? undefined,
+    );
+    const counts = summary;
+    const solves = summary.solves;
     const createdAt = new Date().toISOString();
     const caption = [
       `${study.name} — ${o.nx} × ${o.ny} targets, N = ${o.nodes}, reserve ${reserve} kg${run.cancelled ? ' — STOPPED EARLY: partial result' : ''}`,
