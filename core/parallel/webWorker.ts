@@ -1,19 +1,21 @@
-/** Web Worker adapter (renderer): a pool worker from a module worker URL, and the worker-side port. */
-import type { PoolWorker, WorkerFactory, WorkerPort } from './protocol.ts';
+/** Web Worker adapter (renderer): the pool side of a module worker, and the worker-side port. */
+import type { PoolWorker, WorkerPort } from './protocol.ts';
 
-export function webWorkerFactory(url: URL): WorkerFactory {
-  return (): PoolWorker => {
-    const worker = new Worker(url, { type: 'module' });
-    return {
-      post: (message, transfer = []) => worker.postMessage(message, transfer),
-      onMessage: (handler) => {
-        worker.onmessage = (ev: MessageEvent) => handler(ev.data);
-      },
-      onError: (handler) => {
-        worker.onerror = (ev: ErrorEvent) => handler(new Error(ev.message || 'worker error'));
-      },
-      terminate: () => worker.terminate(),
-    };
+/**
+ * The pool side of a Web Worker. The caller creates the worker itself, writing
+ * `new Worker(new URL('…', import.meta.url), { type: 'module' })` out literally so the bundler (Vite)
+ * finds and bundles the worker entry.
+ */
+export function adaptWebWorker(worker: Worker): PoolWorker {
+  return {
+    post: (message, transfer = []) => worker.postMessage(message, transfer),
+    onMessage: (handler) => {
+      worker.onmessage = (ev: MessageEvent) => handler(ev.data);
+    },
+    onError: (handler) => {
+      worker.onerror = (ev: ErrorEvent) => handler(new Error(ev.message || 'worker error'));
+    },
+    terminate: () => worker.terminate(),
   };
 }
 
