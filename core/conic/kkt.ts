@@ -12,9 +12,12 @@
  * scheme of ECOS (Domahidi, Chu & Boyd 2013).
  */
 import type { CscMatrix } from '../linalg/csc.ts';
-import { LdlFactor, ldlSymbolic } from '../linalg/ldl.ts';
+import { ldlSymbolic } from '../linalg/ldl.ts';
+import { JsLdlSystem, type LdlSystem } from '../linalg/ldlSystem.ts';
 import { invertPermutation, minimumDegreeOrdering } from '../linalg/ordering.ts';
+import { WasmLdlSystem, wasmKernelsAvailable } from '../linalg/wasm/ldlWasm.ts';
 import type { Cone } from './cones/cone.ts';
+import type { KernelChoice } from './settings.ts';
 
 const SRC_DIAGONAL = 0;
 const SRC_A = 1;
@@ -27,6 +30,7 @@ export interface KktOptions {
   dynamicRegularisationDelta: number;
   refinementMaxIterations: number;
   refinementTolerance: number;
+  kernels: KernelChoice;
 }
 
 export class KktSystem {
@@ -36,7 +40,8 @@ export class KktSystem {
   readonly m: number;
   /** Permuted upper-triangular KKT matrix (values rewritten in place). */
   readonly matrix: CscMatrix;
-  readonly factor: LdlFactor;
+  /** The matrix, its factor and the solve's work vectors (WebAssembly or portable kernels). */
+  readonly system: LdlSystem;
   /** perm[k] = original index of permuted row k; pinv is its inverse. */
   readonly perm: Int32Array;
   readonly pinv: Int32Array;
@@ -45,11 +50,6 @@ export class KktSystem {
   private readonly posDiagXY: Int32Array;
   private readonly posCone: Int32Array[];
   private readonly sign: Int8Array;
-  private readonly work: Float64Array;
-  private readonly residual: Float64Array;
-  private readonly correction: Float64Array;
-  private readonly product: Float64Array;
-  private readonly lastStep: Float64Array;
   private readonly cones: readonly Cone[];
   /** Static regularisation in force for the current factorisation. */
   private delta: number;
@@ -127,7 +127,15 @@ export class KktSystem {
       }
     }
     for (let j = 0; j < dim; j++) colPtr[j + 1] += colPtr[j];
-    this.matrix = { m: dim, n: dim, colPtr, rowIdx, values: new Float64Array(nnz) };
+    const pattern: CscMatrix = { m: dim, n: dim, colPtr, rowIdx, values: new Float64Array(0) };
+    this.sign = new Int8Array(dim);
+    for (let k = 0; k < dim; k++) this.sign[k] = this.perm[k] < n ? 1 : -1;
+    const symbolic = ldlSymbolic(pattern);
+    const useWasm = options.kernels === 'wasm' || (options.kernels === 'auto' && wasmKernelsAvailable());
+    this.system = useWasm
+      ? new WasmLdlSystem(pattern, symbolic, this.sign, this.perm)
+      : new JsLdlSystem(pattern, symbolic, this.sign, this.perm);
+    this.matrix = this.system.matrix;
 
     this.posA = new Int32Array(A.colPtr[n]);
     this.posG = new Int32Array(G.colPtr[n]);
@@ -153,14 +161,6 @@ export class KktSystem {
       }
     }
 
-    this.sign = new Int8Array(dim);
-    for (let k = 0; k < dim; k++) this.sign[k] = this.perm[k] < n ? 1 : -1;
-    this.factor = new LdlFactor(ldlSymbolic(this.matrix));
-    this.work = new Float64Array(dim);
-    this.residual = new Float64Array(dim);
-    this.correction = new Float64Array(dim);
-    this.product = new Float64Array(dim);
-    this.lastStep = new Float64Array(dim);
     this.writeDiagonalRegularisation();
     this.setAG(A.values, G.values);
   }
@@ -193,13 +193,8 @@ export class KktSystem {
       if (attempt > 0) this.regularisationRetries++;
       this.writeDiagonalRegularisation();
       for (let c = 0; c < this.cones.length; c++) this.cones[c].writeKktBlock(vals, this.posCone[c], this.delta);
-      ok = this.factor.refactor(
-        this.matrix,
-        this.sign,
-        this.options.dynamicRegularisationEps,
-        this.options.dynamicRegularisationDelta,
-      );
-      if (ok && this.factor.regularisedPivots === 0) return true;
+      ok = this.system.refactor(this.options.dynamicRegularisationEps, this.options.dynamicRegularisationDelta);
+      if (ok && this.system.regularisedPivots === 0) return true;
     }
     return ok;
   }
@@ -209,92 +204,15 @@ export class KktSystem {
    * static regularisation. Returns false if the result is not finite.
    */
   solve(rhs: Float64Array, out: Float64Array, maxRefinement = this.options.refinementMaxIterations): boolean {
-    const { dim, perm, work, residual, correction, product, lastStep } = this;
-    let rhsNorm = 0;
-    for (let k = 0; k < dim; k++) {
-      const v = rhs[perm[k]];
-      work[k] = v;
-      const a = Math.abs(v);
-      if (a > rhsNorm) rhsNorm = a;
-    }
-    const bk = residual;
-    bk.set(work);
-    this.factor.solveInPlace(work);
-    const tol = this.options.refinementTolerance * (1 + rhsNorm);
-    let steps = 0;
-    let prevNorm = Infinity;
-    let finalNorm: number;
-    for (;;) {
-      // residual = b − K₀ x, K₀ = the stored matrix without the static δ on its diagonal.
-      this.multiplyUnregularised(work, product);
-      let norm = 0;
-      for (let k = 0; k < dim; k++) {
-        const r = bk[k] - product[k];
-        correction[k] = r;
-        const a = Math.abs(r);
-        if (a > norm) norm = a;
-      }
-      if (norm > prevNorm) {
-        // The last correction made things worse: take it back and stop.
-        for (let k = 0; k < dim; k++) work[k] -= lastStep[k];
-        finalNorm = prevNorm;
-        break;
-      }
-      finalNorm = norm;
-      if (!(norm > tol) || steps >= maxRefinement || norm > 0.2 * prevNorm) break;
-      prevNorm = norm;
-      this.factor.solveInPlace(correction);
-      for (let k = 0; k < dim; k++) work[k] += correction[k];
-      lastStep.set(correction);
-      steps++;
-    }
-    this.lastRefinementSteps = steps;
-    this.lastRelativeResidual = finalNorm / (1 + rhsNorm);
-    let finite = true;
-    for (let k = 0; k < dim; k++) {
-      const v = work[k];
-      if (!Number.isFinite(v)) finite = false;
-      out[perm[k]] = v;
-    }
+    const finite = this.system.solveRefined(rhs, out, this.delta, this.options.refinementTolerance, maxRefinement);
+    this.lastRefinementSteps = this.system.lastRefinementSteps;
+    this.lastRelativeResidual = this.system.lastRelativeResidual;
     return finite;
-  }
-
-  /**
-   * y = K₀ x for the stored (permuted, upper) matrix without the static δ. Every column's diagonal is its
-   * last stored entry (rows sorted, upper triangle, diagonal always present), which spares a branch per entry.
-   */
-  private multiplyUnregularised(x: Float64Array, y: Float64Array): void {
-    const { colPtr, rowIdx, values } = this.matrix;
-    const { dim, sign, delta } = this;
-    y.fill(0);
-    for (let j = 0; j < dim; j++) {
-      const xj = x[j];
-      const last = colPtr[j + 1] - 1;
-      let s0 = (values[last] - sign[j] * delta) * xj;
-      let s1 = 0;
-      let q = colPtr[j];
-      for (; q + 1 < last; q += 2) {
-        const i0 = rowIdx[q];
-        const i1 = rowIdx[q + 1];
-        const v0 = values[q];
-        const v1 = values[q + 1];
-        y[i0] += v0 * xj;
-        y[i1] += v1 * xj;
-        s0 += v0 * x[i0];
-        s1 += v1 * x[i1];
-      }
-      if (q < last) {
-        const i0 = rowIdx[q];
-        y[i0] += values[q] * xj;
-        s0 += values[q] * x[i0];
-      }
-      y[j] += s0 + s1;
-    }
   }
 
   /** Number of stored entries of the factor L (fill-in diagnostic). */
   get factorEntries(): number {
-    return this.factor.symbolic.nnzL;
+    return this.system.symbolic.nnzL;
   }
 }
 

@@ -15,13 +15,24 @@ export interface LdlSymbolic {
   readonly etree: Int32Array;
   /** Column pointers of L (strictly lower part). */
   readonly Lp: Int32Array;
+  /** Row indices of L by column (fixed by the pattern, so computed here once). */
+  readonly Li: Int32Array;
+  /**
+   * L by rows: row k holds the entries Rp[k] … Rp[k+1]−1, at columns Ri (ascending, which is a
+   * topological order of the elimination tree) and stored at positions Rpos of the column-wise arrays.
+   */
+  readonly Rp: Int32Array;
+  readonly Ri: Int32Array;
+  readonly Rpos: Int32Array;
   /** Number of stored entries of L. */
   readonly nnzL: number;
 }
 
 /**
- * Elimination tree and column counts of L for an upper-triangular CSC pattern (entries with row ≤ column;
- * every column must hold its diagonal entry).
+ * Elimination tree, column counts and the full pattern of L (by columns and by rows) for an
+ * upper-triangular CSC pattern (entries with row ≤ column; every column must hold its diagonal entry).
+ * The row patterns are the reach of each row's entries in the elimination tree (Liu 1986); computing them
+ * once here leaves the numeric phase with no tree walks and no markers.
  */
 export function ldlSymbolic(U: CscMatrix): LdlSymbolic {
   const n = U.n;
@@ -50,110 +61,107 @@ export function ldlSymbolic(U: CscMatrix): LdlSymbolic {
   }
   const Lp = new Int32Array(n + 1);
   for (let i = 0; i < n; i++) Lp[i + 1] = Lp[i] + Lnz[i];
-  return { n, etree, Lp, nnzL: Lp[n] };
+  const nnzL = Lp[n];
+
+  // Second pass: the same reach, now recording row k's columns, sorted ascending, and their positions.
+  const Li = new Int32Array(nnzL);
+  const Rp = new Int32Array(n + 1);
+  const Ri = new Int32Array(nnzL);
+  const Rpos = new Int32Array(nnzL);
+  const next = Lp.slice(0, n);
+  const row: number[] = [];
+  let rp = 0;
+  for (let j = 0; j < n; j++) {
+    work[j] = UNKNOWN;
+  }
+  for (let k = 0; k < n; k++) {
+    Rp[k] = rp;
+    row.length = 0;
+    work[k] = k;
+    for (let p = U.colPtr[k]; p < U.colPtr[k + 1]; p++) {
+      let i = U.rowIdx[p];
+      while (i !== k && work[i] !== k) {
+        work[i] = k;
+        row.push(i);
+        i = etree[i];
+      }
+    }
+    row.sort((a, b) => a - b);
+    for (const c of row) {
+      const pos = next[c]++;
+      Li[pos] = k;
+      Ri[rp] = c;
+      Rpos[rp] = pos;
+      rp++;
+    }
+  }
+  Rp[n] = rp;
+  return { n, etree, Lp, Li, Rp, Ri, Rpos, nnzL };
 }
 
 /** Numeric LDLᵀ with preallocated storage; refactor() may be called any number of times. */
 export class LdlFactor {
   readonly symbolic: LdlSymbolic;
-  readonly Li: Int32Array;
+  /** Values of L by columns (pattern in symbolic.Lp / symbolic.Li). */
   readonly Lx: Float64Array;
   readonly D: Float64Array;
   readonly Dinv: Float64Array;
   /**
-   * L again, by rows (row k: entries Rp[k] … Rp[k+1]−1 at columns Ri, values Rx), written during
-   * refactor() at no extra pass: the forward solve then gathers instead of scattering, which runs faster.
+   * Values of L again by rows (pattern in symbolic.Rp / symbolic.Ri), written during refactor() at no
+   * extra pass: the forward solve then gathers instead of scattering, which runs faster.
    */
-  readonly Rp: Int32Array;
-  readonly Ri: Int32Array;
   readonly Rx: Float64Array;
   /** Pivots replaced by dynamic regularisation in the last refactor(). */
   regularisedPivots = 0;
   private readonly yVals: Float64Array;
-  private readonly yIdx: Int32Array;
-  private readonly elimBuffer: Int32Array;
-  private readonly yMarkers: Uint8Array;
-  private readonly nextSpace: Int32Array;
 
   constructor(symbolic: LdlSymbolic) {
     this.symbolic = symbolic;
     const n = symbolic.n;
-    this.Li = new Int32Array(symbolic.nnzL);
     this.Lx = new Float64Array(symbolic.nnzL);
     this.D = new Float64Array(n);
     this.Dinv = new Float64Array(n);
-    this.Rp = new Int32Array(n + 1);
-    this.Ri = new Int32Array(symbolic.nnzL);
     this.Rx = new Float64Array(symbolic.nnzL);
     this.yVals = new Float64Array(n);
-    this.yIdx = new Int32Array(n);
-    this.elimBuffer = new Int32Array(n);
-    this.yMarkers = new Uint8Array(n);
-    this.nextSpace = new Int32Array(n);
   }
 
   /**
    * Factor the upper-triangular matrix U (same pattern as at analysis). `sign[k]` is the expected sign of
    * pivot k (+1 or −1); a pivot with sign[k]·d < eps is replaced by sign[k]·delta (dynamic regularisation).
    * Returns false when a pivot is zero or not finite with no sign given.
+   *
+   * Up-looking, row by row, as QDLDL (Stellato et al., OSQP, 2020), but on the row patterns computed by
+   * the symbolic phase: row k of L solves L₁₁ D₁₁ l = U(0:k, k) by a sparse forward substitution over
+   * the columns of its pattern in ascending order.
    */
   refactor(U: CscMatrix, sign: Int8Array | null, eps: number, delta: number): boolean {
-    const { n, etree, Lp } = this.symbolic;
-    const { Li, Lx, D, Dinv, yVals, yIdx, elimBuffer, yMarkers, nextSpace, Rp, Ri, Rx } = this;
-    let rp = 0;
+    const { n, Lp, Li, Rp, Ri, Rpos } = this.symbolic;
+    const { Lx, D, Dinv, yVals, Rx } = this;
     const Ap = U.colPtr;
     const Ai = U.rowIdx;
     const Ax = U.values;
     let regularised = 0;
-    for (let i = 0; i < n; i++) {
-      yMarkers[i] = 0;
-      yVals[i] = 0;
-      D[i] = 0;
-      nextSpace[i] = Lp[i];
-    }
+    yVals.fill(0);
     for (let k = 0; k < n; k++) {
-      Rp[k] = rp;
-      let nnzY = 0;
+      let dk = 0;
       for (let p = Ap[k]; p < Ap[k + 1]; p++) {
-        const bidx = Ai[p];
-        if (bidx === k) {
-          D[k] = Ax[p];
-          continue;
-        }
-        yVals[bidx] = Ax[p];
-        let nextIdx = bidx;
-        if (yMarkers[nextIdx] === 0) {
-          yMarkers[nextIdx] = 1;
-          elimBuffer[0] = nextIdx;
-          let nnzE = 1;
-          nextIdx = etree[bidx];
-          while (nextIdx !== UNKNOWN && nextIdx < k) {
-            if (yMarkers[nextIdx] === 1) break;
-            yMarkers[nextIdx] = 1;
-            elimBuffer[nnzE++] = nextIdx;
-            nextIdx = etree[nextIdx];
-          }
-          while (nnzE > 0) yIdx[nnzY++] = elimBuffer[--nnzE];
-        }
+        const i = Ai[p];
+        if (i === k) dk = Ax[p];
+        else yVals[i] = Ax[p];
       }
-      let dk = D[k];
       let dk2 = 0; // a second accumulator halves the dependency chain of the pivot update
-      for (let i = nnzY - 1; i >= 0; i--) {
-        const cidx = yIdx[i];
-        const tmpIdx = nextSpace[cidx];
-        const yc = yVals[cidx];
-        for (let j = Lp[cidx]; j < tmpIdx; j++) yVals[Li[j]] -= Lx[j] * yc;
-        Li[tmpIdx] = k;
-        const l = yc * Dinv[cidx];
-        Lx[tmpIdx] = l;
-        Ri[rp] = cidx;
-        Rx[rp] = l;
-        rp++;
-        if (i & 1) dk2 -= yc * l;
+      const rowEnd = Rp[k + 1];
+      for (let t = Rp[k]; t < rowEnd; t++) {
+        const c = Ri[t];
+        const pos = Rpos[t];
+        const yc = yVals[c];
+        yVals[c] = 0;
+        for (let j = Lp[c]; j < pos; j++) yVals[Li[j]] -= Lx[j] * yc;
+        const l = yc * Dinv[c];
+        Lx[pos] = l;
+        Rx[t] = l;
+        if (t & 1) dk2 -= yc * l;
         else dk -= yc * l;
-        nextSpace[cidx] = tmpIdx + 1;
-        yVals[cidx] = 0;
-        yMarkers[cidx] = 0;
       }
       dk += dk2;
       if (sign) {
@@ -167,7 +175,6 @@ export class LdlFactor {
       D[k] = dk;
       Dinv[k] = 1 / dk;
     }
-    Rp[n] = rp;
     this.regularisedPivots = regularised;
     return true;
   }
@@ -177,8 +184,8 @@ export class LdlFactor {
    * accumulators: the sums are latency-bound, and two independent chains run about twice as fast.
    */
   solveInPlace(x: Float64Array): void {
-    const { n, Lp } = this.symbolic;
-    const { Li, Lx, Dinv, Rp, Ri, Rx } = this;
+    const { n, Lp, Li, Rp, Ri } = this.symbolic;
+    const { Lx, Dinv, Rx } = this;
     for (let i = 0; i < n; i++) {
       let s0 = x[i];
       let s1 = 0;
@@ -203,6 +210,46 @@ export class LdlFactor {
       }
       if (j < end) s0 -= Lx[j] * x[Li[j]];
       x[i] = s0 + s1;
+    }
+  }
+
+  /**
+   * Solves L D Lᵀ x = b for two right-hand sides at once, in place. The triangular solves are chains of
+   * dependent sums (each row waits for the rows before it); two independent chains interleaved cost about
+   * as much time as one.
+   */
+  solveInPlace2(x: Float64Array, w: Float64Array): void {
+    const { n, Lp, Li, Rp, Ri } = this.symbolic;
+    const { Lx, Dinv, Rx } = this;
+    for (let i = 0; i < n; i++) {
+      let s = x[i];
+      let u = w[i];
+      const end = Rp[i + 1];
+      for (let q = Rp[i]; q < end; q++) {
+        const r = Rx[q];
+        const c = Ri[q];
+        s -= r * x[c];
+        u -= r * w[c];
+      }
+      x[i] = s;
+      w[i] = u;
+    }
+    for (let i = 0; i < n; i++) {
+      x[i] *= Dinv[i];
+      w[i] *= Dinv[i];
+    }
+    for (let i = n - 1; i >= 0; i--) {
+      let s = x[i];
+      let u = w[i];
+      const end = Lp[i + 1];
+      for (let j = Lp[i]; j < end; j++) {
+        const l = Lx[j];
+        const r = Li[j];
+        s -= l * x[r];
+        u -= l * w[r];
+      }
+      x[i] = s;
+      w[i] = u;
     }
   }
 }

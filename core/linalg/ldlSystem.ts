@@ -1,0 +1,163 @@
+/**
+ * A symmetric matrix of fixed sparsity pattern (stored as the upper triangle of a symmetric permutation
+ * P S Pᵀ), its LDLᵀ factor, and the refined solve S x = b, behind one interface with two implementations:
+ * portable TypeScript (this file) and WebAssembly kernels (wasm/ldlWasm.ts, two to three times faster on
+ * the interior-point KKT systems; figures in DEVELOPERS.md). Both run the same algorithms in the same
+ * order; the unit tests require them to agree.
+ */
+import type { CscMatrix } from './csc.ts';
+import { LdlFactor, type LdlSymbolic } from './ldl.ts';
+
+export interface LdlSystem {
+  /** The permuted matrix P S Pᵀ: pattern as given at construction, values writable in place. */
+  readonly matrix: CscMatrix;
+  readonly symbolic: LdlSymbolic;
+  /** Pivots replaced by dynamic regularisation in the last refactor(). */
+  readonly regularisedPivots: number;
+  /** Refinement steps taken by the last solveRefined(). */
+  readonly lastRefinementSteps: number;
+  /** ‖b − S₀x‖∞ / (1 + ‖b‖∞) after the last solveRefined(). */
+  readonly lastRelativeResidual: number;
+  /**
+   * Refactors the current values. Pivot k must have the sign `sign[k]` given at construction: one with
+   * sign·d < eps (or not a number) is replaced by sign·delta (dynamic regularisation).
+   */
+  refactor(eps: number, delta: number): boolean;
+  /**
+   * Solves S x = b, b and x in the original (unpermuted) order, with iterative refinement against
+   * S₀ = S − shift·diag(sign) (the matrix without its static regularisation): refinement stops once the
+   * residual is below tolerance·(1 + ‖b‖∞), after maxSteps, when a step gains less than a factor 5, or —
+   * taking that step back — when a step makes the residual worse. False if x is not finite.
+   */
+  solveRefined(b: Float64Array, x: Float64Array, shift: number, tolerance: number, maxSteps: number): boolean;
+}
+
+/** Checks the invariant the shifted product relies on: each column ends with its diagonal entry. */
+export function checkUpperPattern(U: CscMatrix): void {
+  for (let j = 0; j < U.n; j++) {
+    const last = U.colPtr[j + 1] - 1;
+    if (last < U.colPtr[j] || U.rowIdx[last] !== j) {
+      throw new RangeError(`LDLᵀ system: column ${j} must end with its diagonal entry (rows sorted, upper triangle)`);
+    }
+  }
+}
+
+/** The portable implementation. */
+export class JsLdlSystem implements LdlSystem {
+  readonly matrix: CscMatrix;
+  readonly symbolic: LdlSymbolic;
+  lastRefinementSteps = 0;
+  lastRelativeResidual = 0;
+  private readonly factor: LdlFactor;
+  private readonly sign: Int8Array;
+  private readonly perm: Int32Array;
+  private readonly work: Float64Array;
+  private readonly bk: Float64Array;
+  private readonly correction: Float64Array;
+  private readonly product: Float64Array;
+  private readonly lastStep: Float64Array;
+
+  /** `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle. */
+  constructor(pattern: CscMatrix, symbolic: LdlSymbolic, sign: Int8Array, perm: Int32Array) {
+    checkUpperPattern(pattern);
+    const n = pattern.n;
+    const nnz = pattern.colPtr[n];
+    this.matrix = { m: n, n, colPtr: pattern.colPtr, rowIdx: pattern.rowIdx, values: new Float64Array(nnz) };
+    this.symbolic = symbolic;
+    this.factor = new LdlFactor(symbolic);
+    this.sign = sign.slice(0, n);
+    this.perm = perm.slice(0, n);
+    this.work = new Float64Array(n);
+    this.bk = new Float64Array(n);
+    this.correction = new Float64Array(n);
+    this.product = new Float64Array(n);
+    this.lastStep = new Float64Array(n);
+  }
+
+  get regularisedPivots(): number {
+    return this.factor.regularisedPivots;
+  }
+
+  refactor(eps: number, delta: number): boolean {
+    return this.factor.refactor(this.matrix, this.sign, eps, delta);
+  }
+
+  solveRefined(rhs: Float64Array, out: Float64Array, shift: number, tolerance: number, maxSteps: number): boolean {
+    const { perm, work, bk, correction, product, lastStep } = this;
+    const dim = this.matrix.n;
+    let rhsNorm = 0;
+    for (let k = 0; k < dim; k++) {
+      const v = rhs[perm[k]];
+      work[k] = v;
+      bk[k] = v;
+      const a = Math.abs(v);
+      if (a > rhsNorm) rhsNorm = a;
+    }
+    this.factor.solveInPlace(work);
+    const tol = tolerance * (1 + rhsNorm);
+    let steps = 0;
+    let prevNorm = Infinity;
+    let finalNorm: number;
+    for (;;) {
+      this.multiplyShifted(shift, work, product);
+      let norm = 0;
+      for (let k = 0; k < dim; k++) {
+        const r = bk[k] - product[k];
+        correction[k] = r;
+        const a = Math.abs(r);
+        if (a > norm) norm = a;
+      }
+      if (norm > prevNorm) {
+        for (let k = 0; k < dim; k++) work[k] -= lastStep[k];
+        finalNorm = prevNorm;
+        break;
+      }
+      finalNorm = norm;
+      if (!(norm > tol) || steps >= maxSteps || norm > 0.2 * prevNorm) break;
+      prevNorm = norm;
+      this.factor.solveInPlace(correction);
+      for (let k = 0; k < dim; k++) work[k] += correction[k];
+      lastStep.set(correction);
+      steps++;
+    }
+    this.lastRefinementSteps = steps;
+    this.lastRelativeResidual = finalNorm / (1 + rhsNorm);
+    let finite = true;
+    for (let k = 0; k < dim; k++) {
+      const v = work[k];
+      if (!Number.isFinite(v)) finite = false;
+      out[perm[k]] = v;
+    }
+    return finite;
+  }
+
+  /** y = S₀ x with S₀ = S − shift·diag(sign), S from its stored upper triangle; two accumulators per column. */
+  private multiplyShifted(shift: number, x: Float64Array, y: Float64Array): void {
+    const { colPtr, rowIdx, values, n } = this.matrix;
+    const sign = this.sign;
+    y.fill(0);
+    for (let j = 0; j < n; j++) {
+      const xj = x[j];
+      const last = colPtr[j + 1] - 1;
+      let s0 = (values[last] - sign[j] * shift) * xj;
+      let s1 = 0;
+      let q = colPtr[j];
+      for (; q + 1 < last; q += 2) {
+        const i0 = rowIdx[q];
+        const i1 = rowIdx[q + 1];
+        const v0 = values[q];
+        const v1 = values[q + 1];
+        y[i0] += v0 * xj;
+        y[i1] += v1 * xj;
+        s0 += v0 * x[i0];
+        s1 += v1 * x[i1];
+      }
+      if (q < last) {
+        const i0 = rowIdx[q];
+        y[i0] += values[q] * xj;
+        s0 += values[q] * x[i0];
+      }
+      y[j] += s0 + s1;
+    }
+  }
+}

@@ -1,0 +1,150 @@
+/**
+ * The WebAssembly kernels against the portable TypeScript implementation (same algorithm, so the results
+ * agree to rounding) and against dense Gaussian elimination (test/support/dense.ts, a textbook solve), plus
+ * a check that the committed kernel bytes are a fresh compile of their AssemblyScript source.
+ */
+import { readFile } from 'node:fs/promises';
+import { describe, expect, it } from 'vitest';
+import { cscFromTriplets, type CscMatrix } from '../../../core/linalg/csc.ts';
+import { ldlSymbolic } from '../../../core/linalg/ldl.ts';
+import { JsLdlSystem, type LdlSystem } from '../../../core/linalg/ldlSystem.ts';
+import { minimumDegreeOrdering } from '../../../core/linalg/ordering.ts';
+import { WasmLdlSystem, wasmKernelsAvailable } from '../../../core/linalg/wasm/ldlWasm.ts';
+import { ConicWorkspace } from '../../../core/conic/index.ts';
+import { denseSolve } from '../../support/dense.ts';
+import { Rng } from '../../support/random.ts';
+import { controlInstance } from '../../support/socp-instances.ts';
+
+/** A random quasi-definite matrix [[H, Bᵀ], [B, −F]] (H, F diagonal positive), dense. */
+function quasiDefinite(rng: Rng, n1: number, n2: number, density: number): number[][] {
+  const n = n1 + n2;
+  const M = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  for (let i = 0; i < n1; i++) M[i][i] = rng.uniform(0.5, 3);
+  for (let i = n1; i < n; i++) M[i][i] = -rng.uniform(0.5, 3);
+  for (let i = n1; i < n; i++) {
+    for (let j = 0; j < n1; j++) {
+      if (rng.next() < density) M[i][j] = M[j][i] = rng.normal();
+    }
+  }
+  return M;
+}
+
+/** Upper triangle of P M Pᵀ (perm[k] = original row of permuted row k), rows sorted, as CSC. */
+function permutedUpper(M: number[][], perm: Int32Array): CscMatrix {
+  const r: number[] = [];
+  const c: number[] = [];
+  const v: number[] = [];
+  for (let i = 0; i < M.length; i++) {
+    for (let j = i; j < M.length; j++) {
+      const x = M[perm[i]][perm[j]];
+      if (x !== 0 || i === j) {
+        r.push(i);
+        c.push(j);
+        v.push(x);
+      }
+    }
+  }
+  return cscFromTriplets(M.length, M.length, r, c, v);
+}
+
+function systems(M: number[][], n1: number) {
+  const natural = permutedUpper(M, Int32Array.from(M, (_, i) => i));
+  const perm = minimumDegreeOrdering(natural);
+  const U = permutedUpper(M, perm);
+  const sign = Int8Array.from(perm, (orig) => (orig < n1 ? 1 : -1));
+  const symbolic = ldlSymbolic(U);
+  const make = (S: new (...a: ConstructorParameters<typeof JsLdlSystem>) => LdlSystem) => {
+    const s = new S(U, symbolic, sign, perm);
+    s.matrix.values.set(U.values);
+    return s;
+  };
+  return { js: make(JsLdlSystem), wasm: make(WasmLdlSystem), perm, symbolic };
+}
+
+describe.runIf(wasmKernelsAvailable())('WebAssembly LDLᵀ kernels', () => {
+  it('agree with the portable implementation and with dense elimination on random quasi-definite systems', () => {
+    const rng = new Rng(2027);
+    for (let trial = 0; trial < 40; trial++) {
+      const n1 = rng.int(2, 40);
+      const n2 = rng.int(1, 30);
+      const M = quasiDefinite(rng, n1, n2, rng.uniform(0.05, 0.4));
+      const { js, wasm } = systems(M, n1);
+      expect(js.refactor(1e-13, 1e-7)).toBe(true);
+      expect(wasm.refactor(1e-13, 1e-7)).toBe(true);
+      expect(wasm.regularisedPivots).toBe(js.regularisedPivots);
+      const b = Float64Array.from(M, () => rng.normal());
+      const xj = new Float64Array(b.length);
+      const xw = new Float64Array(b.length);
+      for (const steps of [0, 3]) {
+        expect(js.solveRefined(b, xj, 0, 1e-14, steps)).toBe(true);
+        expect(wasm.solveRefined(b, xw, 0, 1e-14, steps)).toBe(true);
+        expect(wasm.lastRefinementSteps).toBe(js.lastRefinementSteps);
+        const scale = Math.max(...xj.map(Math.abs));
+        xj.forEach((v, i) => expect(Math.abs(xw[i] - v)).toBeLessThanOrEqual(1e-12 * scale));
+      }
+      const ref = denseSolve(M, Array.from(b));
+      ref.forEach((v, i) => expect(xw[i]).toBeCloseTo(v, 9));
+    }
+  });
+
+  it('records every row pattern once, in ascending order, at its column position', () => {
+    const rng = new Rng(5);
+    const M = quasiDefinite(rng, 30, 20, 0.2);
+    const { symbolic: s } = systems(M, 30);
+    let entries = 0;
+    for (let k = 0; k < s.n; k++) {
+      for (let t = s.Rp[k]; t < s.Rp[k + 1]; t++) {
+        if (t > s.Rp[k]) expect(s.Ri[t]).toBeGreaterThan(s.Ri[t - 1]);
+        const c = s.Ri[t];
+        expect(s.Rpos[t]).toBeGreaterThanOrEqual(s.Lp[c]);
+        expect(s.Rpos[t]).toBeLessThan(s.Lp[c + 1]);
+        expect(s.Li[s.Rpos[t]]).toBe(k);
+        entries++;
+      }
+    }
+    expect(entries).toBe(s.nnzL);
+  });
+
+  it('replace pivots of the wrong sign the same way (dynamic regularisation)', () => {
+    // [[1, 1], [1, 1]] is singular; with expected signs (+, −) the second pivot 0 becomes −δ.
+    const M = [[1, 1], [1, 1]];
+    const { js, wasm } = systems(M, 1);
+    expect(js.refactor(1e-13, 1e-7)).toBe(true);
+    expect(wasm.refactor(1e-13, 1e-7)).toBe(true);
+    expect(js.regularisedPivots).toBe(1);
+    expect(wasm.regularisedPivots).toBe(1);
+  });
+
+  it('report a non-finite solution as a failure', () => {
+    const M = [[1, 0], [0, -1]];
+    const { wasm } = systems(M, 1);
+    wasm.matrix.values.fill(NaN);
+    wasm.refactor(1e-13, 1e-7);
+    expect(wasm.solveRefined(Float64Array.from([Infinity, 1]), new Float64Array(2), 0, 1e-14, 2)).toBe(false);
+  });
+
+  it('give the interior-point solver the same iterates as the portable kernels', () => {
+    const { problem } = controlInstance(7, 30);
+    const a = new ConicWorkspace(problem, { kernels: 'wasm' }).solve();
+    const b = new ConicWorkspace(problem, { kernels: 'javascript' }).solve();
+    expect(a.status).toBe('solved');
+    expect(b.status).toBe('solved');
+    expect(a.info.iterations).toBe(b.info.iterations);
+    expect(Math.abs(a.info.primalObjective - b.info.primalObjective)).toBeLessThan(1e-9 * Math.abs(b.info.primalObjective));
+  });
+
+  it('are a fresh compile of their AssemblyScript source (run `npm run build:kernels` after editing it)', async () => {
+    const { compileKernels, generatedModule } = await import('../../../bin/build-kernels.mjs');
+    const committed = await readFile(new URL('../../../core/linalg/wasm/kernels.generated.ts', import.meta.url), 'utf8');
+    expect(committed).toBe(generatedModule(await compileKernels()));
+  }, 60_000);
+});
+
+describe('kernel choice', () => {
+  it('is validated with a message naming the field and the choices', () => {
+    const { problem } = controlInstance(7, 5);
+    expect(() => new ConicWorkspace(problem, { kernels: 'fortran' as never })).toThrow(
+      /invalid kernels: fortran \(must be one of auto, wasm, javascript\)/,
+    );
+  });
+});
