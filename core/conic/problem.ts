@@ -85,11 +85,17 @@ export function validateProblem(p: ConicProblem): void {
 export interface Equilibration {
   readonly D: Float64Array;
   readonly E: Float64Array;
+  /** Scratch of length n and p + m (allocated here when absent). */
+  readonly colMax?: Float64Array;
+  readonly rowMax?: Float64Array;
 }
 
 /**
  * Ruiz (2001) equilibration of the stacked matrix [A; G] in the ∞-norm, keeping one factor per
- * second-order cone so the cone is preserved.
+ * second-order cone so the cone is preserved. With `continueFrom`, the passes start from the scaling
+ * already in `out` instead of from the identity: a problem whose values moved a little since its last
+ * equilibration (the next target of a footprint, the next t_f of a search) then needs one or two passes
+ * instead of the full count.
  */
 export function ruizEquilibrate(
   A: CscMatrix,
@@ -99,15 +105,18 @@ export function ruizEquilibrate(
   minScale: number,
   maxScale: number,
   out: Equilibration,
+  continueFrom = false,
 ): void {
   const n = A.n;
   const p = A.m;
   const m = G.m;
   const { D, E } = out;
-  D.fill(1);
-  E.fill(1);
-  const colMax = new Float64Array(n);
-  const rowMax = new Float64Array(p + m);
+  if (!continueFrom) {
+    D.fill(1);
+    E.fill(1);
+  }
+  const colMax = out.colMax ?? new Float64Array(n);
+  const rowMax = out.rowMax ?? new Float64Array(p + m);
   const clamp = (v: number) => (v < minScale ? minScale : v > maxScale ? maxScale : v);
   for (let it = 0; it < iterations; it++) {
     colMax.fill(0);

@@ -13,9 +13,9 @@ import type { Cone } from './cones/cone.ts';
 import { NonnegativeCone } from './cones/nonnegative.ts';
 import { SecondOrderCone } from './cones/secondOrder.ts';
 import { KktSystem } from './kkt.ts';
-import { ruizEquilibrate, validateProblem } from './problem.ts';
+import { ruizEquilibrate, validateProblem, type Equilibration } from './problem.ts';
 import { resolveSettings, type SolverSettings } from './settings.ts';
-import type { ConicProblem, ConicSolution, SolveStatus } from './types.ts';
+import type { ConeSpec, ConicProblem, ConicSolution, SolveStatus } from './types.ts';
 import { type Residuals, assessIterate, emptyAssessment, type Assessment } from './termination.ts';
 
 /** New values for a problem of the same shape and sparsity pattern. */
@@ -64,6 +64,8 @@ export class ConicWorkspace {
   private readonly h: Float64Array;
   private readonly D: Float64Array;
   private readonly E: Float64Array;
+  private readonly coneSpec: ConeSpec;
+  private readonly scratch: Equilibration;
   private readonly norms = { b: 0, h: 0, c: 0, bs: 0, hs: 0, cs: 0 };
   // Iterate.
   private readonly x: Float64Array;
@@ -162,7 +164,9 @@ export class ConicWorkspace {
     this.best = { x: new Float64Array(n), y: new Float64Array(p), z: new Float64Array(m), s: new Float64Array(m), tau: 1, kappa: 1 };
     for (const k of this.cones) k.addIdentity(this.ones, 1);
 
-    this.equilibrate();
+    this.coneSpec = { nonnegative: problem.cones.nonnegative, secondOrder: problem.cones.secondOrder.slice() };
+    this.scratch = { D: this.D, E: this.E, colMax: new Float64Array(n), rowMax: new Float64Array(p + m) };
+    this.equilibrate(false);
     this.kkt = new KktSystem(this.As, this.Gs, this.cones, this.settings);
   }
 
@@ -187,7 +191,7 @@ export class ConicWorkspace {
     if (data.h) this.h0.set(data.h);
     if (data.AValues) this.A.values.set(data.AValues);
     if (data.GValues) this.G.values.set(data.GValues);
-    this.equilibrate();
+    this.equilibrate(true);
     this.kkt.setAG(this.As.values, this.Gs.values);
   }
 
@@ -196,10 +200,10 @@ export class ConicWorkspace {
     return this.kkt.factorEntries;
   }
 
-  private equilibrate(): void {
+  private equilibrate(continueFrom: boolean): void {
     const { A, G, As, Gs, D, E, p } = this;
     const s = this.settings;
-    ruizEquilibrate(A, G, this.conesSpec(), s.equilibrationIterations, s.equilibrationMin, s.equilibrationMax, { D, E });
+    ruizEquilibrate(A, G, this.coneSpec, s.equilibrationIterations, s.equilibrationMin, s.equilibrationMax, this.scratch, continueFrom);
     scaleMatrix(A, As, E, 0, D);
     scaleMatrix(G, Gs, E, p, D);
     for (let j = 0; j < this.n; j++) this.c[j] = this.c0[j] * D[j];
@@ -213,14 +217,6 @@ export class ConicWorkspace {
     this.norms.cs = infNorm(this.c);
   }
 
-  private conesSpec() {
-    const first = this.cones[0];
-    const nonnegative = first instanceof NonnegativeCone ? first.dim : 0;
-    return {
-      nonnegative,
-      secondOrder: this.cones.filter((k) => k instanceof SecondOrderCone).map((k) => k.dim),
-    };
-  }
 
   /**
    * Solves the current problem. Without `start`, from the cold start of Vandenberghe (2010); with it, from

@@ -295,14 +295,22 @@ export class DescentProgram {
     }
     if (con.glideSlope !== null) {
       const cot = 1 / Math.tan(con.glideSlope);
+      // Minimum propellant lands on the target itself: the cone's apex is data, not a variable, which
+      // keeps every node's cone off the last node's columns (a sparser KKT factor).
+      const apexFixed = kind === 'min-propellant';
       for (let k = 1; k < last; k++) {
         const t0 = e.soc(3, 1 / S.length);
         e.g(t0, idx(k, NODE.r + 2), -cot);
-        e.g(t0, idx(last, NODE.r + 2), cot);
-        e.h(t0, con.gateHeight * cot);
+        if (apexFixed) {
+          e.h(t0, -cot * d.target[2]);
+        } else {
+          e.g(t0, idx(last, NODE.r + 2), cot);
+          e.h(t0, con.gateHeight * cot);
+        }
         for (let i = 0; i < 2; i++) {
           e.g(t0 - 1 - i, idx(k, NODE.r + i), -1);
-          e.g(t0 - 1 - i, idx(last, NODE.r + i), 1);
+          if (apexFixed) e.h(t0 - 1 - i, -d.target[i]);
+          else e.g(t0 - 1 - i, idx(last, NODE.r + i), 1);
         }
       }
     }
