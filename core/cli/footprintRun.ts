@@ -21,7 +21,8 @@ export function progressLine(p: FootprintProgress): string {
 export async function runStudyFootprint(
   study: Study,
   grid: TargetGrid,
-  options: { nodes: number; workers: number },
+  /** propellantBudget_kg: a reachable-set run (see DescentFootprintContext.propellantBudget_kg). */
+  options: { nodes: number; workers: number; propellantBudget_kg?: number },
   io: CliIo,
 ): Promise<FootprintRun> {
   const pool = new JobPool<RowJob, FieldRow>(nodeWorkerFactory(new URL('../footprint/nodeWorker.mjs', import.meta.url)), options.workers);
@@ -34,7 +35,7 @@ export async function runStudyFootprint(
   let lastPrint = 0;
   try {
     const run = await computeFootprint(grid, pool, {
-      context: footprintContext(study, options.nodes),
+      context: { ...footprintContext(study, options.nodes), propellantBudget_kg: options.propellantBudget_kg },
       signal: controller.signal,
       onRow: (_r, p) => {
         const now = Date.now();

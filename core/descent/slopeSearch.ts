@@ -30,6 +30,11 @@ export interface SlopeSearchOptions extends SearchOptions {
    * by less, the two slopes already bracket the optimum.
    */
   probeHalfWidth?: number;
+  /**
+   * Reachable-set runs: stop as soon as the certified lower bound on the propellant exceeds this budget, kg
+   * (the target is then known to be out of budget; its exact minimum is not needed).
+   */
+  propellantBudget_kg?: number;
 }
 
 export interface SlopeSearchResult {
@@ -40,6 +45,11 @@ export interface SlopeSearchResult {
   peakTilt: number;
   /** Whether the fast path settled the target (false: the robust search did). */
   fast: boolean;
+  /**
+   * With a propellant budget: a certified lower bound on the minimum propellant above the budget, kg, when
+   * the search stopped early for that reason (the result then holds the best point found); else NaN.
+   */
+  overBudgetBound_kg: number;
 }
 
 const FD_STEP = 1e-3; // s, for the central difference of the data in t_f
@@ -124,6 +134,7 @@ export function searchFreeFinalTimeBySlope(
       curvature: NaN,
       peakTilt: result.trajectory ? Math.max(...result.trajectory.series.tilt) : NaN,
       fast: false,
+      overBudgetBound_kg: NaN,
     };
   };
   const t0 = options.tfGuess;
@@ -199,6 +210,13 @@ export function searchFreeFinalTimeBySlope(
     const bound = J(lo) + lo.g * (tCross - lo.t);
     const massFinal = Math.exp(-objective(best.solution));
     if (massFinal * (objective(best.solution) - bound) <= PROPELLANT_TOLERANCE_KG || hi.t - lo.t <= tol / 4) break;
+    // J = −ln m_final, so J ≥ bound means propellant ≥ m0 − e^(−bound).
+    const propellantBound = ignition.mass - Math.exp(-bound);
+    if (options.propellantBudget_kg !== undefined && propellantBound > options.propellantBudget_kg) {
+      const out = done(solver, best, br, startSolves, (hi.g - lo.g) / (hi.t - lo.t), target);
+      out.overBudgetBound_kg = propellantBound;
+      return out;
+    }
     if (solver.solves - startSolves >= MAX_FAST_SOLVES) return fallback();
     const width = hi.t - lo.t;
     const d1 = lo.g + hi.g - (3 * (J(lo) - J(hi))) / (lo.t - hi.t);
@@ -246,5 +264,5 @@ function done(
     trajectory: null,
     warnings: [],
   };
-  return { result, curvature, peakTilt: peakTiltOf(solver, best.solution), fast: true };
+  return { result, curvature, peakTilt: peakTiltOf(solver, best.solution), fast: true, overBudgetBound_kg: NaN };
 }

@@ -21,6 +21,11 @@ export interface DescentFootprintContext {
   solver?: Partial<SolverSettings>;
   /** Time-of-flight tolerance of the search, s. */
   tfTolerance_s?: number;
+  /**
+   * Reachable-set run: targets whose certified lower bound on propellant exceeds this budget, kg, stop
+   * there and are stored as TARGET.overBudget (the exact cost of targets outside the budget is not computed).
+   */
+  propellantBudget_kg?: number;
 }
 
 const RAD = 180 / Math.PI;
@@ -60,6 +65,7 @@ export function descentEvaluator(ctx: DescentFootprintContext): TargetEvaluator 
       curvatureGuess: curvature,
       probeHalfWidth: half,
       tfTolerance: ctx.tfTolerance_s,
+      propellantBudget_kg: ctx.propellantBudget_kg,
     });
     if (Number.isFinite(r.curvature) && r.curvature > 0) curvature = r.curvature;
     if (r.result.status === 'solved') {
@@ -67,6 +73,17 @@ export function descentEvaluator(ctx: DescentFootprintContext): TargetEvaluator 
       if (history.length > 2) history.shift();
     } else history.length = 0;
     const res = r.result;
+    if (Number.isFinite(r.overBudgetBound_kg)) {
+      return {
+        code: TARGET.overBudget,
+        // The best trajectory found: an upper bound on the minimum (above the budget, as is the bound).
+        propellant_kg: res.propellant,
+        timeOfFlight_s: res.timeOfFlight,
+        peakTilt_deg: NaN,
+        miss_m: 0,
+        solves: res.solves,
+      };
+    }
     const out: TargetOutcome = {
       code: res.status === 'solved' ? TARGET.reachable : res.status === 'unreachable' ? TARGET.unreachable : TARGET.failed,
       propellant_kg: res.status === 'solved' ? res.propellant : NaN,

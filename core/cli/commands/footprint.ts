@@ -39,6 +39,9 @@ Options:
   --workers N        worker threads (default: the number of cores, at most 8)
   --nodes N          time nodes per trajectory (default ${FOOTPRINT_NODES})
   --levels A,B,...   propellant contour levels, kg (default: six round levels up to the budget)
+  --reachable-only   stop each target's search once it is certainly over the budget (such targets are
+                     reported 'over-budget' with a lower bound on their cost; levels above the budget
+                     are then not drawn)
 
 Writes footprint.json (versioned report), footprint.csv (one row per target), footprint.geojson
 (contours and the reserve boundary, RFC 7946) and footprint.svg (a map for reports).
@@ -56,6 +59,7 @@ interface Options {
   workers: number;
   nodes: number;
   levels: number[] | null;
+  reachableOnly: boolean;
 }
 
 function positive(flag: string, text: string, integer: boolean, max: number): number {
@@ -77,6 +81,7 @@ function parseArgs(args: string[]): Options {
     workers: Math.min(8, Math.max(1, os.availableParallelism?.() ?? os.cpus().length)),
     nodes: FOOTPRINT_NODES,
     levels: null,
+    reachableOnly: false,
   };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -87,6 +92,7 @@ function parseArgs(args: string[]): Options {
     };
     try {
       if (a === '--out') o.out = value();
+      else if (a === '--reachable-only') o.reachableOnly = true;
       else if (a === '--grid') [o.nx, o.ny] = parseGridSize(value());
       else if (a === '--extent-m') o.extent = positive(a, value(), false, 1e6);
       else if (a === '--reserve-kg') {
@@ -144,12 +150,15 @@ export const footprintCommand: CliCommand = {
     if (existsSync(o.out) && !statSync(o.out).isDirectory()) throw new UsageError(`--out ${o.out}: exists and is not a folder`);
     mkdirSync(o.out, { recursive: true });
     const budget = usable - reserve;
+    if (o.reachableOnly && o.levels?.some((l) => l > budget)) {
+      throw new UsageError(`--levels: ${o.levels.filter((l) => l > budget).join(', ')} kg above the budget ${budget} kg cannot be drawn with --reachable-only`);
+    }
     const extent = o.extent ?? autoExtent(study, budget, o.nodes, io);
     const grid = makeTargetGrid({ halfWidthEast_m: extent, halfWidthNorth_m: extent, nx: o.nx, ny: o.ny });
-    const inputs = { study, grid: { nx: o.nx, ny: o.ny, extent_m: extent }, nodes: o.nodes, reserve_kg: reserve };
+    const inputs = { study, grid: { nx: o.nx, ny: o.ny, extent_m: extent }, nodes: o.nodes, reserve_kg: reserve, reachableOnly: o.reachableOnly };
     const hash = await inputsHash(inputs);
     io.stderr(`footprint of '${study.name}': ${o.nx} × ${o.ny} targets, ±${extent} m, N = ${o.nodes}, ${o.workers} worker(s)\n`);
-    const run = await runStudyFootprint(study, grid, { nodes: o.nodes, workers: o.workers }, io);
+    const run = await runStudyFootprint(study, grid, { nodes: o.nodes, workers: o.workers, propellantBudget_kg: o.reachableOnly ? budget : undefined }, io);
     if (io.interactive) io.stderr('\n');
     const field = run.field;
     const { summary, levels_kg: levels, bands, reachable, divert: radius } = footprintFigures(
@@ -187,7 +196,8 @@ export const footprintCommand: CliCommand = {
     io.stdout(
       [
         `status:      ${run.cancelled ? 'stopped early (partial result written)' : 'complete'}`,
-        `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed`,
+        `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
+          (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : ''),
         `budget:      ${budget.toFixed(1)} kg (usable ${usable} kg − reserve ${reserve} kg)`,
         `area:        ${(reachable.area_m2 / 1e6).toFixed(3)} km² reachable with the reserve kept`,
         `divert:      ${radius.radius_m.toFixed(0)} m guaranteed in every direction${radius.limitedByGrid ? ' (limited by the grid: widen --extent-m)' : ''}`,

@@ -58,6 +58,7 @@ describe('landreach footprint', () => {
     [['--reserve-kg', '900'], /--reserve-kg 900: must be below the usable propellant, 500 kg/],
     [['--workers', '0'], /--workers 0: must be a whole number from 1 to 64/],
     [['--levels', '100,abc'], /--levels 100,abc: must be positive masses in kg/],
+    [['--reachable-only', '--levels', '100,495'], /--levels: 495 kg above the budget \d+ kg cannot be drawn with --reachable-only/],
   ])('rejects %s with a message naming the option and the fix, writing nothing', async (extra, message) => {
     const h = io();
     const out = join(dir, `bad-${String(extra[0]).slice(2)}`);
@@ -81,6 +82,34 @@ describe('landreach footprint', () => {
     expect(report.summary.unreachable).toBeGreaterThan(0);
     expect(report.summary.divertRadiusLimitedByGrid).toBe(false);
   }, 120_000);
+
+  it('with --reachable-only, stops targets certainly over the budget and keeps the reachable region', async () => {
+    const run = async (name: string, extra: string[]) => {
+      const h = io();
+      const out = join(dir, name);
+      const args = ['footprint', DEMO, '--out', out, '--grid', '7x7', '--extent-m', '3000', '--reserve-kg', '220', '--workers', '2', ...extra];
+      expect(await main(args, h.io), h.err.join('')).toBe(0);
+      return JSON.parse(readFileSync(join(out, 'footprint.json'), 'utf8'));
+    };
+    const full = await run('full', []);
+    const pruned = await run('pruned', ['--reachable-only']);
+    const budget = pruned.summary.budget_kg;
+    expect(pruned.summary.overBudget).toBeGreaterThan(0);
+    expect(full.summary.reachableArea_m2).toBeGreaterThan(0);
+    pruned.grid.status.forEach((s: string, k: number) => {
+      if (s === 'over-budget') {
+        expect(full.grid.status[k]).toBe('reachable');
+        expect(full.grid.propellant_kg[k]).toBeGreaterThan(budget);
+        expect(pruned.grid.propellant_kg[k]).toBeGreaterThan(budget);
+      } else if (full.grid.propellant_kg[k] <= budget) {
+        expect(s).toBe('reachable');
+      }
+    });
+    // The budget contour interpolates between a target inside and one outside; with an upper bound in place
+    // of the exact cost outside, it moves inward (the safe side) by less than a grid cell.
+    expect(pruned.summary.reachableArea_m2).toBeLessThanOrEqual(full.summary.reachableArea_m2 + 1);
+    expect(pruned.summary.reachableArea_m2).toBeGreaterThan(0.5 * full.summary.reachableArea_m2);
+  }, 180_000);
 
   it('requires --out', async () => {
     const h = io();
