@@ -19,12 +19,28 @@ export interface RowJob {
   east_m: Float64Array;
   /** Optimal times of flight of the neighbouring row toward the centre, when known (NaN where not reachable). */
   tfHint: Float32Array | null;
+  /**
+   * Solve only these columns (ascending), the others stay pending: a refinement pass. Each target then
+   * starts from its left neighbour when that was just solved, else from `tfHint`.
+   */
+  columns?: Int32Array;
 }
 
 /** Worker side: solves every target of a row in continuation order. */
 export function solveRow(job: RowJob, evaluate: TargetEvaluator): FieldRow {
   const nx = job.east_m.length;
   const out = emptyRow(job.row, nx);
+  if (job.columns) {
+    let last = -2;
+    for (const i of job.columns) {
+      let guess: number | undefined;
+      if (last === i - 1 && Number.isFinite(out.timeOfFlight_s[last])) guess = out.timeOfFlight_s[last];
+      else if (job.tfHint && Number.isFinite(job.tfHint[i])) guess = job.tfHint[i];
+      setOutcome(out, i, evaluate(job.east_m[i], job.north_m, guess));
+      last = i;
+    }
+    return out;
+  }
   const { columns, previous } = columnOrder({ nx, ny: 1, east: job.east_m, north: new Float64Array(1), spacingEast_m: 0, spacingNorth_m: 0 });
   for (const i of columns) {
     const prev = previous[i];

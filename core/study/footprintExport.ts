@@ -96,6 +96,11 @@ export interface FootprintSummary {
   pending: number;
   /** Targets stopped early as certainly over the budget (reachable-set runs only). */
   overBudget: number;
+  /**
+   * Present when the budget boundary was refined coarse-to-fine: area and divert radius then come from the
+   * refined boundary; `solves` includes the refinement's.
+   */
+  boundaryRefinement?: { factor: number; extraTargets: number; extraSolves: number; unrefinedArea_m2: number; complete: boolean };
   usablePropellant_kg: number;
   reserve_kg: number;
   budget_kg: number;
