@@ -35,6 +35,11 @@ export interface SlopeSearchOptions extends SearchOptions {
    * (the target is then known to be out of budget; its exact minimum is not needed).
    */
   propellantBudget_kg?: number;
+  /**
+   * The guess is the closest-approach time of flight of an unreachable neighbour: start with the
+   * minimum-landing-error search (which hands back to the propellant search if this target is reachable).
+   */
+  guessFromUnreachable?: boolean;
 }
 
 export interface SlopeSearchResult {
@@ -119,10 +124,17 @@ export function searchFreeFinalTimeBySlope(
   const tol = options.tfTolerance ?? 0.1;
   const startSolves = solver.solves;
   const br = options.bracket ?? timeOfFlightBracket(solver.setup, ignition, target);
-  const fallback = (): SlopeSearchResult => {
+  /**
+   * `probedInfeasible`: the fast path's own probes were all infeasible, so the target is probably out of
+   * reach: the bracketing search then starts with the minimum-landing-error search (which restarts the
+   * propellant search from its time of flight if the target turns out reachable) instead of probing the
+   * same time of flight again.
+   */
+  const fallback = (probedInfeasible = false): SlopeSearchResult => {
     // The bracketing search to 0.03 s: near the steep side of J(t_f) a coarser tolerance costs ~0.1 kg.
     const result = searchFreeFinalTime(solver, target, ignition, {
       ...options,
+      ...(probedInfeasible ? { propellantProbes: 0 } : {}),
       tfTolerance: options.tfTolerance ?? FALLBACK_TF_TOLERANCE,
       landingErrorTfTolerance: options.landingErrorTfTolerance ?? FALLBACK_MISS_TF_TOLERANCE,
       bracket: br,
@@ -139,6 +151,7 @@ export function searchFreeFinalTimeBySlope(
   };
   const t0 = options.tfGuess;
   if (t0 === undefined || !(t0 > br.lower && t0 < br.upper)) return fallback();
+  if (options.guessFromUnreachable) return fallback(true);
 
   interface Point {
     r: FixedTimeSolve;
@@ -153,15 +166,17 @@ export function searchFreeFinalTimeBySlope(
   // (two solves then usually bracket the optimum), else the guess alone.
   const half = options.probeHalfWidth;
   const opening: Point[] = [];
-  if (half !== undefined && half > 0 && t0 - half > br.lower && t0 + half < br.upper) {
+  const probedBothSides = half !== undefined && half > 0 && t0 - half > br.lower && t0 + half < br.upper;
+  if (probedBothSides) {
     const left = evaluate(t0 - half);
     if (left) opening.push(left);
     const right = evaluate(t0 + half);
     if (right) opening.push(right);
   }
   if (opening.length === 0) {
+    if (probedBothSides) return fallback(true);
     const only = evaluate(t0);
-    if (!only) return fallback();
+    if (!only) return fallback(true);
     opening.push(only);
   }
   let best = opening[0].r;

@@ -47,7 +47,7 @@ export function descentEvaluator(ctx: DescentFootprintContext): TargetEvaluator 
   // target along a row), its optimal time of flight is extrapolated linearly, and the opening probes go
   // a quarter of the last change either side of that (at least 0.1 s), which usually brackets it.
   const history: { east: number; north: number; tf: number }[] = [];
-  return (east, north, tfGuess) => {
+  return (east, north, tfGuess, guessFromUnreachable) => {
     let guess = tfGuess;
     let half: number | undefined;
     if (history.length === 2 && guess !== undefined) {
@@ -66,6 +66,7 @@ export function descentEvaluator(ctx: DescentFootprintContext): TargetEvaluator 
       probeHalfWidth: half,
       tfTolerance: ctx.tfTolerance_s,
       propellantBudget_kg: ctx.propellantBudget_kg,
+      guessFromUnreachable,
     });
     if (Number.isFinite(r.curvature) && r.curvature > 0) curvature = r.curvature;
     if (r.result.status === 'solved') {
