@@ -33,7 +33,7 @@ describe('result figures carry their units', () => {
     expect(JSON.stringify(list)).not.toMatch(/NaN/);
   });
 
-  const picked: PickedTrajectory = { status: 'solved', target_m: [500, -302.4, 0], propellant_kg: 218.694, timeOfFlight_s: 36.617, miss_m: 0, nodes: 50, series: null, warnings: [] };
+  const picked: PickedTrajectory = { status: 'solved', target_m: [500, -302.4, 0], propellant_kg: 218.694, timeOfFlight_s: 36.617, miss_m: 0, nodes: 50, series: null, warnings: [], baseline: null };
 
   it('trajectory: propellant in kg, t_f in s with N', () => {
     const list = trajectoryFigureList(picked, 480);
