@@ -6,9 +6,8 @@
  */
 import type { ElevationGrid } from '../terrain/grid.ts';
 import { terrainLonLat } from '../terrain/georeference.ts';
+import { gridFactors, utmProjection } from '../terrain/transverse-mercator.ts';
 import type { FootprintLonLat } from '../study/footprintGeoJson.ts';
-
-const DEG = Math.PI / 180;
 
 /**
  * Null when the terrain has no georeference; throws core/terrain's TerrainInputError (naming the CRS)
@@ -22,12 +21,14 @@ export function footprintLonLat(grid: ElevationGrid, target_m: readonly [number,
   const placed = `The nominal target is at ${tE.toFixed(3)} m east, ${tN.toFixed(3)} m north in the DEM's frame (${ref.sourceCrs}); local metres are laid onto that frame unrotated.`;
   const notes = [placed];
   const frame = grid.georeference?.localFrame;
-  if (grid.georeference?.model === 'projected') {
-    // Grid north vs true north at the target, from a 100 m step north (spherical estimate, well within 1 %).
+  const utm = grid.georeference?.model === 'projected' ? utmProjection(grid.georeference.projectedEpsg ?? 0) : null;
+  if (utm) {
     const [lon0, lat0] = toLonLat(0, 0);
-    const [lon1, lat1] = toLonLat(0, 100);
-    const convergence = Math.atan2((lon1 - lon0) * Math.cos(lat0 * DEG), lat1 - lat0) / DEG;
-    notes.push(`UTM grid north is ${Math.abs(convergence).toFixed(3)}° ${convergence >= 0 ? 'east' : 'west'} of true north at the target (meridian convergence), and grid metres differ from ground metres by the UTM scale factor.`);
+    const { convergence_deg: c, scale } = gridFactors(utm, lon0, lat0);
+    // c > 0: true north points grid-east, so grid north lies west of true north.
+    notes.push(
+      `At the target UTM grid north is ${Math.abs(c).toFixed(4)}° ${c > 0 ? 'west' : 'east'} of true north (meridian convergence) and grid metres are ${scale.toFixed(6)} × ground metres (point scale): local metres are grid metres.`,
+    );
   } else if (frame) {
     notes.push(
       `The DEM's flat frame is equirectangular about ${frame.originLatitude_deg.toFixed(6)}°, ${frame.originLongitude_deg.toFixed(6)}° on a sphere of radius ${frame.bodyRadius_m} m; its east scale is off by up to ${(100 * frame.maxEastScaleError).toPrecision(2)} % over the DEM.`,

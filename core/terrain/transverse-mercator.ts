@@ -121,3 +121,19 @@ export function utmProjection(epsg: number): (TransverseMercator & { zone: numbe
     hemisphere: north ? 'north' : 'south',
   };
 }
+
+/**
+ * Meridian convergence and point scale at a point, from the forward map of a short step due north
+ * (1e-5°, about 1 m): `convergence_deg` is the angle from grid north to true north, positive when true
+ * north points grid-east; `scale` is grid length over ground length, the ground length being the meridian
+ * arc M·Δφ with M = a(1 − e²)/(1 − e² sin² φ)^{3/2}.
+ */
+export function gridFactors(p: TransverseMercator, lon_deg: number, lat_deg: number): { convergence_deg: number; scale: number } {
+  const step = 1e-5;
+  const [e0, n0] = transverseMercatorForward(p, lon_deg, lat_deg - step / 2);
+  const [e1, n1] = transverseMercatorForward(p, lon_deg, lat_deg + step / 2);
+  const { a, f } = p.ellipsoid;
+  const e2 = f * (2 - f);
+  const M = (a * (1 - e2)) / (1 - e2 * Math.sin(lat_deg * DEG) ** 2) ** 1.5;
+  return { convergence_deg: Math.atan2(e1 - e0, n1 - n0) / DEG, scale: Math.hypot(e1 - e0, n1 - n0) / (M * step * DEG) };
+}
