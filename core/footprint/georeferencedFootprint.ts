@@ -9,6 +9,9 @@ import { terrainLonLat } from '../terrain/georeference.ts';
 import { gridFactors, utmProjection } from '../terrain/transverse-mercator.ts';
 import type { FootprintLonLat } from '../study/footprintGeoJson.ts';
 
+/** Millimetres, without a "-0.000". */
+const metres = (v: number) => (Math.round(v * 1000) / 1000 + 0).toFixed(3);
+
 /**
  * Null when the terrain has no georeference; throws core/terrain's TerrainInputError (naming the CRS)
  * when its CRS cannot be converted. `body` is the study's planet body ("mars", "moon", "custom").
@@ -18,7 +21,7 @@ export function footprintLonLat(grid: ElevationGrid, target_m: readonly [number,
   if (!ref) return null;
   const [tE, tN] = target_m;
   const toLonLat = (e: number, n: number) => ref.toLonLat(tE + e, tN + n);
-  const placed = `The nominal target is at ${tE.toFixed(3)} m east, ${tN.toFixed(3)} m north in the DEM's frame (${ref.sourceCrs}); local metres are laid onto that frame unrotated.`;
+  const placed = `The nominal target is at ${metres(tE)} m east, ${metres(tN)} m north in the DEM's frame (${ref.sourceCrs}); local metres are laid onto that frame unrotated.`;
   const notes = [placed];
   const frame = grid.georeference?.localFrame;
   const utm = grid.georeference?.model === 'projected' ? utmProjection(grid.georeference.projectedEpsg ?? 0) : null;

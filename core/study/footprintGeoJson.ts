@@ -70,7 +70,7 @@ export function rightHandRule(g: MultiPolygon): MultiPolygon {
 function noteFor(l: FootprintLonLat): string {
   const where = l.wgs84
     ? `geometry: [longitude, latitude] in degrees, ${l.datum}`
-    : `geometry: [longitude, latitude] in degrees on ${l.body}, ${l.datum}. NOT WGS 84, although RFC 7946 assumes it: general GIS software will draw these shapes on Earth`;
+    : `geometry: [longitude, latitude] in degrees on ${l.body}, ${l.datum}. They are not WGS 84 coordinates, although RFC 7946 assumes WGS 84: general GIS software will draw these shapes on Earth`;
   return `${where}. Shapes in local metres (east, north of the nominal target) are in properties.local_m.${l.note ? ` ${l.note}` : ''}`;
 }
 

@@ -66,7 +66,6 @@ Options:
 
 ${CAUTION}`;
 
-
 const VALUE_FLAGS = new Set([
   'out', 'max-slope-deg', 'max-roughness-m', 'lander-diameter-m', 'margin-m', 'roughness', 'window',
   'body-radius-m', 'origin-lat-deg', 'origin-lon-deg', 'vertical-scale', 'pixel-size-m', 'height-scale-m', 'height-offset-m', 'study',

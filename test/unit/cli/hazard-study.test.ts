@@ -1,5 +1,5 @@
 /** `landreach hazard DEM --study STUDY.json`: the safe reachable set and ranked sites on the invented demo site. */
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -68,6 +68,19 @@ describe('landreach hazard --study', () => {
       expect(f.geometry.coordinates[1]).toBeCloseTo(lat, 8);
     });
     expect(doc.features[0].properties.crs_note).toMatch(/UTM zone 33N \(EPSG:32633\)/);
+  }, 120_000);
+
+  it('on a DEM whose CRS has no lon/lat conversion, still writes everything: null geometry and a note naming the CRS', async () => {
+    const dem = join(dir, 'ft.tif');
+    writeFileSync(dem, writeGeoTiff({ width: 40, height: 40, data: new Float32Array(1600).fill(50), georeference: { geoTransform: [6000000, 10, 0, 2000000, 0, -10], projectedEpsg: 2227 } }));
+    const h = io();
+    const out = join(dir, 'ft');
+    expect(await main(['hazard', dem, '--out', out, '--study', STUDY, '--targets', '3x3', '--workers', '2', '--sites', '2', '--lander-diameter-m', '20'], h.io), h.err.join('')).toBe(0);
+    expect(h.err.join('')).toMatch(/footprint\.geojson has null geometry.*EPSG:2227 cannot be converted/);
+    const doc = JSON.parse(readFileSync(join(out, 'footprint.geojson'), 'utf8'));
+    expect(rfc7946Violations(doc)).toEqual([]);
+    expect(doc.features.every((f: { geometry: unknown }) => f.geometry === null)).toBe(true);
+    expect(existsSync(join(out, 'safe-reachable.tif'))).toBe(true);
   }, 120_000);
 
   it('rejects study-only options without --study', async () => {

@@ -91,7 +91,7 @@ describe('footprint GeoJSON', () => {
     expect(rfc7946Violations(doc)).toEqual([]);
     expect(doc.features[1].geometry.coordinates).toEqual([-160, 18]);
     expect(doc.features[0].properties.body).toBe('mars');
-    expect(doc.features[0].properties.crs_note).toMatch(/on mars, a sphere of radius 3396190 m\. NOT WGS 84/);
+    expect(doc.features[0].properties.crs_note).toMatch(/on mars, a sphere of radius 3396190 m\. They are not WGS 84 coordinates/);
   });
 
   it('without a georeference: null geometry everywhere (§3.2), no crs_note, shapes in local_m', () => {
