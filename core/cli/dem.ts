@@ -20,9 +20,10 @@ export function num(flags: Flags, name: string): number | undefined {
 
 /**
  * Reads a DEM. Flags used: window, body-radius-m, origin-lat-deg, origin-lon-deg, vertical-scale (GeoTIFF);
- * pixel-size-m, height-scale-m, height-offset-m (PNG).
+ * pixel-size-m, height-scale-m, height-offset-m (PNG). With `geoTiffOnlyFor` (an option name), anything but a
+ * TIFF is refused, naming that option.
  */
-export async function readDem(path: string, flags: Flags): Promise<{ grid: ElevationGrid; format: string }> {
+export async function readDem(path: string, flags: Flags, geoTiffOnlyFor?: string): Promise<{ grid: ElevationGrid; format: string }> {
   let bytes: Uint8Array;
   try {
     bytes = new Uint8Array(await readFile(path));
@@ -30,6 +31,10 @@ export async function readDem(path: string, flags: Flags): Promise<{ grid: Eleva
     throw new UsageError(`cannot read DEM '${path}': ${(err as NodeJS.ErrnoException).code ?? String(err)}`);
   }
   const name = basename(path);
+  const isTiff = (bytes[0] === 0x49 && bytes[1] === 0x49) || (bytes[0] === 0x4d && bytes[1] === 0x4d);
+  if (geoTiffOnlyFor && !isTiff) {
+    throw new UsageError(`${geoTiffOnlyFor} ${path}: not a GeoTIFF; only a GeoTIFF carries the georeference (CRS) needed here`);
+  }
   if (bytes[0] === 0x89 && bytes[1] === 0x50) {
     const pixelSize_m = num(flags, 'pixel-size-m');
     const heightScale_m = num(flags, 'height-scale-m');

@@ -153,7 +153,7 @@ function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): 
 /** Reads --terrain, places the nominal target on it and builds the longitude/latitude conversion. */
 async function terrainPlacement(path: string, flags: Flags, body: string): Promise<{ target_m: [number, number]; lonLat: FootprintLonLat }> {
   try {
-    const { grid } = await readDem(path, flags);
+    const { grid } = await readDem(path, flags, '--terrain');
     const west = grid.originEast_m;
     const east = west + grid.width * grid.pixelSizeX_m;
     const north = grid.originNorth_m;

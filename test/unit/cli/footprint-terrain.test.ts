@@ -80,6 +80,7 @@ describe('landreach footprint --terrain', () => {
       [['--terrain', plain], /has no georeference \(no CRS\)/],
       [['--terrain', utm, '--target-east-m', '0'], /--target-east-m 0, --target-north-m 4999700: the nominal target is outside the DEM/],
       [['--target-east-m', '5'], /--target-east-m only applies with --terrain DEM/],
+      [['--terrain', DEMO], /--terrain .*demo-lander\.study\.json: not a GeoTIFF/],
     ];
     for (const [extra, message] of cases) {
       const h = captureIo();
