@@ -40,7 +40,7 @@ export class KktSystem {
   readonly m: number;
   /** Permuted upper-triangular KKT matrix (values rewritten in place). */
   readonly matrix: CscMatrix;
-  /** The matrix, its factor and the solve's work vectors (WebAssembly or portable kernels). */
+  /** The matrix, its factor and the refined solve (WebAssembly or portable kernels). */
   readonly system: LdlSystem;
   /** perm[k] = original index of permuted row k; pinv is its inverse. */
   readonly perm: Int32Array;

@@ -4,6 +4,7 @@
  * the bracketing search (which also certifies unreachable targets) when that does not settle it.
  */
 import type { SolverSettings } from '../conic/settings.ts';
+import type { ConicBackend } from '../descent/backend.ts';
 import { landreachConicBackend } from '../descent/conicBackend.ts';
 import type { DescentSetup, IgnitionState } from '../descent/setup.ts';
 import { searchFreeFinalTimeBySlope } from '../descent/slopeSearch.ts';
@@ -40,8 +41,9 @@ export const FOOTPRINT_SOLVER_SETTINGS: Partial<SolverSettings> = Object.freeze(
   gapRelativeTolerance: 1e-7,
 });
 
-export function descentEvaluator(ctx: DescentFootprintContext): TargetEvaluator {
-  const solver = new DescentSolver(ctx.setup, landreachConicBackend(ctx.solver ?? FOOTPRINT_SOLVER_SETTINGS), ctx.ignition);
+/** `backend` replaces the project's solver (the benchmark runs the same evaluator on CVXOPT). */
+export function descentEvaluator(ctx: DescentFootprintContext, backend?: ConicBackend): TargetEvaluator {
+  const solver = new DescentSolver(ctx.setup, backend ?? landreachConicBackend(ctx.solver ?? FOOTPRINT_SOLVER_SETTINGS), ctx.ignition);
   let curvature: number | undefined;
   // The last two solved targets: when the new one continues their line at the same spacing (the next
   // target along a row), its optimal time of flight is extrapolated linearly, and the opening probes go

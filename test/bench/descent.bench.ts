@@ -136,6 +136,27 @@ export async function benchDescent(): Promise<Record<string, number>> {
       if (r.status === 'solved') guessOurs = r.timeOfFlight;
     }
     const oursSubMs = performance.now() - t3;
+    // The continuation path on CVXOPT: the same evaluator, the same first targets, conelp time only.
+    const beCont = cvxoptBackend();
+    const evRef = descentEvaluator({ setup, ignition: d.ignition, targetHeight_m: 0 }, beCont);
+    evRef(0, 0, undefined);
+    const solverSecondsBefore = beCont.stats.solverSeconds;
+    let tfRef: number | undefined;
+    for (const t of sub) {
+      const o = evRef(t[0], t[1], tfRef);
+      if (o.code === TARGET.reachable) tfRef = o.timeOfFlight_s;
+    }
+    const evOurs = continuation();
+    let tfOurs: number | undefined;
+    const t5 = performance.now();
+    for (const t of sub) {
+      const o = evOurs(t[0], t[1], tfOurs);
+      if (o.code === TARGET.reachable) tfOurs = o.timeOfFlight_s;
+    }
+    const oursContSubMs = performance.now() - t5;
+    const cvxContMs = (beCont.stats.solverSeconds - solverSecondsBefore) * 1000;
+    out['descent.continuation.cvxopt.msPerTarget'] = cvxContMs / sub.length;
+    out['descent.continuation.speedupVsCvxopt'] = cvxContMs / oursContSubMs;
     out['descent.cvxopt.msPerTarget'] = (be.stats.solverSeconds * 1000) / sub.length;
     out['descent.cvxopt.wallMsPerTarget'] = refWallMs / sub.length;
     out['descent.cvxopt.solvesPerTarget'] = be.stats.solves / sub.length;
