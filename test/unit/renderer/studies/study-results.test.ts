@@ -1,7 +1,7 @@
 /** Study result views (renderer/studies/study-results.ts): verdicts, tables, scene ellipse, reach drape, exports. */
 import { describe, expect, it } from 'vitest';
 import type { AltitudeStudyResult, DispersionStudyResult, ReserveStudyResult } from '../../../../renderer/compute/study-session.ts';
-import { minimumAltitudeText, reachDrape, sceneEllipse, studyExport, studyTable } from '../../../../renderer/studies/study-results.ts';
+import { minimumAltitudeText, reachDrape, reachSummary, sceneEllipse, studyExport, studyTable } from '../../../../renderer/studies/study-results.ts';
 import { ellipsePositions } from '../../../../renderer/scene/markers.ts';
 
 const study = { name: 'Test', vehicle: { propellantReserve_kg: 20 } } as unknown as ReserveStudyResult['study'];
@@ -51,6 +51,16 @@ describe('study result views', () => {
     expect(Array.from(d.values)).toEqual([25, 0, 100, 50]);
     expect(d.range).toEqual([0, 100]);
     expect(d.title).toBe('Probability of reach (%)');
+  });
+
+  it('reach summary: shares of targets reached by every sample, by half of them, by any', () => {
+    const reach = { field: { nx: 2, ny: 2, east: Float64Array.of(0, 1), north: Float64Array.of(0, 1) }, probability: Float32Array.of(1, 0.5, 0.25, 0), samples: 4 };
+    expect(reachSummary(reach)).toEqual([
+      { label: 'Reach-map samples', value: '4' },
+      { label: 'Reached by every sample', value: '25 % of 4 targets' },
+      { label: 'Reached by ≥ 50 %', value: '50 % of 4 targets' },
+      { label: 'Reached by any sample', value: '75 % of 4 targets' },
+    ]);
   });
 
   it('exports through core/study’s writers: CSV per study, report with the study’s figures, reach map only with a map', () => {
