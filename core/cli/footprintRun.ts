@@ -7,6 +7,7 @@ import { nodeWorkerFactory } from '../parallel/nodeWorker.ts';
 import { JobPool } from '../parallel/pool.ts';
 import type { Study } from '../study/index.ts';
 import { footprintContext } from '../footprint/studyFootprint.ts';
+import { refineBudgetBoundary, type BoundaryRefinement } from '../footprint/refine.ts';
 
 
 export function progressLine(p: FootprintProgress): string {
@@ -21,9 +22,13 @@ export function progressLine(p: FootprintProgress): string {
 export async function runStudyFootprint(
   study: Study,
   grid: TargetGrid,
-  options: { nodes: number; workers: number },
+  /**
+   * propellantBudget_kg: a reachable-set run (see DescentFootprintContext.propellantBudget_kg);
+   * refineBoundary: then refine the boundary at that level coarse-to-fine (refine.ts).
+   */
+  options: { nodes: number; workers: number; propellantBudget_kg?: number; refineBoundary?: { factor: number; level_kg: number } },
   io: CliIo,
-): Promise<FootprintRun> {
+): Promise<FootprintRun & { refinement?: BoundaryRefinement }> {
   const pool = new JobPool<RowJob, FieldRow>(nodeWorkerFactory(new URL('../footprint/nodeWorker.mjs', import.meta.url)), options.workers);
   const controller = new AbortController();
   const onSigint = () => {
@@ -33,8 +38,9 @@ export async function runStudyFootprint(
   process.once('SIGINT', onSigint);
   let lastPrint = 0;
   try {
+    const context = { ...footprintContext(study, options.nodes), propellantBudget_kg: options.propellantBudget_kg };
     const run = await computeFootprint(grid, pool, {
-      context: footprintContext(study, options.nodes),
+      context,
       signal: controller.signal,
       onRow: (_r, p) => {
         const now = Date.now();
@@ -46,7 +52,10 @@ export async function runStudyFootprint(
       },
     });
     if (io.interactive) io.stderr('\n');
-    return run;
+    if (!options.refineBoundary || run.cancelled) return run;
+    io.stderr(`refining the ${options.refineBoundary.level_kg} kg boundary ${options.refineBoundary.factor}× …\n`);
+    const refinement = await refineBudgetBoundary(run.field, pool, { ...options.refineBoundary, context, signal: controller.signal });
+    return { ...run, refinement };
   } finally {
     process.removeListener('SIGINT', onSigint);
     pool.close();

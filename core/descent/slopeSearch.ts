@@ -30,6 +30,16 @@ export interface SlopeSearchOptions extends SearchOptions {
    * by less, the two slopes already bracket the optimum.
    */
   probeHalfWidth?: number;
+  /**
+   * Reachable-set runs: stop as soon as the certified lower bound on the propellant exceeds this budget, kg
+   * (the target is then known to be out of budget; its exact minimum is not needed).
+   */
+  propellantBudget_kg?: number;
+  /**
+   * The guess is the closest-approach time of flight of an unreachable neighbour: start with the
+   * minimum-landing-error search (which hands back to the propellant search if this target is reachable).
+   */
+  guessFromUnreachable?: boolean;
 }
 
 export interface SlopeSearchResult {
@@ -40,6 +50,11 @@ export interface SlopeSearchResult {
   peakTilt: number;
   /** Whether the fast path settled the target (false: the robust search did). */
   fast: boolean;
+  /**
+   * With a propellant budget: a certified lower bound on the minimum propellant above the budget, kg, when
+   * the search stopped early for that reason (the result then holds the best point found); else NaN.
+   */
+  overBudgetBound_kg: number;
 }
 
 const FD_STEP = 1e-3; // s, for the central difference of the data in t_f
@@ -109,10 +124,17 @@ export function searchFreeFinalTimeBySlope(
   const tol = options.tfTolerance ?? 0.1;
   const startSolves = solver.solves;
   const br = options.bracket ?? timeOfFlightBracket(solver.setup, ignition, target);
-  const fallback = (): SlopeSearchResult => {
+  /**
+   * `probedInfeasible`: the fast path's own probes were all infeasible, so the target is probably out of
+   * reach: the bracketing search then starts with the minimum-landing-error search (which restarts the
+   * propellant search from its time of flight if the target turns out reachable) instead of probing the
+   * same time of flight again.
+   */
+  const fallback = (probedInfeasible = false): SlopeSearchResult => {
     // The bracketing search to 0.03 s: near the steep side of J(t_f) a coarser tolerance costs ~0.1 kg.
     const result = searchFreeFinalTime(solver, target, ignition, {
       ...options,
+      ...(probedInfeasible ? { propellantProbes: 0 } : {}),
       tfTolerance: options.tfTolerance ?? FALLBACK_TF_TOLERANCE,
       landingErrorTfTolerance: options.landingErrorTfTolerance ?? FALLBACK_MISS_TF_TOLERANCE,
       bracket: br,
@@ -124,10 +146,12 @@ export function searchFreeFinalTimeBySlope(
       curvature: NaN,
       peakTilt: result.trajectory ? Math.max(...result.trajectory.series.tilt) : NaN,
       fast: false,
+      overBudgetBound_kg: NaN,
     };
   };
   const t0 = options.tfGuess;
   if (t0 === undefined || !(t0 > br.lower && t0 < br.upper)) return fallback();
+  if (options.guessFromUnreachable) return fallback(true);
 
   interface Point {
     r: FixedTimeSolve;
@@ -142,15 +166,17 @@ export function searchFreeFinalTimeBySlope(
   // (two solves then usually bracket the optimum), else the guess alone.
   const half = options.probeHalfWidth;
   const opening: Point[] = [];
-  if (half !== undefined && half > 0 && t0 - half > br.lower && t0 + half < br.upper) {
+  const probedBothSides = half !== undefined && half > 0 && t0 - half > br.lower && t0 + half < br.upper;
+  if (probedBothSides) {
     const left = evaluate(t0 - half);
     if (left) opening.push(left);
     const right = evaluate(t0 + half);
     if (right) opening.push(right);
   }
   if (opening.length === 0) {
+    if (probedBothSides) return fallback(true);
     const only = evaluate(t0);
-    if (!only) return fallback();
+    if (!only) return fallback(true);
     opening.push(only);
   }
   let best = opening[0].r;
@@ -199,6 +225,13 @@ export function searchFreeFinalTimeBySlope(
     const bound = J(lo) + lo.g * (tCross - lo.t);
     const massFinal = Math.exp(-objective(best.solution));
     if (massFinal * (objective(best.solution) - bound) <= PROPELLANT_TOLERANCE_KG || hi.t - lo.t <= tol / 4) break;
+    // J = −ln m_final, so J ≥ bound means propellant ≥ m0 − e^(−bound).
+    const propellantBound = ignition.mass - Math.exp(-bound);
+    if (options.propellantBudget_kg !== undefined && propellantBound > options.propellantBudget_kg) {
+      const out = done(solver, best, br, startSolves, (hi.g - lo.g) / (hi.t - lo.t), target);
+      out.overBudgetBound_kg = propellantBound;
+      return out;
+    }
     if (solver.solves - startSolves >= MAX_FAST_SOLVES) return fallback();
     const width = hi.t - lo.t;
     const d1 = lo.g + hi.g - (3 * (J(lo) - J(hi))) / (lo.t - hi.t);
@@ -246,5 +279,5 @@ function done(
     trajectory: null,
     warnings: [],
   };
-  return { result, curvature, peakTilt: peakTiltOf(solver, best.solution), fast: true };
+  return { result, curvature, peakTilt: peakTiltOf(solver, best.solution), fast: true, overBudgetBound_kg: NaN };
 }

@@ -31,7 +31,9 @@ export function propellantRegions(field: FootprintField, levels_kg: readonly num
   for (let j = 0; j < ny; j++) {
     for (let i = 0; i < nx; i++) {
       const k = j * nx + i;
-      if (field.status[k] === TARGET.reachable) values[(j + 1) * px + i + 1] = -field.propellant_kg[k];
+      // Over-budget targets carry an upper bound on their cost: contours through them err on the safe side.
+      const st = field.status[k];
+      if (st === TARGET.reachable || st === TARGET.overBudget) values[(j + 1) * px + i + 1] = -field.propellant_kg[k];
     }
   }
   const generator = contours().size([px, py]).smooth(true);

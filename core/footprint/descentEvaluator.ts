@@ -21,6 +21,11 @@ export interface DescentFootprintContext {
   solver?: Partial<SolverSettings>;
   /** Time-of-flight tolerance of the search, s. */
   tfTolerance_s?: number;
+  /**
+   * Reachable-set run: targets whose certified lower bound on propellant exceeds this budget, kg, stop
+   * there and are stored as TARGET.overBudget (the exact cost of targets outside the budget is not computed).
+   */
+  propellantBudget_kg?: number;
 }
 
 const RAD = 180 / Math.PI;
@@ -42,7 +47,7 @@ export function descentEvaluator(ctx: DescentFootprintContext): TargetEvaluator 
   // target along a row), its optimal time of flight is extrapolated linearly, and the opening probes go
   // a quarter of the last change either side of that (at least 0.1 s), which usually brackets it.
   const history: { east: number; north: number; tf: number }[] = [];
-  return (east, north, tfGuess) => {
+  return (east, north, tfGuess, guessFromUnreachable) => {
     let guess = tfGuess;
     let half: number | undefined;
     if (history.length === 2 && guess !== undefined) {
@@ -60,6 +65,8 @@ export function descentEvaluator(ctx: DescentFootprintContext): TargetEvaluator 
       curvatureGuess: curvature,
       probeHalfWidth: half,
       tfTolerance: ctx.tfTolerance_s,
+      propellantBudget_kg: ctx.propellantBudget_kg,
+      guessFromUnreachable,
     });
     if (Number.isFinite(r.curvature) && r.curvature > 0) curvature = r.curvature;
     if (r.result.status === 'solved') {
@@ -67,6 +74,17 @@ export function descentEvaluator(ctx: DescentFootprintContext): TargetEvaluator 
       if (history.length > 2) history.shift();
     } else history.length = 0;
     const res = r.result;
+    if (Number.isFinite(r.overBudgetBound_kg)) {
+      return {
+        code: TARGET.overBudget,
+        // The best trajectory found: an upper bound on the minimum (above the budget, as is the bound).
+        propellant_kg: res.propellant,
+        timeOfFlight_s: res.timeOfFlight,
+        peakTilt_deg: NaN,
+        miss_m: 0,
+        solves: res.solves,
+      };
+    }
     const out: TargetOutcome = {
       code: res.status === 'solved' ? TARGET.reachable : res.status === 'unreachable' ? TARGET.unreachable : TARGET.failed,
       propellant_kg: res.status === 'solved' ? res.propellant : NaN,

@@ -5,11 +5,15 @@
  * Knows nothing of threads beyond the JobPool interface.
  */
 import type { JobPool } from '../parallel/pool.ts';
-import { emptyField, emptyRow, rowBuffers, setOutcome, writeRow, type FieldRow, type FootprintField, type TargetOutcome } from './field.ts';
+import { emptyField, emptyRow, rowBuffers, setOutcome, TARGET, writeRow, type FieldRow, type FootprintField, type TargetOutcome } from './field.ts';
 import { columnOrder, rowOrder, type TargetGrid } from './grid.ts';
 
-/** Solves one target: minimum propellant with free final time, starting the search from `tfGuess_s`. */
-export type TargetEvaluator = (east_m: number, north_m: number, tfGuess_s: number | undefined) => TargetOutcome;
+/**
+ * Solves one target: minimum propellant with free final time, starting the search from `tfGuess_s`;
+ * `guessFromUnreachable` says the guess is the closest-approach time of flight of a certified
+ * unreachable neighbour (the target is then probably out of reach too).
+ */
+export type TargetEvaluator = (east_m: number, north_m: number, tfGuess_s: number | undefined, guessFromUnreachable?: boolean) => TargetOutcome;
 
 export interface RowJob {
   /** What the worker needs to build its evaluator (plain, structured-clonable data; same for every row). */
@@ -19,20 +23,39 @@ export interface RowJob {
   east_m: Float64Array;
   /** Optimal times of flight of the neighbouring row toward the centre, when known (NaN where not reachable). */
   tfHint: Float32Array | null;
+  /**
+   * Solve only these columns (ascending), the others stay pending: a refinement pass. Each target then
+   * starts from its left neighbour when that was just solved, else from `tfHint`.
+   */
+  columns?: Int32Array;
 }
 
 /** Worker side: solves every target of a row in continuation order. */
 export function solveRow(job: RowJob, evaluate: TargetEvaluator): FieldRow {
   const nx = job.east_m.length;
   const out = emptyRow(job.row, nx);
+  if (job.columns) {
+    let last = -2;
+    for (const i of job.columns) {
+      let guess: number | undefined;
+      if (last === i - 1 && Number.isFinite(out.timeOfFlight_s[last])) guess = out.timeOfFlight_s[last];
+      else if (job.tfHint && Number.isFinite(job.tfHint[i])) guess = job.tfHint[i];
+      setOutcome(out, i, evaluate(job.east_m[i], job.north_m, guess));
+      last = i;
+    }
+    return out;
+  }
   const { columns, previous } = columnOrder({ nx, ny: 1, east: job.east_m, north: new Float64Array(1), spacingEast_m: 0, spacingNorth_m: 0 });
   for (const i of columns) {
     const prev = previous[i];
     let guess: number | undefined;
     // The neighbour's time of flight, optimal or (unreachable neighbour) of its closest approach.
-    if (prev >= 0 && Number.isFinite(out.timeOfFlight_s[prev])) guess = out.timeOfFlight_s[prev];
-    else if (job.tfHint && Number.isFinite(job.tfHint[i])) guess = job.tfHint[i];
-    setOutcome(out, i, evaluate(job.east_m[i], job.north_m, guess));
+    let fromUnreachable = false;
+    if (prev >= 0 && Number.isFinite(out.timeOfFlight_s[prev])) {
+      guess = out.timeOfFlight_s[prev];
+      fromUnreachable = out.status[prev] === TARGET.unreachable;
+    } else if (job.tfHint && Number.isFinite(job.tfHint[i])) guess = job.tfHint[i];
+    setOutcome(out, i, evaluate(job.east_m[i], job.north_m, guess, fromUnreachable));
   }
   return out;
 }

@@ -14,13 +14,20 @@ export const TARGET = {
   unreachable: 2,
   /** The solver failed for this target (neither solved nor certified). */
   failed: 3,
+  /**
+   * Reachable, but certainly not within the run's propellant budget (only in a reachable-set run, which
+   * stops a target's search as soon as the convex lower bound on its cost exceeds the budget):
+   * `propellant_kg` then holds the cost of the best trajectory found, an upper bound on the minimum, so
+   * the budget contour drawn through such targets errs on the small (safe) side.
+   */
+  overBudget: 4,
 } as const;
 export type TargetCode = (typeof TARGET)[keyof typeof TARGET];
 
 /** The outcome of one target, as the footprint engine needs it from the descent search. */
 export interface TargetOutcome {
   code: TargetCode;
-  /** Minimum propellant, kg (NaN when unreachable or failed). */
+  /** Minimum propellant, kg (NaN when unreachable or failed; an upper bound when over budget). */
   propellant_kg: number;
   /** Optimal time of flight, s; for unreachable targets that of the closest-approach trajectory; NaN when failed. */
   timeOfFlight_s: number;
@@ -108,7 +115,7 @@ export function rowBuffers(r: FieldRow): ArrayBuffer[] {
 }
 
 export function countByStatus(field: FootprintField): Record<keyof typeof TARGET, number> {
-  const out = { pending: 0, reachable: 0, unreachable: 0, failed: 0 };
+  const out = { pending: 0, reachable: 0, unreachable: 0, failed: 0, overBudget: 0 };
   const names = Object.keys(TARGET) as (keyof typeof TARGET)[];
   for (const code of field.status) out[names[code]]++;
   return out;

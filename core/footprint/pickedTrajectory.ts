@@ -2,11 +2,13 @@
  * One picked target's optimal trajectory (minimum propellant, free final time), as plain data a worker can
  * send back: the decoded time series and the search outcome.
  */
+import { polynomialGuidance } from '../descent/baselines/polynomial.ts';
 import { landreachConicBackend } from '../descent/conicBackend.ts';
 import type { Vec3 } from '../descent/constants.ts';
 import { searchFreeFinalTime, type DescentStatus } from '../descent/search.ts';
 import { DescentSolver } from '../descent/solver.ts';
 import type { TrajectorySeries } from '../descent/trajectory.ts';
+import type { DescentSetup, IgnitionState } from '../descent/setup.ts';
 import type { Study } from '../study/schema.ts';
 import { studyToDescent } from '../study/toDescent.ts';
 
@@ -29,7 +31,27 @@ export interface PickedTrajectory {
   /** Time series at the nodes (null on solver failure). */
   series: TrajectorySeries | null;
   warnings: string[];
+  /** The polynomial-guidance baseline to the same target ("what does optimal guidance buy us?"); null if not computed. */
+  baseline: PickedBaseline | null;
 }
+
+/** Polynomial (Apollo-style) guidance flown to the target (core/descent/baselines/polynomial.ts). */
+export interface PickedBaseline {
+  method: 'polynomial guidance';
+  propellant_kg: number;
+  timeOfFlight_s: number;
+  /** Position error at the end of guidance, m. */
+  miss_m: number;
+  velocityError_mps: number;
+  /** Fraction of the burn spent at a thrust or pointing limit. */
+  saturatedFraction: number;
+  /** Samples (at most BASELINE_SAMPLES, evenly spread over the flight): time, and east/north/up interleaved. */
+  time_s: Float64Array;
+  position_m: Float64Array;
+}
+
+/** Samples kept of the baseline's simulation (it steps every 0.05 s): enough for a smooth curve. */
+export const BASELINE_SAMPLES = 120;
 
 /** Solved with the study's own reserve and node count (the footprint uses fewer nodes and no reserve). */
 export function solvePickedTrajectory(job: PickedTrajectoryJob): PickedTrajectory {
@@ -46,5 +68,28 @@ export function solvePickedTrajectory(job: PickedTrajectoryJob): PickedTrajector
     nodes: d.setup.nodes,
     series: r.trajectory?.series ?? null,
     warnings: r.warnings,
+    baseline: baselineTo(d.setup, d.ignition, target),
+  };
+}
+
+function baselineTo(setup: DescentSetup, ignition: IgnitionState, target: Vec3): PickedBaseline {
+  const b = polynomialGuidance(setup, ignition, target);
+  const n = Math.min(BASELINE_SAMPLES, b.samples.length);
+  const time_s = new Float64Array(n);
+  const position_m = new Float64Array(3 * n);
+  for (let i = 0; i < n; i++) {
+    const s = b.samples[n === 1 ? 0 : Math.round((i * (b.samples.length - 1)) / (n - 1))];
+    time_s[i] = s.t;
+    position_m.set(s.r, 3 * i);
+  }
+  return {
+    method: 'polynomial guidance',
+    propellant_kg: b.propellant,
+    timeOfFlight_s: b.timeOfFlight,
+    miss_m: b.miss,
+    velocityError_mps: b.velocityError,
+    saturatedFraction: b.saturatedFraction,
+    time_s,
+    position_m,
   };
 }

@@ -8,6 +8,7 @@ import type { FootprintSummary } from '../study/footprintExport.ts';
 import { niceStep } from '../study/footprintSvg.ts';
 import { guaranteedDivertRadius, propellantRegions, regionBounds, type PropellantRegion, type DivertRadius } from './contours.ts';
 import type { DescentFootprintContext } from './descentEvaluator.ts';
+import type { BoundaryRefinement } from './refine.ts';
 import { countByStatus, TARGET, type FootprintField } from './field.ts';
 
 /** Nodes for footprint targets: at N = 30 the demo study's propellant is within 0.04 kg of N = 200 (DEVELOPERS.md). */
@@ -47,17 +48,26 @@ export interface FootprintFigures {
   divert: DivertRadius;
 }
 
-/** Contours, reachable region and summary of a field (pending targets count as out of reach). */
+/**
+ * Contours, reachable region and summary of a field (pending targets count as out of reach). With a
+ * boundary refinement (refine.ts) at the budget level, the reachable region, its area and the divert
+ * radius come from the refined boundary.
+ */
 export function footprintFigures(
   field: FootprintField,
   budget: { usable_kg: number; reserve_kg: number },
   run: { elapsed_s: number; cancelled: boolean },
   levels?: number[],
+  refinement?: BoundaryRefinement,
 ): FootprintFigures {
   const budget_kg = budget.usable_kg - budget.reserve_kg;
   const levels_kg = levels ?? defaultLevels(field, budget_kg);
   const bands = propellantRegions(field, levels_kg);
-  const [reachable] = propellantRegions(field, [budget_kg]);
+  const [coarseReachable] = propellantRegions(field, [budget_kg]);
+  if (refinement && Math.abs(refinement.region.level_kg - budget_kg) > 1e-9) {
+    throw new RangeError(`boundary refinement at ${refinement.region.level_kg} kg does not match the budget ${budget_kg} kg`);
+  }
+  const reachable = refinement ? refinement.region : coarseReachable;
   const divert = guaranteedDivertRadius(reachable.geometry, 0, 0, regionBounds(field));
   let minP = Infinity;
   let maxP = -Infinity;
@@ -79,9 +89,18 @@ export function footprintFigures(
     divertRadiusLimitedByGrid: divert.limitedByGrid,
     minPropellant_kg: Number.isFinite(minP) ? Number(minP.toFixed(3)) : NaN,
     maxPropellant_kg: Number.isFinite(maxP) ? Number(maxP.toFixed(3)) : NaN,
-    solves,
+    solves: solves + (refinement?.extraSolves ?? 0),
     elapsed_s: Number(run.elapsed_s.toFixed(2)),
     cancelled: run.cancelled,
   };
+  if (refinement) {
+    summary.boundaryRefinement = {
+      factor: refinement.factor,
+      extraTargets: refinement.extraTargets,
+      extraSolves: refinement.extraSolves,
+      unrefinedArea_m2: Math.round(coarseReachable.area_m2),
+      complete: !refinement.cancelled,
+    };
+  }
   return { summary, levels_kg, bands, reachable, divert };
 }

@@ -7,7 +7,7 @@ import type { PropellantRegion } from '../footprint/contours.ts';
 import { TARGET, type FootprintField } from '../footprint/field.ts';
 import { APP_VERSION, CAUTION } from './provenance.ts';
 
-const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed'] as const;
+const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget'] as const;
 
 const num = (v: number, digits: number) => (Number.isFinite(v) ? Number(v.toFixed(digits)).toString() : '');
 
@@ -24,7 +24,9 @@ export function footprintCsv(field: FootprintField, budget_kg: number): string {
     for (let i = 0; i < field.nx; i++) {
       const k = j * field.nx + i;
       const st = field.status[k];
-      const within = st === TARGET.reachable ? (field.propellant_kg[k] <= budget_kg ? '1' : '0') : st === TARGET.unreachable ? '0' : '';
+      const within = st === TARGET.reachable
+        ? (field.propellant_kg[k] <= budget_kg ? '1' : '0')
+        : st === TARGET.unreachable || st === TARGET.overBudget ? '0' : '';
       lines.push(
         [
           num(field.east[i], 3),
@@ -92,6 +94,13 @@ export interface FootprintSummary {
   unreachable: number;
   failed: number;
   pending: number;
+  /** Targets stopped early as certainly over the budget (reachable-set runs only). */
+  overBudget: number;
+  /**
+   * Present when the budget boundary was refined coarse-to-fine: area and divert radius then come from the
+   * refined boundary; `solves` includes the refinement's.
+   */
+  boundaryRefinement?: { factor: number; extraTargets: number; extraSolves: number; unrefinedArea_m2: number; complete: boolean };
   usablePropellant_kg: number;
   reserve_kg: number;
   budget_kg: number;

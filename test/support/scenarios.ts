@@ -4,7 +4,7 @@ import { fileURLToPath } from 'node:url';
 import { footprintContext } from '../../core/footprint/studyFootprint.ts';
 import type { DescentFootprintContext } from '../../core/footprint/descentEvaluator.ts';
 import { descentEvaluator } from '../../core/footprint/descentEvaluator.ts';
-import { computeFootprint, rowJobHandler, type RowJob } from '../../core/footprint/engine.ts';
+import { computeFootprint, rowJobHandler, type RowJob, type TargetEvaluator } from '../../core/footprint/engine.ts';
 import type { FieldRow, FootprintField } from '../../core/footprint/field.ts';
 import type { TargetGrid } from '../../core/footprint/grid.ts';
 import { inlineWorkerFactory, JobPool } from '../../core/parallel/pool.ts';
@@ -23,9 +23,13 @@ export function lowPropellantDemo(nodes = 30): { study: Study; ctx: DescentFootp
   return { study, ctx: footprintContext(study, nodes) };
 }
 
+/** A one-worker pool on the calling thread, for footprint jobs with the given evaluator. */
+export function inProcessPool(evaluate: TargetEvaluator): JobPool<RowJob, FieldRow> {
+  const handler = rowJobHandler(evaluate);
+  return new JobPool<RowJob, FieldRow>(inlineWorkerFactory((job: RowJob) => handler(job).result), 1);
+}
+
 /** A footprint computed on the calling thread. */
 export async function footprintInProcess(grid: TargetGrid, ctx: DescentFootprintContext): Promise<FootprintField> {
-  const handler = rowJobHandler(descentEvaluator(ctx));
-  const pool = new JobPool<RowJob, FieldRow>(inlineWorkerFactory((job: RowJob) => handler(job).result), 1);
-  return (await computeFootprint(grid, pool, { context: ctx })).field;
+  return (await computeFootprint(grid, inProcessPool(descentEvaluator(ctx)), { context: ctx })).field;
 }

@@ -39,6 +39,11 @@ Options:
   --workers N        worker threads (default: the number of cores, at most 8)
   --nodes N          time nodes per trajectory (default ${FOOTPRINT_NODES})
   --levels A,B,...   propellant contour levels, kg (default: six round levels up to the budget)
+  --refine-boundary F  after the grid, solve the cells the budget boundary crosses again at F × the
+                     resolution (2 … 8): area and divert radius then come from the refined boundary
+  --reachable-only   stop each target's search once it is certainly over the budget (such targets are
+                     reported 'over-budget' with a lower bound on their cost; levels above the budget
+                     are then not drawn)
 
 Writes footprint.json (versioned report), footprint.csv (one row per target), footprint.geojson
 (contours and the reserve boundary, RFC 7946) and footprint.svg (a map for reports).
@@ -56,6 +61,8 @@ interface Options {
   workers: number;
   nodes: number;
   levels: number[] | null;
+  reachableOnly: boolean;
+  refine: number | null;
 }
 
 function positive(flag: string, text: string, integer: boolean, max: number): number {
@@ -77,6 +84,8 @@ function parseArgs(args: string[]): Options {
     workers: Math.min(8, Math.max(1, os.availableParallelism?.() ?? os.cpus().length)),
     nodes: FOOTPRINT_NODES,
     levels: null,
+    reachableOnly: false,
+    refine: null,
   };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -87,6 +96,13 @@ function parseArgs(args: string[]): Options {
     };
     try {
       if (a === '--out') o.out = value();
+      else if (a === '--reachable-only') o.reachableOnly = true;
+      else if (a === '--refine-boundary') {
+        const t = value();
+        const v = Number(t);
+        if (!Number.isInteger(v) || v < 2 || v > 8) throw new UsageError(`--refine-boundary ${t}: must be a whole number from 2 to 8`);
+        o.refine = v;
+      }
       else if (a === '--grid') [o.nx, o.ny] = parseGridSize(value());
       else if (a === '--extent-m') o.extent = positive(a, value(), false, 1e6);
       else if (a === '--reserve-kg') {
@@ -144,12 +160,27 @@ export const footprintCommand: CliCommand = {
     if (existsSync(o.out) && !statSync(o.out).isDirectory()) throw new UsageError(`--out ${o.out}: exists and is not a folder`);
     mkdirSync(o.out, { recursive: true });
     const budget = usable - reserve;
+    if (o.reachableOnly && o.levels?.some((l) => l > budget)) {
+      throw new UsageError(`--levels: ${o.levels.filter((l) => l > budget).join(', ')} kg above the budget ${budget} kg cannot be drawn with --reachable-only`);
+    }
     const extent = o.extent ?? autoExtent(study, budget, o.nodes, io);
     const grid = makeTargetGrid({ halfWidthEast_m: extent, halfWidthNorth_m: extent, nx: o.nx, ny: o.ny });
-    const inputs = { study, grid: { nx: o.nx, ny: o.ny, extent_m: extent }, nodes: o.nodes, reserve_kg: reserve };
+    const inputs = {
+      study,
+      grid: { nx: o.nx, ny: o.ny, extent_m: extent },
+      nodes: o.nodes,
+      reserve_kg: reserve,
+      reachableOnly: o.reachableOnly,
+      refineBoundary: o.refine,
+    };
     const hash = await inputsHash(inputs);
     io.stderr(`footprint of '${study.name}': ${o.nx} × ${o.ny} targets, ±${extent} m, N = ${o.nodes}, ${o.workers} worker(s)\n`);
-    const run = await runStudyFootprint(study, grid, { nodes: o.nodes, workers: o.workers }, io);
+    const run = await runStudyFootprint(study, grid, {
+      nodes: o.nodes,
+      workers: o.workers,
+      propellantBudget_kg: o.reachableOnly ? budget : undefined,
+      refineBoundary: o.refine ? { factor: o.refine, level_kg: budget } : undefined,
+    }, io);
     if (io.interactive) io.stderr('\n');
     const field = run.field;
     const { summary, levels_kg: levels, bands, reachable, divert: radius } = footprintFigures(
@@ -157,6 +188,7 @@ export const footprintCommand: CliCommand = {
       { usable_kg: usable, reserve_kg: reserve },
       { elapsed_s: run.progress.elapsed_s, cancelled: run.cancelled },
       o.levels ?? undefined,
+      run.refinement,
     );
     const counts = summary;
     const solves = summary.solves;
@@ -187,9 +219,13 @@ export const footprintCommand: CliCommand = {
     io.stdout(
       [
         `status:      ${run.cancelled ? 'stopped early (partial result written)' : 'complete'}`,
-        `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed`,
+        `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
+          (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : ''),
         `budget:      ${budget.toFixed(1)} kg (usable ${usable} kg − reserve ${reserve} kg)`,
-        `area:        ${(reachable.area_m2 / 1e6).toFixed(3)} km² reachable with the reserve kept`,
+        `area:        ${(reachable.area_m2 / 1e6).toFixed(3)} km² reachable with the reserve kept` +
+          (summary.boundaryRefinement
+            ? ` (boundary refined ${summary.boundaryRefinement.factor}×: ${summary.boundaryRefinement.extraTargets} more targets; ${(summary.boundaryRefinement.unrefinedArea_m2 / 1e6).toFixed(3)} km² unrefined)`
+            : ''),
         `divert:      ${radius.radius_m.toFixed(0)} m guaranteed in every direction${radius.limitedByGrid ? ' (limited by the grid: widen --extent-m)' : ''}`,
         `propellant:  ${summary.minPropellant_kg} … ${summary.maxPropellant_kg} kg over reachable targets`,
         `time:        ${run.progress.elapsed_s.toFixed(1)} s, ${solves} cone-program solves (${(solves / Math.max(1, run.progress.targetsDone)).toFixed(1)} per target)`,

@@ -21,7 +21,7 @@ export interface SimSample extends SimState {
 
 /** Clamp a commanded thrust acceleration to what the engines can give: magnitude and pointing. */
 export function saturateThrust(setup: DescentSetup, m: number, aCmd: Vec3): Vec3 {
-  const { rho1, rho2 } = deriveVehicle(setup.vehicle);
+  const { rho1, rho2 } = derived(setup);
   let a = aCmd;
   let n = norm3(a);
   if (n === 0) a = [0, 0, 1];
@@ -39,6 +39,17 @@ export function saturateThrust(setup: DescentSetup, m: number, aCmd: Vec3): Vec3
   return [(a[0] / n) * T, (a[1] / n) * T, (a[2] / n) * T];
 }
 
+/** The vehicle's derived limits, computed once per setup (the simulators ask at every step). */
+const derivedCache = new WeakMap<DescentSetup['vehicle'], ReturnType<typeof deriveVehicle>>();
+function derived(setup: DescentSetup): ReturnType<typeof deriveVehicle> {
+  let d = derivedCache.get(setup.vehicle);
+  if (!d) {
+    d = deriveVehicle(setup.vehicle);
+    derivedCache.set(setup.vehicle, d);
+  }
+  return d;
+}
+
 export function simulate(
   setup: DescentSetup,
   ignition: IgnitionState,
@@ -46,14 +57,26 @@ export function simulate(
   dt: number,
   maxTime: number,
 ): SimSample[] {
-  const { alpha } = deriveVehicle(setup.vehicle);
+  const { alpha } = derived(setup);
   const g = setup.planet.gravity;
   const w = setup.planet.rotationRate;
   const deriv = (r: Vec3, v: Vec3, m: number, T: Vec3): [Vec3, Vec3, number] => {
     const cor = cross3(w, v);
     const cen = cross3(w, cross3(w, r));
-    return [v, [0, 1, 2].map((i) => T[i] / m + g[i] - 2 * cor[i] - cen[i]) as unknown as Vec3, -alpha * norm3(T)];
+    const acc: Vec3 = [
+      T[0] / m + g[0] - 2 * cor[0] - cen[0],
+      T[1] / m + g[1] - 2 * cor[1] - cen[1],
+      T[2] / m + g[2] - 2 * cor[2] - cen[2],
+    ];
+    return [v, acc, -alpha * norm3(T)];
   };
+  // (Helpers outside the loop: closures made per step cost more than the arithmetic.)
+  const add = (a: Vec3, b: Vec3, k: number): Vec3 => [a[0] + k * b[0], a[1] + k * b[1], a[2] + k * b[2]];
+  const rk4 = (k1: Vec3, k2: Vec3, k3: Vec3, k4: Vec3): Vec3 => [
+    (dt / 6) * (k1[0] + 2 * k2[0] + 2 * k3[0] + k4[0]),
+    (dt / 6) * (k1[1] + 2 * k2[1] + 2 * k3[1] + k4[1]),
+    (dt / 6) * (k1[2] + 2 * k2[2] + 2 * k3[2] + k4[2]),
+  ];
   let s: SimState = { t: 0, r: ignition.position, v: ignition.velocity, m: ignition.mass };
   const out: SimSample[] = [];
   while (s.t < maxTime) {
@@ -61,16 +84,14 @@ export function simulate(
     if (T === null) break;
     out.push({ ...s, thrust: T });
     if (s.m <= setup.vehicle.dryMass) break;
-    const add = (a: Vec3, b: Vec3, k: number): Vec3 => [a[0] + k * b[0], a[1] + k * b[1], a[2] + k * b[2]];
     const k1 = deriv(s.r, s.v, s.m, T);
     const k2 = deriv(add(s.r, k1[0], dt / 2), add(s.v, k1[1], dt / 2), s.m + (dt / 2) * k1[2], T);
     const k3 = deriv(add(s.r, k2[0], dt / 2), add(s.v, k2[1], dt / 2), s.m + (dt / 2) * k2[2], T);
     const k4 = deriv(add(s.r, k3[0], dt), add(s.v, k3[1], dt), s.m + dt * k3[2], T);
-    const comb = (i: 0 | 1): Vec3 => [0, 1, 2].map((j) => (dt / 6) * (k1[i][j] + 2 * k2[i][j] + 2 * k3[i][j] + k4[i][j])) as unknown as Vec3;
     s = {
       t: s.t + dt,
-      r: add(s.r, comb(0), 1),
-      v: add(s.v, comb(1), 1),
+      r: add(s.r, rk4(k1[0], k2[0], k3[0], k4[0]), 1),
+      v: add(s.v, rk4(k1[1], k2[1], k3[1], k4[1]), 1),
       m: s.m + (dt / 6) * (k1[2] + 2 * k2[2] + 2 * k3[2] + k4[2]),
     };
   }

@@ -58,6 +58,8 @@ describe('landreach footprint', () => {
     [['--reserve-kg', '900'], /--reserve-kg 900: must be below the usable propellant, 500 kg/],
     [['--workers', '0'], /--workers 0: must be a whole number from 1 to 64/],
     [['--levels', '100,abc'], /--levels 100,abc: must be positive masses in kg/],
+    [['--refine-boundary', '1'], /--refine-boundary 1: must be a whole number from 2 to 8/],
+    [['--reachable-only', '--levels', '100,495'], /--levels: 495 kg above the budget \d+ kg cannot be drawn with --reachable-only/],
   ])('rejects %s with a message naming the option and the fix, writing nothing', async (extra, message) => {
     const h = io();
     const out = join(dir, `bad-${String(extra[0]).slice(2)}`);
@@ -81,6 +83,54 @@ describe('landreach footprint', () => {
     expect(report.summary.unreachable).toBeGreaterThan(0);
     expect(report.summary.divertRadiusLimitedByGrid).toBe(false);
   }, 120_000);
+
+  it('with --reachable-only, stops targets certainly over the budget and keeps the reachable region', async () => {
+    const run = async (name: string, extra: string[]) => {
+      const h = io();
+      const out = join(dir, name);
+      const args = ['footprint', DEMO, '--out', out, '--grid', '7x7', '--extent-m', '3000', '--reserve-kg', '220', '--workers', '2', ...extra];
+      expect(await main(args, h.io), h.err.join('')).toBe(0);
+      return JSON.parse(readFileSync(join(out, 'footprint.json'), 'utf8'));
+    };
+    const full = await run('full', []);
+    const pruned = await run('pruned', ['--reachable-only']);
+    const budget = pruned.summary.budget_kg;
+    expect(pruned.summary.overBudget).toBeGreaterThan(0);
+    expect(full.summary.reachableArea_m2).toBeGreaterThan(0);
+    pruned.grid.status.forEach((s: string, k: number) => {
+      if (s === 'over-budget') {
+        expect(full.grid.status[k]).toBe('reachable');
+        expect(full.grid.propellant_kg[k]).toBeGreaterThan(budget);
+        expect(pruned.grid.propellant_kg[k]).toBeGreaterThan(budget);
+      } else if (full.grid.propellant_kg[k] <= budget) {
+        expect(s).toBe('reachable');
+      }
+    });
+    // The budget contour interpolates between a target inside and one outside; with an upper bound in place
+    // of the exact cost outside, it moves inward (the safe side) by less than a grid cell.
+    expect(pruned.summary.reachableArea_m2).toBeLessThanOrEqual(full.summary.reachableArea_m2 + 1);
+    expect(pruned.summary.reachableArea_m2).toBeGreaterThan(0.5 * full.summary.reachableArea_m2);
+  }, 180_000);
+
+  it('with --refine-boundary, re-solves the cells the budget boundary crosses and reports the refined area', async () => {
+    const { study } = lowPropellantDemo();
+    const path = join(dir, 'low-refine.study.json');
+    writeFileSync(path, JSON.stringify(study));
+    const h = io();
+    const out = join(dir, 'refined');
+    const args = ['footprint', path, '--out', out, '--grid', '7x7', '--extent-m', '3500', '--workers', '2', '--refine-boundary', '2'];
+    expect(await main(args, h.io), h.err.join('')).toBe(0);
+    const report = JSON.parse(readFileSync(join(out, 'footprint.json'), 'utf8'));
+    const r = report.summary.boundaryRefinement;
+    expect(r.factor).toBe(2);
+    expect(r.complete).toBe(true);
+    // Some but not all of the 120 extra targets of a full 13 × 13 grid.
+    expect(r.extraTargets).toBeGreaterThan(0);
+    expect(r.extraTargets).toBeLessThan(120);
+    expect(report.summary.reachableArea_m2).not.toBe(r.unrefinedArea_m2);
+    expect(Math.abs(report.summary.reachableArea_m2 / r.unrefinedArea_m2 - 1)).toBeLessThan(0.3);
+    expect(h.out.join('')).toMatch(/boundary refined 2×: \d+ more targets/);
+  }, 180_000);
 
   it('requires --out', async () => {
     const h = io();
