@@ -8,7 +8,7 @@
  *   s, z ∈ K,  τ, κ ≥ 0.
  * τ → 0 with κ > 0 exposes infeasibility; the iterates then converge to a certificate.
  */
-import { cscMulAdd, cscMulTransAdd, type CscMatrix } from '../linalg/csc.ts';
+import type { CscMatrix } from '../linalg/csc.ts';
 import type { Cone } from './cones/cone.ts';
 import { NonnegativeCone } from './cones/nonnegative.ts';
 import { SecondOrderCone } from './cones/secondOrder.ts';
@@ -80,6 +80,9 @@ export class ConicWorkspace {
   private readonly ry: Float64Array;
   private readonly rz: Float64Array;
   private readonly rhs: Float64Array;
+  /** [x; y; z] and its product with the coupling blocks (residuals). */
+  private readonly stacked: Float64Array;
+  private readonly coupled: Float64Array;
   private readonly sol1: Float64Array;
   private readonly sol2: Float64Array;
   private readonly ds: Float64Array;
@@ -149,6 +152,8 @@ export class ConicWorkspace {
     this.rz = new Float64Array(m);
     const dim = n + p + m;
     this.rhs = new Float64Array(dim);
+    this.stacked = new Float64Array(dim);
+    this.coupled = new Float64Array(dim);
     this.sol1 = new Float64Array(dim);
     this.sol2 = new Float64Array(dim);
     this.ds = new Float64Array(m);
@@ -331,17 +336,15 @@ export class ConicWorkspace {
   }
 
   private residuals(): Residuals {
-    const { As, Gs, c, b, h, x, y, z, s, tau, rx, ry, rz, res } = this;
-    rx.fill(0);
-    cscMulTransAdd(As, y, rx);
-    cscMulTransAdd(Gs, z, rx);
-    for (let j = 0; j < this.n; j++) rx[j] += c[j] * tau;
-    ry.fill(0);
-    cscMulAdd(As, x, ry);
-    for (let i = 0; i < this.p; i++) ry[i] -= b[i] * tau;
-    rz.set(s);
-    cscMulAdd(Gs, x, rz);
-    for (let i = 0; i < this.m; i++) rz[i] -= h[i] * tau;
+    const { c, b, h, x, y, z, s, tau, rx, ry, rz, res, n, p, m, stacked, coupled } = this;
+    // [Aᵀy + Gᵀz; Ax; Gx] in one product with the KKT matrix's A and G entries.
+    stacked.set(x, 0);
+    stacked.set(y, n);
+    stacked.set(z, n + p);
+    this.kkt.couplingProduct(stacked, coupled);
+    for (let j = 0; j < n; j++) rx[j] = coupled[j] + c[j] * tau;
+    for (let i = 0; i < p; i++) ry[i] = coupled[n + i] - b[i] * tau;
+    for (let i = 0; i < m; i++) rz[i] = s[i] + coupled[n + p + i] - h[i] * tau;
     res.cx = dot(c, x);
     res.by = dot(b, y);
     res.hz = dot(h, z);

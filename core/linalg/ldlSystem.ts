@@ -30,6 +30,11 @@ export interface LdlSystem {
    * taking that step back — when a step makes the residual worse. False if x is not finite.
    */
   solveRefined(b: Float64Array, x: Float64Array, shift: number, tolerance: number, maxSteps: number): boolean;
+  /**
+   * y = M x, M the symmetric matrix of the stored off-diagonal entries selected by the construction's
+   * `productMask` (x and y in the original order). Throws if no mask was given.
+   */
+  maskedProduct(x: Float64Array, y: Float64Array): void;
 }
 
 /** Checks the invariant the shifted product relies on: each column ends with its diagonal entry. */
@@ -56,9 +61,13 @@ export class JsLdlSystem implements LdlSystem {
   private readonly correction: Float64Array;
   private readonly product: Float64Array;
   private readonly lastStep: Float64Array;
+  private readonly mask: Uint8Array | null;
 
-  /** `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle. */
-  constructor(pattern: CscMatrix, symbolic: LdlSymbolic, sign: Int8Array, perm: Int32Array) {
+  /**
+   * `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle;
+   * `productMask[q]` ≠ 0 selects stored entry q for maskedProduct().
+   */
+  constructor(pattern: CscMatrix, symbolic: LdlSymbolic, sign: Int8Array, perm: Int32Array, productMask: Uint8Array | null = null) {
     checkUpperPattern(pattern);
     const n = pattern.n;
     const nnz = pattern.colPtr[n];
@@ -72,6 +81,28 @@ export class JsLdlSystem implements LdlSystem {
     this.correction = new Float64Array(n);
     this.product = new Float64Array(n);
     this.lastStep = new Float64Array(n);
+    this.mask = productMask ? productMask.slice(0, nnz) : null;
+  }
+
+  maskedProduct(x: Float64Array, y: Float64Array): void {
+    const { mask, perm, work, product } = this;
+    if (!mask) throw new Error('internal: maskedProduct needs a productMask at construction');
+    const { colPtr, rowIdx, values, n } = this.matrix;
+    for (let k = 0; k < n; k++) work[k] = x[perm[k]];
+    product.fill(0);
+    for (let j = 0; j < n; j++) {
+      const xj = work[j];
+      let s = 0;
+      for (let q = colPtr[j]; q < colPtr[j + 1]; q++) {
+        if (mask[q] === 0) continue;
+        const i = rowIdx[q];
+        const v = values[q];
+        product[i] += v * xj;
+        s += v * work[i];
+      }
+      product[j] += s;
+    }
+    for (let k = 0; k < n; k++) y[perm[k]] = product[k];
   }
 
   get regularisedPivots(): number {

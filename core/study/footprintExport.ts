@@ -2,10 +2,10 @@
  * Footprint exports: grid CSV, GeoJSON (RFC 7946) and the versioned JSON report. All pure: data in, text
  * out. Units are in every column and property name.
  */
-import type { Feature, FeatureCollection, MultiPolygon, Point } from 'geojson';
-import type { PropellantRegion } from '../footprint/contours.ts';
 import { TARGET, type FootprintField } from '../footprint/field.ts';
 import { APP_VERSION, CAUTION } from './provenance.ts';
+
+export { footprintGeoJson, rightHandRule, type FootprintGeoJsonInput, type FootprintLonLat, type GeoJsonSite, type LocalToLonLat } from './footprintGeoJson.ts';
 
 const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget'] as const;
 
@@ -43,49 +43,6 @@ export function footprintCsv(field: FootprintField, budget_kg: number): string {
     }
   }
   return lines.join('\n') + '\n';
-}
-
-/** Converts local east–north metres to [longitude, latitude] in degrees (WGS 84), when the site is georeferenced. */
-export type LocalToLonLat = (east_m: number, north_m: number) => [number, number];
-
-function lonLatGeometry(g: MultiPolygon, toLonLat: LocalToLonLat | null): MultiPolygon | null {
-  if (!toLonLat) return null;
-  return { type: 'MultiPolygon', coordinates: g.coordinates.map((p) => p.map((r) => r.map(([x, y]) => toLonLat(x, y)))) };
-}
-
-export interface FootprintGeoJsonInput {
-  contours: PropellantRegion[];
-  /** The region reachable with the reserve kept: {propellant ≤ budget}. */
-  reachable: PropellantRegion;
-  reserve_kg: number;
-  toLonLat?: LocalToLonLat | null;
-}
-
-/**
- * RFC 7946 requires WGS 84 longitude/latitude coordinates. Every feature carries its shape in local metres
- * (east, north from the nominal target) in `properties.local_m`; its `geometry` is the same shape in
- * longitude/latitude where the site is georeferenced, and null otherwise (allowed by RFC 7946 §3.2).
- */
-export function footprintGeoJson(input: FootprintGeoJsonInput): FeatureCollection<MultiPolygon | Point | null> {
-  const toLonLat = input.toLonLat ?? null;
-  const region = (r: PropellantRegion, kind: string, extra: Record<string, unknown>): Feature<MultiPolygon | null> => ({
-    type: 'Feature',
-    geometry: lonLatGeometry(r.geometry, toLonLat),
-    properties: { kind, level_kg: r.level_kg, area_m2: Math.round(r.area_m2), ...extra, local_m: r.geometry },
-  });
-  const nominal: Feature<Point | null> = {
-    type: 'Feature',
-    geometry: toLonLat ? { type: 'Point', coordinates: toLonLat(0, 0) } : null,
-    properties: { kind: 'nominal-target', local_m: { type: 'Point', coordinates: [0, 0] } },
-  };
-  return {
-    type: 'FeatureCollection',
-    features: [
-      region(input.reachable, 'reachable-with-reserve', { reserve_kg: input.reserve_kg }),
-      ...input.contours.map((c) => region(c, 'propellant-contour', {})),
-      nominal,
-    ],
-  };
 }
 
 export interface FootprintSummary {

@@ -10,6 +10,7 @@ import type { GeoTIFFImage } from 'geotiff';
 import type { ElevationGrid, GridGeoreference, GridSpec } from './grid.ts';
 import { MAX_GRID_CELLS, TerrainInputError, checkDimensions, makeGrid, requireSomeData } from './grid.ts';
 import { registerBoundedLzw } from './lzw.ts';
+import { WGS84_SEMI_MAJOR_AXIS_M, geographicToLocal, localFrameScale, type GeographicFrame } from './georeference.ts';
 
 /** Options for readGeoTiff; every field is optional. */
 export interface GeoTiffReadOptions {
@@ -31,7 +32,6 @@ export interface GeoTiffReadOptions {
 const TAG_PIXEL_SCALE = 'ModelPixelScale';
 const TAG_TIEPOINT = 'ModelTiepoint';
 const TAG_TRANSFORMATION = 'ModelTransformation';
-const WGS84_A = 6378137;
 const DEG = Math.PI / 180;
 
 /**
@@ -233,7 +233,7 @@ function geographicSpec(
   if (options.bodyRadius_m !== undefined && !(Number.isFinite(options.bodyRadius_m) && options.bodyRadius_m > 0)) {
     fail(source, `invalid bodyRadius_m: ${options.bodyRadius_m} (must be a finite number of metres > 0)`);
   }
-  const radius = options.bodyRadius_m ?? (Number.isFinite(semiMajor) && semiMajor > 0 ? semiMajor : epsg === 4326 ? WGS84_A : NaN);
+  const radius = options.bodyRadius_m ?? (Number.isFinite(semiMajor) && semiMajor > 0 ? semiMajor : epsg === 4326 ? WGS84_SEMI_MAJOR_AXIS_M : NaN);
   if (!Number.isFinite(radius) || radius <= 0) {
     fail(source, `is in geographic degrees (GeographicTypeGeoKey ${Number.isFinite(epsg) ? epsg : 'unset'}) with no body radius; pass bodyRadius_m (CLI: --body-radius-m)`);
   }
@@ -249,8 +249,11 @@ function geographicSpec(
   }
   if (!Number.isFinite(lon0)) fail(source, `invalid originLongitude_deg: ${lon0}`);
   const cos0 = Math.cos(lat0 * DEG);
-  // Flat (equirectangular) local frame: east = R cos φ0 (λ − λ0), north = R (φ − φ0). The grid stays
-  // regular, so meridian convergence is ignored; report the worst east-scale error over the grid.
+  // Flat (equirectangular) local frame (georeference.ts): east = R cos φ0 (λ − λ0), north = R (φ − φ0). The
+  // grid stays regular, so meridian convergence is ignored; report the worst east-scale error over the grid.
+  const frame: GeographicFrame = { originLatitude_deg: lat0, originLongitude_deg: lon0, bodyRadius_m: radius };
+  const scale = localFrameScale(frame);
+  const [originEast_m, originNorth_m] = geographicToLocal(frame, lonW, latN);
   const maxEastScaleError = Math.max(
     Math.abs(Math.cos(latN * DEG) / cos0 - 1),
     Math.abs(Math.cos(latS * DEG) / cos0 - 1),
@@ -264,10 +267,10 @@ function geographicSpec(
   return {
     width: win.w,
     height: win.h,
-    pixelSizeX_m: radius * cos0 * affine.dx * DEG,
-    pixelSizeY_m: radius * affine.dy * DEG,
-    originEast_m: radius * cos0 * (lonW - lon0) * DEG,
-    originNorth_m: radius * (latN - lat0) * DEG,
+    pixelSizeX_m: scale.east_m_per_deg * affine.dx,
+    pixelSizeY_m: scale.north_m_per_deg * affine.dy,
+    originEast_m,
+    originNorth_m,
     georeference,
   };
 }

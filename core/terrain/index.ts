@@ -1,6 +1,8 @@
 /** core/terrain: elevation grids in, slope / hazard / safe-site products out. Pure; no node:*. */
 export * from './grid.ts';
 export * from './geotiff-reader.ts';
+export * from './georeference.ts';
+export * from './transverse-mercator.ts';
 export * from './png-reader.ts';
 export * from './json-grid.ts';
 export * from './tiff-writer.ts';

@@ -205,28 +205,29 @@ describe('footprint in Chromium (demo study, small grids)', () => {
 
   it('cancels a run mid-way and keeps the finished rows', async () => {
     const { page } = session;
-    await page.getByTestId('grid-side').fill('15');
+    // 41 × 41 (1,681 targets, about half a minute here): long enough that the cancel lands mid-run.
+    await page.getByTestId('grid-side').fill('41');
     await page.getByTestId('compute').click();
     // Wait for a few rows, then cancel.
     await page.waitForFunction(() => {
-      const m = /([\d,]+) \/ 225 targets/.exec(document.querySelector('[data-testid="run-progress"]')?.textContent ?? '');
+      const m = /([\d,]+) \/ 1,681 targets/.exec(document.querySelector('[data-testid="run-progress"]')?.textContent ?? '');
       return m !== null && Number(m[1].replace(/,/g, '')) >= 30;
     }, null, { timeout: 60_000 });
     // Mid-run the bar reports the rate and the time left.
     expect(await page.getByTestId('run-progress').textContent()).toMatch(/targets · [\d.]+ \/s · about .+ left/);
     await page.getByTestId('run-cancel').click();
-    await page.waitForFunction(() => /Cancelled: [\d,]+ \/ 225 targets kept/.test(document.querySelector('[data-testid="run-progress"]')?.textContent ?? ''));
+    await page.waitForFunction(() => /Cancelled: [\d,]+ \/ 1,681 targets kept/.test(document.querySelector('[data-testid="run-progress"]')?.textContent ?? ''));
     const kept = Number(/Cancelled: ([\d,]+)/.exec((await page.getByTestId('run-progress').textContent()) ?? '')![1].replace(/,/g, ''));
     expect(kept).toBeGreaterThanOrEqual(30);
-    expect(kept).toBeLessThan(225);
-    expect(kept % 15).toBe(0);
+    expect(kept).toBeLessThan(1681);
+    expect(kept % 41).toBe(0);
     const summary = (await page.getByTestId('footprint-summary').textContent()) ?? '';
-    expect(summary).toContain(`${225 - kept} not computed (cancelled)`);
+    expect(summary).toContain(`${1681 - kept} not computed (cancelled)`);
     await screenshot(page, 'footprint-cancelled');
     // The partial result exports as such: pending rows have an empty within_budget.
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-csv').click()]);
     const rows = (await fs.readFile((await download.path())!, 'utf8')).trim().split('\n').slice(2);
-    expect(rows.filter((r) => r.split(',')[2] === 'pending')).toHaveLength(225 - kept);
+    expect(rows.filter((r) => r.split(',')[2] === 'pending')).toHaveLength(1681 - kept);
     expect(session.problems).toEqual([]);
   });
 });

@@ -1,6 +1,6 @@
 /**
  * `landreach footprint STUDY.json --out DIR [--grid 41x41] [--extent-m 1500] [--reserve-kg R] [--workers N]
- *  [--nodes N] [--levels a,b,…]`
+ *  [--nodes N] [--levels a,b,…] [--terrain DEM [--target-east-m E --target-north-m N]]`
  *
  * The divert footprint: minimum propellant (free final time) for every target of a grid around the
  * nominal target, in worker threads, with contours, the reserve boundary, the guaranteed divert radius and
@@ -12,6 +12,10 @@ import { join } from 'node:path';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { readStudy, writeFilesAtomically } from '../files.ts';
+import { num, readDem, type Flags } from '../dem.ts';
+import { footprintLonLat } from '../../footprint/georeferencedFootprint.ts';
+import type { FootprintLonLat } from '../../study/footprintExport.ts';
+import { TerrainInputError } from '../../terrain/grid.ts';
 import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 import { footprintCsv, footprintGeoJson, footprintReport } from '../../study/footprintExport.ts';
@@ -42,11 +46,17 @@ Options:
   --refine-boundary F  after the grid, solve the cells the budget boundary crosses again at F × the
                      resolution (2 … 8): area and divert radius then come from the refined boundary
   --reachable-only   stop each target's search once it is certainly over the budget (such targets are
-                     reported 'over-budget' with a lower bound on their cost; levels above the budget
-                     are then not drawn)
+                     reported 'over-budget' with the best trajectory found as their cost, an upper
+                     bound; levels above the budget are then not drawn)
+  --terrain DEM      a georeferenced GeoTIFF (EPSG:4326, a UTM zone on WGS 84, or degrees on a sphere):
+                     footprint.geojson then carries longitude/latitude geometry, the nominal target placed
+                     at --target-east-m, --target-north-m of the DEM's frame (default: the DEM's centre)
+  --body-radius-m R, --origin-lat-deg A, --origin-lon-deg B
+                     with --terrain: as for landreach hazard (geographic DEMs)
 
 Writes footprint.json (versioned report), footprint.csv (one row per target), footprint.geojson
-(contours and the reserve boundary, RFC 7946) and footprint.svg (a map for reports).
+(contours and the reserve boundary, RFC 7946: local metres
+in the properties, longitude/latitude geometry with --terrain, null geometry without) and footprint.svg (a map for reports).
 Exit codes: 0 done (or stopped with Ctrl-C after writing what finished), 1 computation failed, 2 bad input.
 
 ${CAUTION}`;
@@ -63,7 +73,12 @@ interface Options {
   levels: number[] | null;
   reachableOnly: boolean;
   refine: number | null;
+  /** --terrain and the flags passed on to the DEM reader. */
+  terrain: string | null;
+  demFlags: Flags;
 }
+
+const DEM_FLAGS = ['--target-east-m', '--target-north-m', '--body-radius-m', '--origin-lat-deg', '--origin-lon-deg'];
 
 function positive(flag: string, text: string, integer: boolean, max: number): number {
   const v = Number(text);
@@ -86,6 +101,8 @@ function parseArgs(args: string[]): Options {
     levels: null,
     reachableOnly: false,
     refine: null,
+    terrain: null,
+    demFlags: {},
   };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -117,7 +134,9 @@ function parseArgs(args: string[]): Options {
         const v = t.split(',').map((x) => Number(x.trim()));
         if (!v.length || !v.every((x) => Number.isFinite(x) && x > 0)) throw new UsageError(`--levels ${t}: must be positive masses in kg separated by commas, e.g. 150,200,250`);
         o.levels = v.sort((x, y) => x - y);
-      } else if (a.startsWith('--')) throw new UsageError(`unknown option '${a}' (see landreach footprint --help)`);
+      } else if (a === '--terrain') o.terrain = value();
+      else if (DEM_FLAGS.includes(a)) o.demFlags[a.slice(2)] = value();
+      else if (a.startsWith('--')) throw new UsageError(`unknown option '${a}' (see landreach footprint --help)`);
       else if (!o.study) o.study = a;
       else throw new UsageError(`unexpected argument '${a}': give one study file`);
     } catch (err) {
@@ -127,6 +146,7 @@ function parseArgs(args: string[]): Options {
   }
   if (!o.study) throw new UsageError('missing STUDY.json (usage: landreach footprint STUDY.json --out DIR)');
   if (!o.out) throw new UsageError('missing --out DIR (the folder for footprint.json, .csv, .geojson and .svg)');
+  if (!o.terrain && Object.keys(o.demFlags).length) throw new UsageError(`--${Object.keys(o.demFlags)[0]} only applies with --terrain DEM`);
   if (o.nodes < 5) throw new UsageError(`--nodes ${o.nodes}: must be at least 5`);
   return o;
 }
@@ -146,6 +166,27 @@ function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): 
   return extent;
 }
 
+/** Reads --terrain, places the nominal target on it and builds the longitude/latitude conversion. */
+async function terrainPlacement(path: string, flags: Flags, body: string): Promise<{ target_m: [number, number]; lonLat: FootprintLonLat }> {
+  try {
+    const { grid } = await readDem(path, flags, '--terrain');
+    const west = grid.originEast_m;
+    const east = west + grid.width * grid.pixelSizeX_m;
+    const north = grid.originNorth_m;
+    const south = north - grid.height * grid.pixelSizeY_m;
+    const tE = num(flags, 'target-east-m') ?? (west + east) / 2;
+    const tN = num(flags, 'target-north-m') ?? (south + north) / 2;
+    if (tE < west || tE > east || tN < south || tN > north) {
+      throw new UsageError(`--target-east-m ${tE}, --target-north-m ${tN}: the nominal target is outside the DEM (east ${west}…${east} m, north ${south}…${north} m); give a point on it`);
+    }
+    const lonLat = footprintLonLat(grid, [tE, tN], body, `--terrain ${path}`);
+    if (!lonLat) throw new UsageError(`--terrain ${path}: has no georeference (no CRS), so there is no longitude/latitude to write; give a GeoTIFF with a CRS (gdal_translate -a_srs …)`);
+    return { target_m: [tE, tN], lonLat };
+  } catch (err) {
+    if (err instanceof TerrainInputError) throw new UsageError(err.message);
+    throw err;
+  }
+}
 
 export const footprintCommand: CliCommand = {
   name: 'footprint',
@@ -163,6 +204,8 @@ export const footprintCommand: CliCommand = {
     if (o.reachableOnly && o.levels?.some((l) => l > budget)) {
       throw new UsageError(`--levels: ${o.levels.filter((l) => l > budget).join(', ')} kg above the budget ${budget} kg cannot be drawn with --reachable-only`);
     }
+    // The terrain is read and its CRS checked before any computing, so a bad DEM costs nothing.
+    const placement = o.terrain ? await terrainPlacement(o.terrain, o.demFlags, study.planet.body) : null;
     const extent = o.extent ?? autoExtent(study, budget, o.nodes, io);
     const grid = makeTargetGrid({ halfWidthEast_m: extent, halfWidthNorth_m: extent, nx: o.nx, ny: o.ny });
     const inputs = {
@@ -172,6 +215,7 @@ export const footprintCommand: CliCommand = {
       reserve_kg: reserve,
       reachableOnly: o.reachableOnly,
       refineBoundary: o.refine,
+      ...(placement ? { terrain: { path: o.terrain, nominalTargetOnDem_m: placement.target_m } } : {}),
     };
     const hash = await inputsHash(inputs);
     io.stderr(`footprint of '${study.name}': ${o.nx} × ${o.ny} targets, ±${extent} m, N = ${o.nodes}, ${o.workers} worker(s)\n`);
@@ -200,7 +244,7 @@ export const footprintCommand: CliCommand = {
     const files = [
       { path: join(o.out, 'footprint.json'), text: footprintReport({ studyName: study.name, inputsHash: hash, inputs, summary, field, contourLevels_kg: levels, createdAt }) },
       { path: join(o.out, 'footprint.csv'), text: footprintCsv(field, budget) },
-      { path: join(o.out, 'footprint.geojson'), text: JSON.stringify(footprintGeoJson({ contours: bands, reachable, reserve_kg: reserve })) },
+      { path: join(o.out, 'footprint.geojson'), text: JSON.stringify(footprintGeoJson({ contours: bands, reachable, reserve_kg: reserve, lonLat: placement?.lonLat })) },
       {
         path: join(o.out, 'footprint.svg'),
         text: footprintSvg({

@@ -2,8 +2,9 @@
  * `landreach hazard DEM --out DIR …`: slope, roughness and hazard rasters (GeoTIFF) plus a JSON
  * summary for one elevation model. Reading and writing files happens here; the work is core/terrain.
  */
-import { readFile, writeFile, rename, mkdir, access, unlink } from 'node:fs/promises';
-import { resolve, join, basename } from 'node:path';
+import { writeFile, rename, mkdir, access, unlink } from 'node:fs/promises';
+import { resolve, join } from 'node:path';
+import { num, readDem, type Flags } from '../dem.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import type { ElevationGrid, HazardLimits, HazardMap } from '../../terrain/index.ts';
@@ -11,13 +12,14 @@ import { CAUTION } from '../../study/provenance.ts';
 import os from 'node:os';
 import type { Study } from '../../study/index.ts';
 import { readStudy } from '../files.ts';
+import { hazardFootprintGeoJson } from '../hazardGeoJson.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { FOOTPRINT_NODES } from '../../footprint/studyFootprint.ts';
 import { TARGET } from '../../footprint/field.ts';
 import { parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
 import {
   DEFAULT_HAZARD_LIMITS, HAZARD_MARGIN, HAZARD_ROUGHNESS, HAZARD_SLOPE, HAZARD_UNKNOWN, TerrainInputError,
-  gridGeometry, gridRasterGeoreference, hazardMap, readGeoTiff, readJsonGrid, readPngHeightmap, toDegrees, validCount, writeGeoTiff,
+  gridGeometry, gridRasterGeoreference, hazardMap, toDegrees, validCount, writeGeoTiff,
   rankSites, resampleReachability, safeReachableSet, type GridSpec,
 } from '../../terrain/index.ts';
 
@@ -53,7 +55,9 @@ Options:
   --study STUDY.json        also the safe reachable set and ranked landing sites: the study's footprint is
                             computed over the DEM (reachable = minimum propellant within usable − reserve),
                             laid onto the DEM grid and intersected with the safe cells; writes
-                            safe-reachable.tif and adds "safeReachable" and "sites" to the summary
+                            safe-reachable.tif and footprint.geojson (contours, reserve boundary and sites;
+                            longitude/latitude for EPSG:4326, UTM-on-WGS 84 and spherical geographic DEMs,
+                            local metres always) and adds "safeReachable" and "sites" to the summary
   --target-east-m E, --target-north-m N
                             with --study: DEM coordinates of the study's nominal target (default: DEM centre)
   --targets NXxNY           with --study: footprint targets over the DEM (default 21x21)
@@ -61,8 +65,6 @@ Options:
   --sites K                 with --study: how many ranked sites (default 10)
 
 ${CAUTION}`;
-
-type Flags = Record<string, string | true>;
 
 const VALUE_FLAGS = new Set([
   'out', 'max-slope-deg', 'max-roughness-m', 'lander-diameter-m', 'margin-m', 'roughness', 'window',
@@ -88,14 +90,6 @@ function parseArgs(args: string[]): { positional: string[]; flags: Flags } {
   return { positional, flags };
 }
 
-function num(flags: Flags, name: string): number | undefined {
-  const v = flags[name];
-  if (v === undefined) return undefined;
-  const x = Number(v);
-  if (typeof v !== 'string' || v.trim() === '' || !Number.isFinite(x)) throw new UsageError(`--${name}: '${String(v)}' is not a number`);
-  return x;
-}
-
 async function exists(path: string): Promise<boolean> {
   try { await access(path); return true; } catch { return false; }
 }
@@ -110,44 +104,6 @@ async function writeAtomic(path: string, data: Uint8Array | string): Promise<voi
     await unlink(tmp).catch(() => undefined);
     throw err;
   }
-}
-
-async function readDem(path: string, flags: Flags): Promise<{ grid: ElevationGrid; format: string }> {
-  let bytes: Uint8Array;
-  try {
-    bytes = new Uint8Array(await readFile(path));
-  } catch (err) {
-    throw new UsageError(`cannot read DEM '${path}': ${(err as NodeJS.ErrnoException).code ?? String(err)}`);
-  }
-  const name = basename(path);
-  if (bytes[0] === 0x89 && bytes[1] === 0x50) {
-    const pixelSize_m = num(flags, 'pixel-size-m');
-    const heightScale_m = num(flags, 'height-scale-m');
-    if (pixelSize_m === undefined || heightScale_m === undefined) {
-      throw new UsageError(`'${name}' is a PNG heightmap: give --pixel-size-m and --height-scale-m (a PNG carries no georeference)`);
-    }
-    const grid = await readPngHeightmap(bytes, { pixelSize_m, heightScale_m, heightOffset_m: num(flags, 'height-offset-m') ?? 0, sourceName: name });
-    return { grid, format: 'png-heightmap' };
-  }
-  const head = new TextDecoder().decode(bytes.subarray(0, 64)).replace(/^\uFEFF/, '').trimStart();
-  if (head.startsWith('{')) {
-    return { grid: readJsonGrid(new TextDecoder().decode(bytes)), format: 'landreach-json-grid' };
-  }
-  let window: [number, number, number, number] | undefined;
-  if (typeof flags.window === 'string') {
-    const parts = flags.window.split(',').map(Number);
-    if (parts.length !== 4 || !parts.every(Number.isInteger)) throw new UsageError(`--window: '${flags.window}' must be four integers C0,R0,C1,R1`);
-    window = parts as [number, number, number, number];
-  }
-  const grid = await readGeoTiff(bytes, {
-    sourceName: name,
-    window,
-    bodyRadius_m: num(flags, 'body-radius-m'),
-    originLatitude_deg: num(flags, 'origin-lat-deg'),
-    originLongitude_deg: num(flags, 'origin-lon-deg'),
-    verticalScale: num(flags, 'vertical-scale'),
-  });
-  return { grid, format: 'geotiff' };
 }
 
 function stats(values: Float32Array, scale = 1) {
@@ -222,8 +178,9 @@ async function run(args: string[], io: CliIo): Promise<number> {
     hazard: join(outDir, 'hazard.tif'),
     summary: join(outDir, 'hazard-summary.json'),
     safeReachable: join(outDir, 'safe-reachable.tif'),
+    geojson: join(outDir, 'footprint.geojson'),
   };
-  const outputs = Object.values(files).filter((f) => study || f !== files.safeReachable);
+  const outputs = Object.values(files).filter((f) => study || (f !== files.safeReachable && f !== files.geojson));
   if (outputs.includes(demPath)) throw new UsageError(`--out would overwrite the input DEM '${demPath}'; choose another folder`);
   if (!flags.overwrite) {
     for (const p of outputs) if (await exists(p)) throw new UsageError(`'${p}' already exists; pass --overwrite to replace it or choose another --out`);
@@ -247,6 +204,13 @@ async function run(args: string[], io: CliIo): Promise<number> {
       summary.safeReachable = reach.summary;
       summary.sites = reach.sites;
       (summary.outputs as Record<string, string>).safeReachable = 'safe-reachable.tif';
+      (summary.outputs as Record<string, string>).footprintGeoJson = 'footprint.geojson';
+      const sites = reach.sites.map(({ east_m, north_m, propellant_kg, height_m, hazardDistance_m, footprintSlope_deg, roughness_m }) => ({
+        east_m,
+        north_m,
+        properties: { propellant_kg, height_m, hazardDistance_m: Number.isFinite(hazardDistance_m) ? hazardDistance_m : null, footprintSlope_deg, roughness_m },
+      }));
+      await writeAtomic(files.geojson, hazardFootprintGeoJson(study, grid, reach.field, reach.target_m, sites, io));
       io.stdout(`safe and reachable: ${(reach.safe.area_m2 / 1e6).toFixed(4)} km² (${reach.safe.cells} cells); best site ${reach.sites[0] ? `${reach.sites[0].east_m.toFixed(0)} m east, ${reach.sites[0].north_m.toFixed(0)} m north, ${reach.sites[0].propellant_kg.toFixed(1)} kg` : 'none'}\n`);
     }
     await writeAtomic(files.summary, JSON.stringify(summary, null, 2) + '\n');
@@ -326,6 +290,8 @@ async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, fla
   return {
     safe,
     sites,
+    field: run.field,
+    target_m: [tE, tN] as const,
     summary: {
       study: study.name,
       budget_kg: budget,

@@ -21,6 +21,7 @@ interface KernelExports {
     rhs: number, out: number, work: number, bk: number, correction: number, product: number, lastStep: number,
     tolerance: number, maxSteps: number, info: number,
   ): number;
+  symmetricMaskedProduct(n: number, Ap: number, Ai: number, Ax: number, mask: number, perm: number, x: number, y: number, xw: number, yw: number): void;
 }
 
 let compiled: WebAssembly.Module | null | undefined;
@@ -46,7 +47,7 @@ export function wasmKernelsAvailable(): boolean {
 
 type Slot =
   | 'Ap' | 'Ai' | 'Ax' | 'Lp' | 'Li' | 'Rp' | 'Ri' | 'Rpos' | 'Lx' | 'Rx' | 'D' | 'Dinv' | 'y' | 'sign' | 'perm'
-  | 'rhs' | 'out' | 'work' | 'bk' | 'correction' | 'product' | 'lastStep' | 'info';
+  | 'rhs' | 'out' | 'work' | 'bk' | 'correction' | 'product' | 'lastStep' | 'info' | 'mask';
 
 export class WasmLdlSystem implements LdlSystem {
   readonly matrix: CscMatrix;
@@ -60,8 +61,13 @@ export class WasmLdlSystem implements LdlSystem {
   private readonly outView: Float64Array;
   private readonly infoView: Float64Array;
 
-  /** `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle. */
-  constructor(pattern: CscMatrix, symbolic: LdlSymbolic, sign: Int8Array, perm: Int32Array) {
+  private readonly hasMask: boolean;
+
+  /**
+   * `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle;
+   * `productMask[q]` ≠ 0 selects stored entry q for maskedProduct().
+   */
+  constructor(pattern: CscMatrix, symbolic: LdlSymbolic, sign: Int8Array, perm: Int32Array, productMask: Uint8Array | null = null) {
     const module = kernelModule();
     if (!module) throw new Error('WebAssembly kernels are not available here (set kernels: "javascript")');
     checkUpperPattern(pattern);
@@ -82,7 +88,7 @@ export class WasmLdlSystem implements LdlSystem {
       Lp: i32(n + 1), Li: i32(nnzL), Rp: i32(n + 1), Ri: i32(nnzL), Rpos: i32(nnzL),
       Lx: f64(nnzL), Rx: f64(nnzL), D: f64(n), Dinv: f64(n), y: f64(n), sign: take(n), perm: i32(n),
       rhs: f64(n), out: f64(n), work: f64(n), bk: f64(n), correction: f64(n), product: f64(n), lastStep: f64(n),
-      info: f64(1),
+      info: f64(1), mask: take(nnz),
     };
     const pages = Math.ceil(size / 65536);
     const memory = new WebAssembly.Memory({ initial: pages, maximum: pages });
@@ -104,6 +110,8 @@ export class WasmLdlSystem implements LdlSystem {
     this.rhsView = new Float64Array(buf, a.rhs, n);
     this.outView = new Float64Array(buf, a.out, n);
     this.infoView = new Float64Array(buf, a.info, 1);
+    this.hasMask = productMask !== null;
+    if (productMask) new Uint8Array(buf, a.mask, nnz).set(productMask.subarray(0, nnz));
     this.symbolic = symbolic;
   }
 
@@ -114,6 +122,15 @@ export class WasmLdlSystem implements LdlSystem {
     );
     this.regularisedPivots = Math.max(0, r);
     return r >= 0;
+  }
+
+  maskedProduct(x: Float64Array, y: Float64Array): void {
+    if (!this.hasMask) throw new Error('internal: maskedProduct needs a productMask at construction');
+    const a = this.at;
+    const n = this.symbolic.n;
+    this.rhsView.set(x.length === n ? x : x.subarray(0, n));
+    this.k.symmetricMaskedProduct(n, a.Ap, a.Ai, a.Ax, a.mask, a.perm, a.rhs, a.out, a.work, a.product);
+    y.set(this.outView);
   }
 
   solveRefined(rhs: Float64Array, out: Float64Array, shift: number, tolerance: number, maxSteps: number): boolean {

@@ -1,12 +1,13 @@
 /** `landreach hazard DEM --study STUDY.json`: the safe reachable set and ranked sites on the invented demo site. */
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../../core/cli/main.ts';
 import { captureIo } from '../../support/cli-io.ts';
-import { readGeoTiff } from '../../../core/terrain/index.ts';
+import { readGeoTiff, transverseMercatorInverse, utmProjection, writeGeoTiff } from '../../../core/terrain/index.ts';
+import { rfc7946Violations } from '../../support/rfc7946.ts';
 
 const DEM = fileURLToPath(new URL('../../../assets/demo/terrain/demo-site.tif', import.meta.url));
 const STUDY = fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json', import.meta.url));
@@ -37,6 +38,49 @@ describe('landreach hazard --study', () => {
     let ones = 0;
     for (const v of mask.heights) if (v === 1) ones++;
     expect(ones).toBe(summary.safeReachable.safeReachableCells);
+    // footprint.geojson: the demo DEM has no CRS, so null geometry with the shapes and sites in local metres.
+    const doc = JSON.parse(readFileSync(join(out, 'footprint.geojson'), 'utf8'));
+    expect(rfc7946Violations(doc)).toEqual([]);
+    expect(doc.features.every((f: { geometry: unknown }) => f.geometry === null)).toBe(true);
+    const sites = doc.features.filter((f: { properties: { kind: string } }) => f.properties.kind === 'landing-site');
+    expect(sites.map((f: { properties: { local_m: { coordinates: number[] } } }) => f.properties.local_m.coordinates)).toEqual(summary.sites.map((s: { east_m: number; north_m: number }) => [s.east_m, s.north_m]));
+  }, 120_000);
+
+  it('on a UTM DEM, footprint.geojson has WGS 84 lon/lat geometry; sites sit at their UTM position', async () => {
+    // Invented flat DEM, 60 × 60 cells of 10 m in UTM zone 33N (EPSG:32633).
+    const dem = join(dir, 'utm.tif');
+    writeFileSync(dem, writeGeoTiff({ width: 60, height: 60, data: new Float32Array(3600).fill(50), georeference: { geoTransform: [400000, 10, 0, 5000000, 0, -10], projectedEpsg: 32633 } }));
+    const h = io();
+    const out = join(dir, 'utm');
+    const code = await main(['hazard', dem, '--out', out, '--study', STUDY, '--targets', '5x5', '--workers', '2', '--sites', '3', '--lander-diameter-m', '20'], h.io);
+    expect(code, h.err.join('')).toBe(0);
+    const summary = JSON.parse(readFileSync(join(out, 'hazard-summary.json'), 'utf8'));
+    const doc = JSON.parse(readFileSync(join(out, 'footprint.geojson'), 'utf8'));
+    expect(rfc7946Violations(doc)).toEqual([]);
+    const [tE, tN] = summary.safeReachable.nominalTargetOnDem_m;
+    const utm = utmProjection(32633)!;
+    const sites = doc.features.filter((f: { properties: { kind: string } }) => f.properties.kind === 'landing-site');
+    expect(sites.length).toBe(summary.sites.length);
+    expect(sites.length).toBeGreaterThan(0);
+    sites.forEach((f: { geometry: { coordinates: number[] } }, k: number) => {
+      const [lon, lat] = transverseMercatorInverse(utm, tE + summary.sites[k].east_m, tN + summary.sites[k].north_m);
+      expect(f.geometry.coordinates[0]).toBeCloseTo(lon, 8);
+      expect(f.geometry.coordinates[1]).toBeCloseTo(lat, 8);
+    });
+    expect(doc.features[0].properties.crs_note).toMatch(/UTM zone 33N \(EPSG:32633\)/);
+  }, 120_000);
+
+  it('on a DEM whose CRS has no lon/lat conversion, still writes everything: null geometry and a note naming the CRS', async () => {
+    const dem = join(dir, 'ft.tif');
+    writeFileSync(dem, writeGeoTiff({ width: 40, height: 40, data: new Float32Array(1600).fill(50), georeference: { geoTransform: [6000000, 10, 0, 2000000, 0, -10], projectedEpsg: 2227 } }));
+    const h = io();
+    const out = join(dir, 'ft');
+    expect(await main(['hazard', dem, '--out', out, '--study', STUDY, '--targets', '3x3', '--workers', '2', '--sites', '2', '--lander-diameter-m', '20'], h.io), h.err.join('')).toBe(0);
+    expect(h.err.join('')).toMatch(/footprint\.geojson has null geometry.*EPSG:2227 cannot be converted/);
+    const doc = JSON.parse(readFileSync(join(out, 'footprint.geojson'), 'utf8'));
+    expect(rfc7946Violations(doc)).toEqual([]);
+    expect(doc.features.every((f: { geometry: unknown }) => f.geometry === null)).toBe(true);
+    expect(existsSync(join(out, 'safe-reachable.tif'))).toBe(true);
   }, 120_000);
 
   it('rejects study-only options without --study', async () => {

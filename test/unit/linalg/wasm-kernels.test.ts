@@ -47,14 +47,21 @@ function permutedUpper(M: number[][], perm: Int32Array): CscMatrix {
   return cscFromTriplets(M.length, M.length, r, c, v);
 }
 
-function systems(M: number[][], n1: number) {
+function systems(M: number[][], n1: number, masked = false) {
   const natural = permutedUpper(M, Int32Array.from(M, (_, i) => i));
   const perm = minimumDegreeOrdering(natural);
   const U = permutedUpper(M, perm);
   const sign = Int8Array.from(perm, (orig) => (orig < n1 ? 1 : -1));
   const symbolic = ldlSymbolic(U);
+  // Mask: the off-diagonal entries of the upper triangle whose original row index is even.
+  const mask = new Uint8Array(U.colPtr[U.n]);
+  if (masked) {
+    for (let j = 0; j < U.n; j++) {
+      for (let q = U.colPtr[j]; q < U.colPtr[j + 1]; q++) mask[q] = U.rowIdx[q] !== j && perm[U.rowIdx[q]] % 2 === 0 ? 1 : 0;
+    }
+  }
   const make = (S: new (...a: ConstructorParameters<typeof JsLdlSystem>) => LdlSystem) => {
-    const s = new S(U, symbolic, sign, perm);
+    const s = new S(U, symbolic, sign, perm, masked ? mask : null);
     s.matrix.values.set(U.values);
     return s;
   };
@@ -84,6 +91,35 @@ describe.runIf(wasmKernelsAvailable())('WebAssembly LDLᵀ kernels', () => {
       }
       const ref = denseSolve(M, Array.from(b));
       ref.forEach((v, i) => expect(xw[i]).toBeCloseTo(v, 9));
+    }
+  });
+
+  it('compute the masked symmetric product like a dense product of the selected entries', () => {
+    const rng = new Rng(77);
+    for (let trial = 0; trial < 10; trial++) {
+      const n1 = rng.int(3, 30);
+      const M = quasiDefinite(rng, n1, rng.int(2, 20), 0.3);
+      const { js, wasm } = systems(M, n1, true);
+      const x = Float64Array.from(M, () => rng.normal());
+      const yj = new Float64Array(x.length);
+      const yw = new Float64Array(x.length);
+      js.maskedProduct(x, yj);
+      wasm.maskedProduct(x, yw);
+      // Dense: entry (a, b), a ≠ b, is selected when the smaller-permuted-position end has an even original index.
+      const n = M.length;
+      const { perm } = systems(M, n1);
+      const pos = new Int32Array(n);
+      perm.forEach((orig, k) => (pos[orig] = k));
+      for (let a = 0; a < n; a++) {
+        let ref = 0;
+        for (let b = 0; b < n; b++) {
+          if (a === b || M[a][b] === 0) continue;
+          const upperRow = pos[a] < pos[b] ? a : b;
+          if (upperRow % 2 === 0) ref += M[a][b] * x[b];
+        }
+        expect(yj[a]).toBeCloseTo(ref, 12);
+        expect(yw[a]).toBeCloseTo(ref, 12);
+      }
     }
   });
 

@@ -157,3 +157,29 @@ export function ldlSolveRefined(
   }
   return finite ? steps : -1 - steps;
 }
+
+/**
+ * y = M x for the symmetric matrix made of the stored entries with mask[q] ≠ 0 only (off-diagonal
+ * entries), x and y in the original order (perm as in ldlSolveRefined). For the KKT matrix with the A and
+ * G entries masked this is [Aᵀy + Gᵀz; Ax; Gx], the products the interior-point residuals need.
+ */
+export function symmetricMaskedProduct(
+  n: i32, Ap: usize, Ai: usize, Ax: usize, mask: usize, perm: usize, x: usize, y: usize, xw: usize, yw: usize,
+): void {
+  for (let k = 0; k < n; k++) setF64(xw, k, f64At(x, i32At(perm, k)));
+  memory.fill(yw, 0, <usize>n << 3);
+  for (let j = 0; j < n; j++) {
+    const xj = f64At(xw, j);
+    let s: f64 = 0;
+    const end = i32At(Ap, j + 1);
+    for (let q = i32At(Ap, j); q < end; q++) {
+      if (load<u8>(mask + <usize>q) == 0) continue;
+      const i = i32At(Ai, q);
+      const v = f64At(Ax, q);
+      setF64(yw, i, f64At(yw, i) + v * xj);
+      s += v * f64At(xw, i);
+    }
+    setF64(yw, j, f64At(yw, j) + s);
+  }
+  for (let k = 0; k < n; k++) setF64(y, i32At(perm, k), f64At(yw, k));
+}

@@ -1,0 +1,51 @@
+/**
+ * Longitude/latitude for a footprint laid on a georeferenced terrain. The footprint's local metres (east,
+ * north of the nominal target) are placed in the terrain's frame with the nominal target at `target_m`,
+ * the same placement `landreach hazard --study` uses for the safe reachable set, then converted with
+ * core/terrain's `terrainLonLat`. Pure; shared by the command line and (later) the desktop app.
+ */
+import type { ElevationGrid } from '../terrain/grid.ts';
+import { terrainLonLat } from '../terrain/georeference.ts';
+import { gridFactors, utmProjection } from '../terrain/transverse-mercator.ts';
+import type { FootprintLonLat } from '../study/footprintGeoJson.ts';
+
+/** Millimetres, without a "-0.000". */
+const metres = (v: number) => (Math.round(v * 1000) / 1000 + 0).toFixed(3);
+
+/**
+ * Null when the terrain has no georeference; throws core/terrain's TerrainInputError (naming the CRS)
+ * when its CRS cannot be converted. `body` is the study's planet body ("mars", "moon", "custom").
+ */
+export function footprintLonLat(grid: ElevationGrid, target_m: readonly [number, number], body: string, source = 'terrain'): FootprintLonLat | null {
+  const ref = terrainLonLat(grid.georeference, source);
+  if (!ref) return null;
+  const [tE, tN] = target_m;
+  const toLonLat = (e: number, n: number) => ref.toLonLat(tE + e, tN + n);
+  const placed = `The nominal target is at ${metres(tE)} m east, ${metres(tN)} m north in the DEM's frame (${ref.sourceCrs}); local metres are laid onto that frame unrotated.`;
+  const notes = [placed];
+  const frame = grid.georeference?.localFrame;
+  const utm = grid.georeference?.model === 'projected' ? utmProjection(grid.georeference.projectedEpsg ?? 0) : null;
+  if (utm) {
+    const [lon0, lat0] = toLonLat(0, 0);
+    const { convergence_deg: c, scale } = gridFactors(utm, lon0, lat0);
+    // c > 0: true north points grid-east, so grid north lies west of true north.
+    notes.push(
+      `At the target UTM grid north is ${Math.abs(c).toFixed(4)}° ${c > 0 ? 'west' : 'east'} of true north (meridian convergence) and grid metres are ${scale.toFixed(6)} × ground metres (point scale): local metres are grid metres.`,
+    );
+  } else if (frame) {
+    notes.push(
+      `The DEM's flat frame is equirectangular about ${frame.originLatitude_deg.toFixed(6)}°, ${frame.originLongitude_deg.toFixed(6)}° on a sphere of radius ${frame.bodyRadius_m} m; its east scale is off by up to ${(100 * frame.maxEastScaleError).toPrecision(2)} % over the DEM.`,
+    );
+  }
+  const studyBody = body.toLowerCase();
+  if (ref.wgs84 && studyBody !== 'custom' && studyBody !== 'earth') {
+    notes.push(`The DEM is in an Earth CRS (WGS 84) but the study's body is ${body}: the coordinates are the DEM's own.`);
+  }
+  return {
+    toLonLat,
+    wgs84: ref.wgs84,
+    datum: ref.datum,
+    body: ref.wgs84 ? 'earth' : body,
+    note: notes.join(' '),
+  };
+}

@@ -1,0 +1,122 @@
+/**
+ * Terrain frame → longitude/latitude (core/terrain/georeference.ts, transverse-mercator.ts). Outside
+ * sources: the GDAL geotransform convention (pixel-centre coordinates), Snyder's worked example of the
+ * ellipsoidal transverse Mercator, and the UTM zone definition. GDAL itself is the reference in
+ * test/reference/terrain/gdal-georeference.test.ts.
+ */
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import {
+  TerrainInputError, cellEast, cellNorth, geographicToLocal, localToGeographic, readGeoTiff, terrainLonLat,
+  transverseMercatorForward, transverseMercatorInverse, utmProjection, writeGeoTiff, type GridGeoreference,
+} from '../../../core/terrain/index.ts';
+
+describe('geographic DEM frame', () => {
+  it('localToGeographic is the inverse of geographicToLocal (property)', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: -80, max: 80, noNaN: true }),
+        fc.double({ min: -179, max: 179, noNaN: true }),
+        fc.double({ min: 1e5, max: 7e6, noNaN: true }),
+        fc.double({ min: -0.5, max: 0.5, noNaN: true }),
+        fc.double({ min: -0.5, max: 0.5, noNaN: true }),
+        (lat0, lon0, R, dLon, dLat) => {
+          const frame = { originLatitude_deg: lat0, originLongitude_deg: lon0, bodyRadius_m: R };
+          const [e, n] = geographicToLocal(frame, lon0 + dLon, lat0 + dLat);
+          const [lon, lat] = localToGeographic(frame, e, n);
+          expect(Math.abs(lon - (lon0 + dLon))).toBeLessThan(1e-9);
+          expect(Math.abs(lat - (lat0 + dLat))).toBeLessThan(1e-9);
+        },
+      ),
+    );
+  });
+
+  it('EPSG:4326 file from our writer: pixel centres come back at the geotransform\'s longitude/latitude', async () => {
+    // GDAL geotransform convention: pixel (c, r) centre at (x0 + (c + ½)dx, y0 − (r + ½)dy).
+    const W = 12, H = 9, x0 = 7.25, y0 = 45.1, dx = 0.0004, dy = 0.0003;
+    const tif = writeGeoTiff({ width: W, height: H, data: new Float32Array(W * H).fill(10), georeference: { geoTransform: [x0, dx, 0, y0, 0, -dy], geographicEpsg: 4326 } });
+    const grid = await readGeoTiff(tif);
+    const ref = terrainLonLat(grid.georeference)!;
+    expect(ref.wgs84).toBe(true);
+    expect(ref.sourceCrs).toBe('EPSG:4326');
+    for (const [c, r] of [[0, 0], [W - 1, 0], [0, H - 1], [W - 1, H - 1], [5, 4]]) {
+      const [lon, lat] = ref.toLonLat(cellEast(grid, c), cellNorth(grid, r));
+      expect(lon).toBeCloseTo(x0 + (c + 0.5) * dx, 10);
+      expect(lat).toBeCloseTo(y0 - (r + 0.5) * dy, 10);
+    }
+  });
+});
+
+describe('transverse Mercator', () => {
+  it('matches Snyder\'s ellipsoidal worked example (Clarke 1866, φ 40°30′ N, λ 73°30′ W, λ0 75° W, k0 0.9996)', () => {
+    // Snyder (1987), Map Projections — A Working Manual, USGS Prof. Paper 1395, numerical example for the
+    // ellipsoidal transverse Mercator: x = 127 106.5 m, y = 4 484 124.4 m (values quoted from memory).
+    const p = { ellipsoid: { a: 6378206.4, f: 1 / 294.9786982 }, centralMeridian_deg: -75, scaleFactor: 0.9996, falseEasting_m: 0, falseNorthing_m: 0 };
+    const [x, y] = transverseMercatorForward(p, -73.5, 40.5);
+    expect(x).toBeCloseTo(127106.5, 0);
+    expect(y).toBeCloseTo(4484124.4, 0);
+    const [lon, lat] = transverseMercatorInverse(p, x, y);
+    // Third-order series both ways: each truncated at O(n⁴)·a ≈ 0.05 mm ≈ 5e-10°.
+    expect(Math.abs(lon + 73.5)).toBeLessThan(1e-9);
+    expect(Math.abs(lat - 40.5)).toBeLessThan(1e-9);
+  });
+
+  it('inverse undoes forward across a UTM zone, both hemispheres (property, < 1e-9° ≈ 0.1 mm: third-order series)', () => {
+    const zones = [utmProjection(32633)!, utmProjection(32719)!];
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: 1 }), fc.double({ min: -3.5, max: 3.5, noNaN: true }), fc.double({ min: 0, max: 80, noNaN: true }), (z, dLon, absLat) => {
+        const p = zones[z];
+        const lat = p.hemisphere === 'north' ? absLat : -absLat;
+        const [E, N] = transverseMercatorForward(p, p.centralMeridian_deg + dLon, lat);
+        const [lon, back] = transverseMercatorInverse(p, E, N);
+        expect(Math.abs(lon - (p.centralMeridian_deg + dLon))).toBeLessThan(1e-9);
+        expect(Math.abs(back - lat)).toBeLessThan(1e-9);
+      }),
+    );
+  });
+
+  it('UTM zones: EPSG 326zz / 327zz only (32661 is polar stereographic, not UTM)', () => {
+    // UTM definition (NIMA TM8358.2): zone z central meridian 6z − 183°, k0 0.9996, E0 500 km, N0 0 / 10 000 km.
+    expect(utmProjection(32633)).toMatchObject({ zone: 33, centralMeridian_deg: 15, hemisphere: 'north', falseNorthing_m: 0, scaleFactor: 0.9996, falseEasting_m: 500000 });
+    expect(utmProjection(32701)).toMatchObject({ zone: 1, centralMeridian_deg: -177, hemisphere: 'south', falseNorthing_m: 10000000 });
+    expect(utmProjection(32760)?.centralMeridian_deg).toBe(177);
+    for (const code of [32600, 32661, 32700, 32761, 4326, 2227, 3857]) expect(utmProjection(code)).toBeNull();
+    // On the central meridian at the equator: E = 500 000 m, N = 0 (north) / 10 000 000 m (south).
+    expect(transverseMercatorForward(utmProjection(32633)!, 15, 0)).toEqual([500000, 0]);
+    expect(transverseMercatorForward(utmProjection(32733)!, 15, 0)).toEqual([500000, 10000000]);
+  });
+});
+
+describe('terrainLonLat', () => {
+  const geoTransform = [0, 1, 0, 0, 0, -1] as const;
+
+  it('null without a georeference; UTM on WGS 84 converts; the datum is named', () => {
+    expect(terrainLonLat(undefined)).toBeNull();
+    expect(terrainLonLat({ model: 'none', geoTransform })).toBeNull();
+    const utm = terrainLonLat({ model: 'projected', geoTransform, projectedEpsg: 32633 })!;
+    expect(utm.wgs84).toBe(true);
+    expect(utm.datum).toMatch(/WGS 84.*UTM zone 33N \(EPSG:32633\)/);
+    const [lon, lat] = utm.toLonLat(500000, 0);
+    expect(lon).toBeCloseTo(15, 12);
+    expect(lat).toBeCloseTo(0, 12);
+  });
+
+  it('a sphere without an EPSG code: its own longitude/latitude, said not to be WGS 84', () => {
+    const g: GridGeoreference = { model: 'geographic', geoTransform, localFrame: { originLatitude_deg: 18, originLongitude_deg: 200, bodyRadius_m: 3396190, maxEastScaleError: 0 } };
+    const ref = terrainLonLat(g)!;
+    expect(ref.wgs84).toBe(false);
+    expect(ref.datum).toMatch(/sphere of radius 3396190 m \(not WGS 84\)/);
+    expect(ref.toLonLat(0, 0)).toEqual([200, 18]);
+    // One degree of latitude on that sphere is R·π/180 metres.
+    expect(ref.toLonLat(0, (3396190 * Math.PI) / 180)[1]).toBeCloseTo(19, 12);
+  });
+
+  it.each([
+    [{ model: 'projected', geoTransform, projectedEpsg: 2227 }, /projected CRS EPSG:2227 cannot be converted.*UTM zones on WGS 84.*gdalwarp -t_srs EPSG:4326/],
+    [{ model: 'projected', geoTransform }, /projected CRS without an EPSG code cannot be converted/],
+    [{ model: 'geographic', geoTransform, geographicEpsg: 4269, localFrame: { originLatitude_deg: 0, originLongitude_deg: 0, bodyRadius_m: 6378137, maxEastScaleError: 0 } }, /geographic CRS EPSG:4269 is not WGS 84.*gdalwarp -t_srs EPSG:4326/],
+  ] as [GridGeoreference, RegExp][])('refuses %o with an error naming the CRS and the fix', (g, message) => {
+    expect(() => terrainLonLat(g, 'dem.tif')).toThrow(TerrainInputError);
+    expect(() => terrainLonLat(g, 'dem.tif')).toThrow(message);
+  });
+});
