@@ -10,3 +10,6 @@ export const footprintWorkerFactory: WorkerFactory = () =>
 
 export const trajectoryWorkerFactory: WorkerFactory = () =>
   adaptWebWorker(new Worker(new URL('../workers/trajectory.worker.ts', import.meta.url), { type: 'module' }));
+
+export const studyWorkerFactory: WorkerFactory = () =>
+  adaptWebWorker(new Worker(new URL('../workers/study.worker.ts', import.meta.url), { type: 'module' }));

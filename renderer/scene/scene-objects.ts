@@ -24,6 +24,9 @@ export interface LandingEllipse {
   semiMinor_m: number;
   /** Major-axis direction, degrees clockwise from north. */
   azimuth_deg: number;
+  /** Centre, m east and north of the nominal target (default 0, 0). */
+  centreEast_m?: number;
+  centreNorth_m?: number;
 }
 
 export interface IgnitionMarker {
@@ -96,8 +99,8 @@ export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, in
   });
 
   if (inputs.ellipse) {
-    const { semiMajor_m, semiMinor_m, azimuth_deg } = inputs.ellipse;
-    const ellipse = new Line(lineGeometry(ellipsePositions(0, 0, semiMajor_m, semiMinor_m, azimuth_deg, 96, ground)), new LineBasicMaterial({ color: 0xffffff }));
+    const { semiMajor_m, semiMinor_m, azimuth_deg, centreEast_m = 0, centreNorth_m = 0 } = inputs.ellipse;
+    const ellipse = new Line(lineGeometry(ellipsePositions(centreEast_m, centreNorth_m, semiMajor_m, semiMinor_m, azimuth_deg, 96, ground)), new LineBasicMaterial({ color: 0xffffff }));
     ellipse.name = 'landing-ellipse';
     objects.push(ellipse);
   }

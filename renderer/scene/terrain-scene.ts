@@ -211,6 +211,11 @@ export class TerrainScene {
     this.requestRender();
   }
 
+  /** Names of the marker objects in the scene (ignition, trajectories, picks, landing ellipse), for the browser tests. */
+  markerNames(): string[] {
+    return this.markers.map((m) => m.name);
+  }
+
   setView(preset: ViewPreset): void {
     const bounds = this.bounds();
     if (!bounds) return;

@@ -102,9 +102,9 @@ export function formatDuration(seconds: number): string {
   return `${Math.floor(s / 3600)} h ${String(Math.floor((s % 3600) / 60)).padStart(2, '0')} min`;
 }
 
-/** One line for the status bar, e.g. "1,200 / 4,000 targets · 85.0 /s · about 33 s left". */
-export function describeRun(p: RunSnapshot): string {
-  const count = `${p.done.toLocaleString('en')} / ${p.total.toLocaleString('en')} targets`;
+/** One line for the status bar, e.g. "1,200 / 4,000 targets · 85.0 /s · about 33 s left"; `unit` names what is counted. */
+export function describeRun(p: RunSnapshot, unit = 'targets'): string {
+  const count = `${p.done.toLocaleString('en')} / ${p.total.toLocaleString('en')} ${unit}`;
   switch (p.status) {
     case 'idle':
       return 'No computation yet';

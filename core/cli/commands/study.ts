@@ -11,16 +11,23 @@ import { readStudy, writeFilesAtomically } from '../files.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { FOOTPRINT_NODES } from '../../footprint/studyFootprint.ts';
 import { makeTargetGrid, parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
-import { ignitionAtAltitude, minimumAltitude, reserveStudy, type AltitudeStudyRow, type IgnitionRule } from '../../footprint/studies.ts';
-import { guaranteedDivertRadius, propellantRegions, regionBounds, ringArea } from '../../footprint/contours.ts';
-import { reachBoundary } from '../../descent/reach.ts';
-import { TARGET } from '../../footprint/field.ts';
-import { studyToDescent, type Study } from '../../study/index.ts';
-import { dispersionStudy, probabilityOfReach, sampleDispersions, type DispersionSigmas } from '../../footprint/dispersion.ts';
-import { DescentSolver } from '../../descent/solver.ts';
-import { searchFreeFinalTime } from '../../descent/search.ts';
-import { landreachConicBackend } from '../../descent/conicBackend.ts';
-import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
+import { minimumAltitude, reserveStudy, type AltitudeStudyRow, type IgnitionRule } from '../../footprint/studies.ts';
+import type { Study } from '../../study/index.ts';
+import { probabilityOfReach, type DispersionSigmas } from '../../footprint/dispersion.ts';
+import {
+  altitudeRowByDirections,
+  altitudeRowFromField,
+  defaultAltitudes,
+  defaultReserves,
+  DEFAULT_DIRECTIONS,
+  DEFAULT_DISPERSION,
+  DEFAULT_SIGMAS,
+  dispersionFromStudy,
+  reachSampleStudies,
+  studyAtAltitude,
+} from '../../footprint/studyRuns.ts';
+import { CAUTION, inputsHash } from '../../study/provenance.ts';
+import { altitudeStudyCsvLines, DISPERSION_MODEL, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReport } from '../../study/studyExport.ts';
 
 const USAGE = `Usage: landreach study reserve|ignition-altitude|dispersion STUDY.json --out DIR [options]
 
@@ -133,8 +140,6 @@ function parse(args: string[]): Common {
   return o;
 }
 
-const csvNum = (v: number, d: number) => (Number.isFinite(v) ? Number(v.toFixed(d)).toString() : '');
-
 function grid(o: Common): TargetGrid {
   return makeTargetGrid({ halfWidthEast_m: o.extent, halfWidthNorth_m: o.extent, nx: o.grid[0], ny: o.grid[1] });
 }
@@ -143,18 +148,16 @@ async function runReserve(o: Common, study: Study, io: CliIo) {
   const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
   const reserves = o.values.reserves
     ? LIST('--reserves', o.values.reserves)
-    : Array.from({ length: 9 }, (_, k) => Number(((k * usable) / 16).toFixed(1)));
+    : defaultReserves(usable);
   for (const r of reserves) if (r >= usable) throw new UsageError(`--reserves: ${r} kg is not below the usable propellant, ${usable} kg`);
   const run = await runStudyFootprint(study, grid(o), { nodes: o.nodes, workers: o.workers }, io);
   const rows = reserveStudy(run.field, usable, reserves);
-  const csv = [`# ${CAUTION}`, 'reserve_kg,budget_kg,reachable_area_m2,guaranteed_divert_radius_m,limited_by_grid'];
-  for (const r of rows) csv.push([r.reserve_kg, csvNum(r.budget_kg, 3), Math.round(r.area_m2), csvNum(r.divertRadius_m, 1), r.limitedByGrid ? 1 : 0].join(','));
-  return { rows, csv, cancelled: run.cancelled, extra: { usablePropellant_kg: usable } };
+  return { rows, csv: reserveStudyCsvLines(rows), cancelled: run.cancelled, extra: { usablePropellant_kg: usable } };
 }
 
 async function runAltitude(o: Common, study: Study, io: CliIo) {
   const h0 = study.ignition.position_m[2];
-  const altitudes = o.values.altitudes ? LIST('--altitudes', o.values.altitudes) : [0.6, 0.8, 1, 1.2, 1.4].map((f) => Math.round(f * h0));
+  const altitudes = o.values.altitudes ? LIST('--altitudes', o.values.altitudes) : defaultAltitudes(h0);
   const ruleName = o.values.rule ?? 'fixed-velocity';
   if (ruleName !== 'fixed-velocity' && ruleName !== 'fixed-flight-path-angle') {
     throw new UsageError(`--rule ${ruleName}: choose fixed-velocity or fixed-flight-path-angle`);
@@ -167,70 +170,31 @@ async function runAltitude(o: Common, study: Study, io: CliIo) {
   if (required !== null && !(required > 0)) throw new UsageError(`--required-radius-m ${o.values['required-radius-m']}: must be a positive distance in metres`);
   const method = o.values.method ?? 'directions';
   if (method !== 'directions' && method !== 'grid') throw new UsageError(`--method ${method}: choose directions or grid`);
-  const directions = o.values.directions === undefined ? 24 : Number(o.values.directions);
+  const directions = o.values.directions === undefined ? DEFAULT_DIRECTIONS : Number(o.values.directions);
   if (!Number.isInteger(directions) || directions < 3 || directions > 720) {
     throw new UsageError(`--directions ${o.values.directions}: must be a whole number from 3 to 720`);
   }
   const rows: AltitudeStudyRow[] = [];
   let cancelled = false;
   for (const h of altitudes) {
-    let state;
+    let at: Study;
     try {
-      state = ignitionAtAltitude(study.ignition.position_m, study.ignition.velocity_mps, h, rule);
+      at = studyAtAltitude(study, h, rule);
     } catch (err) {
       throw new UsageError(`--altitudes ${h}: ${(err as Error).message}`);
     }
-    const at: Study = { ...study, ignition: { ...study.ignition, position_m: [...state.position], velocity_mps: [...state.velocity] } };
-    io.stderr(`ignition altitude ${h} m (${ruleName}): position [${state.position.map((v) => v.toFixed(0)).join(', ')}] m\n`);
+    io.stderr(`ignition altitude ${h} m (${ruleName}): position [${at.ignition.position_m.map((v) => v.toFixed(0)).join(', ')}] m\n`);
     if (method === 'directions') {
-      rows.push(directionRow(at, h, usable - reserve, directions, o.nodes));
+      rows.push(altitudeRowByDirections(at, h, usable - reserve, directions, o.nodes));
       continue;
     }
     const run = await runStudyFootprint(at, grid(o), { nodes: o.nodes, workers: o.workers }, io);
     cancelled ||= run.cancelled;
-    const [region] = propellantRegions(run.field, [usable - reserve]);
-    const radius = guaranteedDivertRadius(region.geometry, 0, 0, regionBounds(run.field));
-    const f = run.field;
-    let nearest = 0;
-    for (let k = 1; k < f.nx * f.ny; k++) {
-      const d = (e: number) => Math.hypot(f.east[e % f.nx], f.north[Math.floor(e / f.nx)]);
-      if (d(k) < d(nearest)) nearest = k;
-    }
-    rows.push({
-      altitude_m: h,
-      divertRadius_m: radius.radius_m,
-      limitedByGrid: radius.limitedByGrid,
-      nominalPropellant_kg: f.status[nearest] === TARGET.reachable ? f.propellant_kg[nearest] : NaN,
-      area_m2: region.area_m2,
-    });
+    rows.push(altitudeRowFromField(run.field, h, usable - reserve));
     if (run.cancelled) break;
   }
   const minimum = required === null ? null : minimumAltitude(rows, required);
-  const csv = [`# ${CAUTION}`, 'ignition_altitude_m,guaranteed_divert_radius_m,limited_by_grid,nominal_propellant_kg,reachable_area_m2'];
-  for (const r of rows) csv.push([r.altitude_m, csvNum(r.divertRadius_m, 1), r.limitedByGrid ? 1 : 0, csvNum(r.nominalPropellant_kg, 3), Math.round(r.area_m2)].join(','));
-  return { rows, csv, cancelled, extra: { method, directions: method === 'directions' ? directions : null, rule: ruleName, reserve_kg: reserve, requiredRadius_m: required, minimumAltitude: minimum } };
-}
-
-/**
- * One altitude by the reach boundary: the guaranteed divert radius is the smallest reach over the
- * directions (an upper bound between directions; more directions tighten it), the area that of the polygon.
- */
-function directionRow(study: Study, altitude_m: number, budget_kg: number, directions: number, nodes: number): AltitudeStudyRow {
-  const d = studyToDescent(study);
-  const setup = { ...d.setup, nodes, vehicle: { ...d.setup.vehicle, dryMass: study.vehicle.dryMass_kg } };
-  const solver = new DescentSolver(setup, landreachConicBackend(), d.ignition);
-  const boundary = reachBoundary(solver, d.ignition, directions, budget_kg, { targetHeight_m: d.target[2] });
-  const reaches = boundary.map((b) => b.result.reach_m);
-  const radius = Math.max(0, Math.min(...reaches));
-  const ring = boundary.map((b) => [Math.max(0, b.result.reach_m) * Math.cos(b.angle_rad), Math.max(0, b.result.reach_m) * Math.sin(b.angle_rad)] as [number, number]);
-  const nominal = searchFreeFinalTime(solver, d.target, d.ignition, { decode: false });
-  return {
-    altitude_m,
-    divertRadius_m: Number.isFinite(radius) ? radius : 0,
-    limitedByGrid: false,
-    nominalPropellant_kg: nominal.status === 'solved' ? nominal.propellant : NaN,
-    area_m2: Math.abs(ringArea(ring)),
-  };
+  return { rows, csv: altitudeStudyCsvLines(rows), cancelled, extra: { method, directions: method === 'directions' ? directions : null, rule: ruleName, reserve_kg: reserve, requiredRadius_m: required, minimumAltitude: minimum } };
 }
 
 async function runDispersion(o: Common, study: Study, io: CliIo) {
@@ -242,60 +206,44 @@ async function runDispersion(o: Common, study: Study, io: CliIo) {
     return v;
   };
   const nonNeg = (v: number) => Number.isFinite(v) && v >= 0;
-  const samples = numberOpt('samples', 1000, (v) => Number.isInteger(v) && v >= 10 && v <= 100000, 'must be a whole number from 10 to 100000');
-  const seed = numberOpt('seed', 1, (v) => Number.isInteger(v) && v >= 0, 'must be a whole number ≥ 0');
-  const probability = numberOpt('probability', 0.997, (v) => v > 0 && v < 1, 'must be between 0 and 1, e.g. 0.997');
+  const samples = numberOpt('samples', DEFAULT_DISPERSION.samples, (v) => Number.isInteger(v) && v >= 10 && v <= 100000, 'must be a whole number from 10 to 100000');
+  const seed = numberOpt('seed', DEFAULT_DISPERSION.seed, (v) => Number.isInteger(v) && v >= 0, 'must be a whole number ≥ 0');
+  const probability = numberOpt('probability', DEFAULT_DISPERSION.probability, (v) => v > 0 && v < 1, 'must be between 0 and 1, e.g. 0.997');
   const sigmas: DispersionSigmas = {
-    position_m: numberOpt('sigma-position-m', 50, nonNeg, 'must be zero or a positive distance in metres'),
-    velocity_mps: numberOpt('sigma-velocity-mps', 2, nonNeg, 'must be zero or a positive speed in m/s'),
-    mass_kg: numberOpt('sigma-mass-kg', 5, nonNeg, 'must be zero or a positive mass in kg'),
-    thrustFraction: numberOpt('sigma-thrust', 0.01, nonNeg, 'must be zero or a positive fraction, e.g. 0.01'),
-    ispFraction: numberOpt('sigma-isp', 0.005, nonNeg, 'must be zero or a positive fraction, e.g. 0.005'),
+    position_m: numberOpt('sigma-position-m', DEFAULT_SIGMAS.position_m, nonNeg, 'must be zero or a positive distance in metres'),
+    velocity_mps: numberOpt('sigma-velocity-mps', DEFAULT_SIGMAS.velocity_mps, nonNeg, 'must be zero or a positive speed in m/s'),
+    mass_kg: numberOpt('sigma-mass-kg', DEFAULT_SIGMAS.mass_kg, nonNeg, 'must be zero or a positive mass in kg'),
+    thrustFraction: numberOpt('sigma-thrust', DEFAULT_SIGMAS.thrustFraction, nonNeg, 'must be zero or a positive fraction, e.g. 0.01'),
+    ispFraction: numberOpt('sigma-isp', DEFAULT_SIGMAS.ispFraction, nonNeg, 'must be zero or a positive fraction, e.g. 0.005'),
   };
-  const d = studyToDescent(study);
-  const setup = { ...d.setup, nodes: o.nodes };
-  const solver = new DescentSolver(setup, landreachConicBackend(), d.ignition);
-  const nominal = searchFreeFinalTime(solver, d.target, d.ignition);
-  if (nominal.status !== 'solved' || !nominal.trajectory) {
-    throw new UsageError(`the nominal target is ${nominal.status} from the study's ignition state: a dispersion study needs a nominal trajectory`);
+  let dispersion;
+  try {
+    dispersion = dispersionFromStudy(study, sigmas, { samples, seed, probability, nodes: o.nodes });
+  } catch (err) {
+    throw new UsageError((err as Error).message);
   }
-  const r = dispersionStudy(setup, d.ignition, nominal.trajectory.series, sigmas, { samples, seed, probability });
-  const csv = [`# ${CAUTION}`, 'sample,landing_east_m,landing_north_m'];
-  for (let i = 0; i < r.samples; i++) csv.push([i, csvNum(r.landingEast_m[i], 2), csvNum(r.landingNorth_m[i], 2)].join(','));
+  const r = dispersion.result;
+  const csv = dispersionCsvLines(r);
   const e = r.ellipse;
   const reachSamples = numberOpt('reach-samples', 0, (v) => Number.isInteger(v) && v >= 0 && v <= 1000, 'must be a whole number from 0 to 1000');
   let reachMap: { csv: string; samples: number; cancelled: boolean } | null = null;
   if (reachSamples > 0) {
-    const draws = sampleDispersions(setup, d.ignition, sigmas, reachSamples, seed + 1);
+    const draws = reachSampleStudies(study, sigmas, reachSamples, seed);
     const fields = [];
     const budgets: number[] = [];
     let cancelled = false;
     for (const [i, s] of draws.entries()) {
       io.stderr(`reach map: sample ${i + 1} of ${reachSamples}\n`);
-      // A heavier sample carries more propellant: its wet mass is its ignition mass.
-      const at: Study = {
-        ...study,
-        ignition: { ...study.ignition, position_m: [...s.ignition.position], velocity_mps: [...s.ignition.velocity], mass_kg: s.ignition.mass },
-        vehicle: {
-          ...study.vehicle,
-          wetMass_kg: Math.max(study.vehicle.wetMass_kg, s.ignition.mass),
-          isp_s: s.isp_s,
-          thrustPerEngine_N: study.vehicle.thrustPerEngine_N * s.thrustScale,
-        },
-      };
-      const run = await runStudyFootprint(at, grid(o), { nodes: o.nodes, workers: o.workers }, io);
+      const run = await runStudyFootprint(s.study, grid(o), { nodes: o.nodes, workers: o.workers }, io);
       fields.push(run.field);
-      budgets.push(s.ignition.mass - study.vehicle.dryMass_kg - study.vehicle.propellantReserve_kg);
+      budgets.push(s.budget_kg);
       if (run.cancelled) {
         cancelled = true;
         break;
       }
     }
     const pr = probabilityOfReach(fields, budgets);
-    const f = fields[0];
-    const lines = [`# ${CAUTION}`, `# fraction of ${fields.length} dispersed samples reaching each target with ${study.vehicle.propellantReserve_kg} kg in reserve`, 'east_m,north_m,probability_of_reach'];
-    for (let j = 0; j < f.ny; j++) for (let i = 0; i < f.nx; i++) lines.push([csvNum(f.east[i], 1), csvNum(f.north[j], 1), csvNum(pr[j * f.nx + i], 4)].join(','));
-    reachMap = { csv: lines.join('\n') + '\n', samples: fields.length, cancelled };
+    reachMap = { csv: reachMapCsv(fields[0], pr, fields.length, study.vehicle.propellantReserve_kg), samples: fields.length, cancelled };
   }
   return {
     rows: [{ ...e }],
@@ -306,9 +254,9 @@ async function runDispersion(o: Common, study: Study, io: CliIo) {
       sigmas,
       samples,
       seed,
-      nominalPropellant_kg: nominal.propellant,
-      nominalTimeOfFlight_s: nominal.timeOfFlight,
-      model: 'nominal optimal thrust flown open loop; landing point at the end of powered descent',
+      nominalPropellant_kg: dispersion.nominalPropellant_kg,
+      nominalTimeOfFlight_s: dispersion.nominalTimeOfFlight_s,
+      model: DISPERSION_MODEL,
       reachMapSamples: reachMap?.samples ?? 0,
     },
     summaryLine: `${(probability * 100).toFixed(1)} % landing ellipse: ${e.semiMajor_m.toFixed(1)} × ${e.semiMinor_m.toFixed(1)} m (semi-axes), major axis ${e.orientation_deg.toFixed(1)}° from east, centre ${e.centreEast_m.toFixed(1)} m east, ${e.centreNorth_m.toFixed(1)} m north`,
@@ -326,23 +274,11 @@ export const studyCommand: CliCommand = {
       o.kind === 'reserve' ? await runReserve(o, study, io) : o.kind === 'ignition-altitude' ? await runAltitude(o, study, io) : await runDispersion(o, study, io);
     mkdirSync(o.out, { recursive: true });
     const inputs = { study, kind: o.kind, grid: o.grid, extent_m: o.extent, nodes: o.nodes, options: o.values };
-    const report = {
-      format: 'landreach-study-result',
-      version: 1,
-      study: o.kind,
-      caution: CAUTION,
-      appVersion: APP_VERSION,
-      createdAt: new Date().toISOString(),
-      inputsHash: await inputsHash(inputs),
-      inputs,
-      cancelled: result.cancelled,
-      ...result.extra,
-      rows: result.rows,
-    };
+    const report = studyReport({ kind: o.kind, inputs, inputsHash: await inputsHash(inputs), cancelled: result.cancelled, extra: result.extra, rows: result.rows });
     const base = join(o.out, `study-${o.kind}`);
     writeFilesAtomically([
       { path: `${base}.csv`, text: result.csv.join('\n') + '\n' },
-      { path: `${base}.json`, text: JSON.stringify(report, null, 1) },
+      { path: `${base}.json`, text: report },
       ...(result.extraFiles ?? []).map((f) => ({ path: `${base}${f.suffix}`, text: f.text })),
     ]);
     if (result.summaryLine) io.stdout(result.summaryLine + '\n');

@@ -94,7 +94,10 @@ describe('study charts', () => {
 
   it('divert radius with the requirement line and the found minimum altitude', () => {
     const config = divertRadiusChart([1000, 1500, 2000], [300, 600, 900], 500, 1333.3);
-    expect(byLabel(config, 'Requirement 500 m').data).toEqual([{ x: 1000, y: 500 }, { x: 2000, y: 500 }]);
+    // The requirement spans the whole x axis (the sampled range plus a 4 % margin each side).
+    const x = config.options!.scales!.x as { min: number; max: number };
+    expect(byLabel(config, 'Requirement 500 m').data).toEqual([{ x: x.min, y: 500 }, { x: x.max, y: 500 }]);
+    expect([x.min, x.max]).toEqual([960, 2040]);
     const marker = byLabel(config, 'Minimum ignition altitude 1333 m');
     expect(marker.data.map((p) => p.x)).toEqual([1333.3, 1333.3]);
     expect(divertRadiusChart([1000], [300], 500, null).data.datasets).toHaveLength(2);

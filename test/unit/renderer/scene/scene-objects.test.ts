@@ -64,6 +64,11 @@ describe('marker objects', () => {
     const names = (e: boolean) => buildMarkerObjects(grid, 1, { ignition: null, trajectories: [], ellipse: e ? { semiMajor_m: 200, semiMinor_m: 80, azimuth_deg: 30 } : null }).map((o) => o.name);
     expect(names(true)).toContain('landing-ellipse');
     expect(names(false)).not.toContain('landing-ellipse');
+    // An off-centre ellipse (a dispersion's mean landing point) is drawn around its centre.
+    const [ellipse] = buildMarkerObjects(grid, 1, { ignition: null, trajectories: [], ellipse: { semiMajor_m: 200, semiMinor_m: 80, azimuth_deg: 90, centreEast_m: 50, centreNorth_m: -30 } }).filter((o) => o.name === 'landing-ellipse');
+    const pos = ((ellipse as unknown as { geometry: { getAttribute(n: string): { array: Float32Array } } }).geometry.getAttribute('position')).array;
+    // Azimuth 90° (clockwise from north) puts the major axis east: the first point is the east tip.
+    expect([pos[0], pos[1]]).toEqual([250, -30]);
   });
 });
 
