@@ -9,7 +9,7 @@ import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { readStudy, writeFilesAtomically } from '../files.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
-import { FOOTPRINT_NODES } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintFigures } from '../../footprint/studyFootprint.ts';
 import { makeTargetGrid, parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
 import { minimumAltitude, reserveStudy, type AltitudeStudyRow, type IgnitionRule } from '../../footprint/studies.ts';
 import type { Study } from '../../study/index.ts';
@@ -26,7 +26,10 @@ import {
   reachSampleStudies,
   studyAtAltitude,
 } from '../../footprint/studyRuns.ts';
-import { CAUTION, inputsHash } from '../../study/provenance.ts';
+import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
+import { footprintSvg } from '../../study/footprintSvg.ts';
+import { sampleColormap, VIRIDIS } from '../../study/colormap.ts';
+import { regionBounds } from '../../footprint/contours.ts';
 import { altitudeStudyCsvLines, DISPERSION_MODEL, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReport } from '../../study/studyExport.ts';
 
 const USAGE = `Usage: landreach study reserve|ignition-altitude|dispersion STUDY.json --out DIR [options]
@@ -62,6 +65,8 @@ dispersion (1σ values; the defaults are illustrative, not from any mission):
   --sigma-mass-kg       (default 5)      --sigma-thrust  fraction (default 0.01)   --sigma-isp  fraction (default 0.005)
   --reach-samples K     also the probability-of-reach map: a footprint (--grid, --extent-m) for each of K
                         dispersed samples; each target's fraction of samples reaching it with the reserve kept
+                        The study also writes study-dispersion.svg: the nominal footprint (--grid, --extent-m)
+                        with its reserve boundary and the landing ellipse, a map for reports.
 
 ${CAUTION}`;
 
@@ -197,7 +202,7 @@ async function runAltitude(o: Common, study: Study, io: CliIo) {
   return { rows, csv: altitudeStudyCsvLines(rows), cancelled, extra: { method, directions: method === 'directions' ? directions : null, rule: ruleName, reserve_kg: reserve, requiredRadius_m: required, minimumAltitude: minimum } };
 }
 
-async function runDispersion(o: Common, study: Study, io: CliIo) {
+async function runDispersion(o: Common, study: Study, io: CliIo, hash: string) {
   const numberOpt = (name: string, fallback: number, check: (v: number) => boolean, fix: string) => {
     const t = o.values[name];
     if (t === undefined) return fallback;
@@ -245,11 +250,32 @@ async function runDispersion(o: Common, study: Study, io: CliIo) {
     const pr = probabilityOfReach(fields, budgets);
     reachMap = { csv: reachMapCsv(fields[0], pr, fields.length, study.vehicle.propellantReserve_kg), samples: fields.length, cancelled };
   }
+  // The map for a report: the nominal footprint on --grid / --extent-m with its reserve boundary, and the
+  // landing ellipse over it.
+  io.stderr('map: the nominal footprint\n');
+  const nominal = await runStudyFootprint(study, grid(o), { nodes: o.nodes, workers: o.workers }, io);
+  const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
+  const reserve = study.vehicle.propellantReserve_kg;
+  const fig = footprintFigures(nominal.field, { usable_kg: usable, reserve_kg: reserve }, { elapsed_s: nominal.progress.elapsed_s, cancelled: nominal.cancelled });
+  const map = footprintSvg({
+    title: `Landing ellipse and divert footprint — ${study.name}`,
+    bounds_m: regionBounds(nominal.field),
+    bands: fig.bands,
+    reachable: fig.reachable,
+    budget_kg: usable - reserve,
+    colormap: (t) => sampleColormap(VIRIDIS, t) as unknown as [number, number, number],
+    divertRadius_m: fig.divert.radius_m,
+    ellipse: e,
+    caption: [
+      `${study.name} — ${(probability * 100).toFixed(1)} % ellipse of ${samples} dispersed samples (seed ${seed}); footprint ${o.grid[0]} × ${o.grid[1]}, N = ${o.nodes}, reserve ${reserve} kg${nominal.cancelled ? ' — STOPPED EARLY: partial footprint' : ''}`,
+      `Landreach ${APP_VERSION}, ${new Date().toISOString()}, inputs ${hash.slice(0, 16)}`,
+    ],
+  });
   return {
     rows: [{ ...e }],
     csv,
-    cancelled: reachMap?.cancelled ?? false,
-    extraFiles: reachMap ? [{ suffix: '-reach.csv', text: reachMap.csv }] : [],
+    cancelled: (reachMap?.cancelled ?? false) || nominal.cancelled,
+    extraFiles: [...(reachMap ? [{ suffix: '-reach.csv', text: reachMap.csv }] : []), { suffix: '.svg', text: map }],
     extra: {
       sigmas,
       samples,
@@ -270,11 +296,12 @@ export const studyCommand: CliCommand = {
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parse(args);
     const study = readStudy(o.study);
-    const result: { rows: unknown[]; csv: string[]; cancelled: boolean; extra: Record<string, unknown>; summaryLine?: string; extraFiles?: { suffix: string; text: string }[] } =
-      o.kind === 'reserve' ? await runReserve(o, study, io) : o.kind === 'ignition-altitude' ? await runAltitude(o, study, io) : await runDispersion(o, study, io);
-    mkdirSync(o.out, { recursive: true });
     const inputs = { study, kind: o.kind, grid: o.grid, extent_m: o.extent, nodes: o.nodes, options: o.values };
-    const report = studyReport({ kind: o.kind, inputs, inputsHash: await inputsHash(inputs), cancelled: result.cancelled, extra: result.extra, rows: result.rows });
+    const hash = await inputsHash(inputs);
+    const result: { rows: unknown[]; csv: string[]; cancelled: boolean; extra: Record<string, unknown>; summaryLine?: string; extraFiles?: { suffix: string; text: string }[] } =
+      o.kind === 'reserve' ? await runReserve(o, study, io) : o.kind === 'ignition-altitude' ? await runAltitude(o, study, io) : await runDispersion(o, study, io, hash);
+    mkdirSync(o.out, { recursive: true });
+    const report = studyReport({ kind: o.kind, inputs, inputsHash: hash, cancelled: result.cancelled, extra: result.extra, rows: result.rows });
     const base = join(o.out, `study-${o.kind}`);
     writeFilesAtomically([
       { path: `${base}.csv`, text: result.csv.join('\n') + '\n' },

@@ -56,12 +56,20 @@ describe('landreach study', () => {
 
   it('dispersion: writes the landing points and the ellipse; bad sigmas are named', async () => {
     const h = io();
-    const code = await main(['study', 'dispersion', DEMO, '--out', dir, '--samples', '100', '--seed', '5', '--sigma-thrust', '0'], h.io);
+    const code = await main(['study', 'dispersion', DEMO, '--out', dir, '--samples', '100', '--seed', '5', '--sigma-thrust', '0', '--grid', '7x7', '--workers', '2'], h.io);
     expect(code, h.err.join('')).toBe(0);
     const report = JSON.parse(readFileSync(join(dir, 'study-dispersion.json'), 'utf8'));
     expect(report.rows[0].probability).toBe(0.997);
     expect(report.rows[0].semiMajor_m).toBeGreaterThanOrEqual(report.rows[0].semiMinor_m);
     expect(readFileSync(join(dir, 'study-dispersion.csv'), 'utf8').trim().split('\n')).toHaveLength(102);
+    // The report map: footprint bands, the reserve boundary and the ellipse with its axes' ratio.
+    const svg = readFileSync(join(dir, 'study-dispersion.svg'), 'utf8');
+    expect(svg).toContain('99.7 % ellipse');
+    expect(svg).toContain('Caution: Preliminary design');
+    expect(svg).toContain(report.inputsHash.slice(0, 16));
+    const el = /<ellipse cx="[\d.-]+" cy="[\d.-]+" rx="([\d.]+)" ry="([\d.]+)"/.exec(svg)!;
+    const ratio = Number(el[1]) / Number(el[2]);
+    expect(Math.abs(ratio / (report.rows[0].semiMajor_m / report.rows[0].semiMinor_m) - 1)).toBeLessThan(0.02);
     const g = io();
     expect(await main(['study', 'dispersion', DEMO, '--out', dir, '--sigma-mass-kg', '-3'], g.io)).toBe(2);
     expect(g.err.join('')).toMatch(/--sigma-mass-kg -3: must be zero or a positive mass in kg/);
