@@ -41,5 +41,21 @@ export function trajectoryFigureList(t: PickedTrajectory, budget_kg: number): Fi
     { label: 'Target', value: at },
     { label: 'Propellant', value: `${fixed(t.propellant_kg, 2)} kg`, note: t.propellant_kg <= budget_kg ? `within the ${fixed(budget_kg, 1)} kg budget` : `ABOVE the ${fixed(budget_kg, 1)} kg budget` },
     { label: 'Time of flight t_f', value: `${fixed(t.timeOfFlight_s, 2)} s`, note: `N = ${t.nodes}` },
+    ...baselineFigure(t),
   ];
+}
+
+/** The polynomial-guidance baseline to the same target: what optimal guidance saves over it. */
+function baselineFigure(t: PickedTrajectory): Figure[] {
+  const b = t.baseline;
+  if (!b || !Number.isFinite(b.propellant_kg)) return [];
+  const extra = b.propellant_kg - t.propellant_kg;
+  const onTarget = b.miss_m <= 1;
+  return [{
+    label: 'Polynomial guidance',
+    value: `${fixed(b.propellant_kg, 2)} kg`,
+    note: onTarget
+      ? `${extra >= 0 ? '+' : ''}${fixed(extra, 2)} kg (${extra >= 0 ? '+' : ''}${fixed((100 * extra) / t.propellant_kg, 1)} %) over the optimum, t_f ${fixed(b.timeOfFlight_s, 1)} s`
+      : `misses the target by ${fixed(b.miss_m, 0)} m`,
+  }];
 }

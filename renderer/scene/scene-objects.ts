@@ -3,7 +3,7 @@
  * drop line, trajectories (path + thrust vectors) and the landing ellipse. Built from plain data by
  * the pure geometry builders; no renderer needed, so this is unit-tested in Node.
  */
-import { BufferAttribute, BufferGeometry, Color, Line, LineBasicMaterial, LineSegments, Mesh, MeshLambertMaterial, SphereGeometry, type Object3D } from 'three';
+import { BufferAttribute, BufferGeometry, Color, Line, LineBasicMaterial, LineDashedMaterial, LineSegments, Mesh, MeshLambertMaterial, SphereGeometry, type Object3D } from 'three';
 import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
 import { formatAxisTick, niceTicks } from './view.ts';
 import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from './markers.ts';
@@ -16,6 +16,8 @@ export interface SceneTrajectory {
   thrustMax_N: number;
   /** CSS colour; defaults cycle through the colour-blind-safe series palette. */
   color?: string;
+  /** A baseline flight path to the same target (east, north, up per sample, flattened), drawn dashed. */
+  baseline?: { position_m: ArrayLike<number> };
 }
 
 /** Landing dispersion ellipse around the nominal target. */
@@ -87,6 +89,12 @@ export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, in
     const arrows = new LineSegments(vectors, new LineBasicMaterial({ color, transparent: true, opacity: 0.75 }));
     arrows.name = `thrust-vectors-${k}`;
     objects.push(line, arrows);
+    if (t.baseline && t.baseline.position_m.length >= 6) {
+      const dashed = new Line(baselinePathGeometry(t.baseline.position_m, base, ex), new LineDashedMaterial({ color, dashSize: span / 120, gapSize: span / 160 }));
+      dashed.computeLineDistances();
+      dashed.name = `baseline-${k}`;
+      objects.push(dashed);
+    }
   });
 
   (inputs.picks ?? []).forEach((p, k) => {
@@ -105,6 +113,18 @@ export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, in
     objects.push(ellipse);
   }
   return objects;
+}
+
+/** Scene positions of a baseline path (same frame and exaggeration as the trajectories). */
+export function baselinePathGeometry(position_m: ArrayLike<number>, baseHeight_m: number, exaggeration: number): BufferGeometry {
+  const n = Math.floor(position_m.length / 3);
+  const out = new Float32Array(3 * n);
+  for (let i = 0; i < n; i++) {
+    out[3 * i] = position_m[3 * i];
+    out[3 * i + 1] = position_m[3 * i + 1];
+    out[3 * i + 2] = (baseHeight_m + position_m[3 * i + 2]) * exaggeration;
+  }
+  return lineGeometry(out);
 }
 
 export interface AxisLabel {

@@ -194,6 +194,16 @@ describe('footprint in Chromium (demo study, small grids)', () => {
     expect(propellant).toBeGreaterThanOrEqual(Number(range[1]));
     expect(propellant).toBeLessThanOrEqual(Number(range[2]));
     expect(text).toMatch(/Time of flight t_f\s*[\d.]+ s/);
+    // The polynomial-guidance baseline to the same target costs more than the optimum (which is a lower
+    // bound on any trajectory landing there); shown dashed in the scene on request.
+    const baseline = /Polynomial guidance\s*([\d.]+) kg\+([\d.]+) kg/.exec(text)!;
+    expect(Number(baseline[1])).toBeGreaterThan(propellant);
+    expect(Number(baseline[2])).toBeCloseTo(Number(baseline[1]) - propellant, 1);
+    const markers = () => page.evaluate(() => (document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { markerNames(): string[] } }).landreachScene.markerNames());
+    expect(await markers()).not.toContain('baseline-0');
+    await page.getByTestId('show-baseline').check();
+    await page.waitForFunction(() => (document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { markerNames(): string[] } }).landreachScene.markerNames().includes('baseline-0'));
+    expect(await markers()).toContain('trajectory-0');
     await page.getByTestId('chart-tab-throttle').click();
     // data-series lists "label:points" per dataset of the chart's configuration.
     const series = ((await page.locator('[data-testid="trajectory-plot"] canvas').getAttribute('data-series')) ?? '').split('|');

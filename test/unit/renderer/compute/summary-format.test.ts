@@ -44,6 +44,14 @@ describe('result figures carry their units', () => {
     ]);
   });
 
+  it('trajectory with a baseline: its propellant and what the optimum saves over it', () => {
+    const baseline = { method: 'polynomial guidance' as const, propellant_kg: 240.5, timeOfFlight_s: 40.04, miss_m: 0.4, velocityError_mps: 0.1, saturatedFraction: 0, time_s: new Float64Array(2), position_m: new Float64Array(6) };
+    const list = trajectoryFigureList({ ...picked, baseline }, 480);
+    expect(list[3]).toEqual({ label: 'Polynomial guidance', value: '240.50 kg', note: '+21.81 kg (+10.0 %) over the optimum, t_f 40.0 s' });
+    const missing = trajectoryFigureList({ ...picked, baseline: { ...baseline, miss_m: 35.2 } }, 480);
+    expect(missing[3].note).toBe('misses the target by 35 m');
+  });
+
   it('unreachable trajectory says so with the closest-approach miss', () => {
     const list = trajectoryFigureList({ ...picked, status: 'unreachable', miss_m: 812.4 }, 480);
     expect(list[1]).toEqual({ label: 'Status', value: 'unreachable', note: 'closest landing 812 m away' });

@@ -44,6 +44,20 @@ describe('marker objects', () => {
     expect(objects.filter((o) => o.name.startsWith('thrust-vectors-'))).toHaveLength(2);
   });
 
+  it('draws a baseline dashed in its trajectory colour, in the same frame and exaggeration, only when given', () => {
+    const baseline = { position_m: Float64Array.from([-300, 0, 400, -100, 0, 150, 0, 0, 0]) };
+    const objects = buildMarkerObjects(grid, 2, { ignition: null, trajectories: [{ samples: straightDescent(6), thrustMax_N: 2000 }, { samples: straightDescent(6), thrustMax_N: 2000, baseline }], ellipse: null });
+    expect(objects.map((o) => o.name).filter((n) => n.startsWith('baseline-'))).toEqual(['baseline-1']);
+    const dashed = objects.find((o) => o.name === 'baseline-1') as Line;
+    expect((dashed.material as LineBasicMaterial).type).toBe('LineDashedMaterial');
+    expect(((dashed.material as LineBasicMaterial).color as Color).getHexString()).toBe(new Color(TRAJECTORY_COLOURS[1]).getHexString());
+    const p = dashed.geometry.getAttribute('position');
+    expect(p.count).toBe(3);
+    expect([p.getX(0), p.getY(0), p.getZ(0)]).toEqual([-300, 0, 2 * (50 + 400)]);
+    expect(p.getZ(2)).toBeCloseTo(2 * 50, 5); // ends at the target's ground, exaggerated
+    expect(dashed.geometry.getAttribute('lineDistance')).toBeDefined();
+  });
+
   it('draws each picked target as two rings in its trajectory colour, centred on the pick', () => {
     const objects = buildMarkerObjects(grid, 1, { ignition: null, trajectories: [], ellipse: null, picks: [{ east_m: 100, north_m: -200 }, { east_m: 0, north_m: 0 }] });
     const rings = objects.filter((o) => o.name.startsWith('pick-')) as Line[];
