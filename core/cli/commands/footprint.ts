@@ -227,10 +227,12 @@ export const footprintCommand: CliCommand = {
     }, io);
     if (io.interactive) io.stderr('\n');
     const field = run.field;
+    // Ctrl-C during the boundary refinement also makes the result partial.
+    const cancelled = run.cancelled || (run.refinement?.cancelled ?? false);
     const { summary, levels_kg: levels, bands, reachable, divert: radius } = footprintFigures(
       field,
       { usable_kg: usable, reserve_kg: reserve },
-      { elapsed_s: run.progress.elapsed_s, cancelled: run.cancelled },
+      { elapsed_s: run.progress.elapsed_s, cancelled },
       o.levels ?? undefined,
       run.refinement,
     );
@@ -238,7 +240,7 @@ export const footprintCommand: CliCommand = {
     const solves = summary.solves;
     const createdAt = new Date().toISOString();
     const caption = [
-      `${study.name} — ${o.nx} × ${o.ny} targets, N = ${o.nodes}, reserve ${reserve} kg${run.cancelled ? ' — STOPPED EARLY: partial result' : ''}`,
+      `${study.name} — ${o.nx} × ${o.ny} targets, N = ${o.nodes}, reserve ${reserve} kg${cancelled ? ' — STOPPED EARLY: partial result' : ''}`,
       `Landreach ${APP_VERSION}, ${createdAt}, inputs ${hash.slice(0, 16)}`,
     ];
     const files = [
@@ -262,7 +264,7 @@ export const footprintCommand: CliCommand = {
     writeFilesAtomically(files);
     io.stdout(
       [
-        `status:      ${run.cancelled ? 'stopped early (partial result written)' : 'complete'}`,
+        `status:      ${cancelled ? 'stopped early (partial result written)' : 'complete'}`,
         `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
           (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : ''),
         `budget:      ${budget.toFixed(1)} kg (usable ${usable} kg − reserve ${reserve} kg)`,
