@@ -10,8 +10,16 @@ import { JobPool } from '../../core/parallel/pool.ts';
 import type { WorkerFactory } from '../../core/parallel/protocol.ts';
 import type { Study } from '../../core/study/schema.ts';
 
-/** Two workers: this machine class has two cores, and the UI thread needs some of one. */
-export const FOOTPRINT_WORKERS = 2;
+/**
+ * Workers for a footprint: one per core but one (the UI thread keeps a core for the scene), at least two
+ * (on two cores the UI thread's share is small: both workers still run near full speed), at most eight.
+ */
+export function footprintWorkerCount(cores: number | undefined): number {
+  const n = Number.isInteger(cores) && (cores as number) > 0 ? (cores as number) : 2;
+  return Math.max(2, Math.min(8, n - 1));
+}
+
+export const FOOTPRINT_WORKERS = footprintWorkerCount(typeof navigator !== 'undefined' ? navigator.hardwareConcurrency : undefined);
 
 export interface FootprintSessionEvents {
   /** A row finished: `field` holds every row finished so far (the same object through the run). */

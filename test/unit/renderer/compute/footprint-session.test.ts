@@ -6,7 +6,7 @@ import { countByStatus, TARGET, type FootprintField } from '../../../../core/foo
 import { makeTargetGrid } from '../../../../core/footprint/grid.ts';
 import { inlineWorkerFactory } from '../../../../core/parallel/pool.ts';
 import { parseStudyText } from '../../../../core/study/index.ts';
-import { FootprintSession } from '../../../../renderer/compute/footprint-session.ts';
+import { FootprintSession, footprintWorkerCount } from '../../../../renderer/compute/footprint-session.ts';
 
 // The session's pool with in-thread workers running the same row handler as the Web Worker entry.
 const handler = rowJobHandler({ fromContext: (c) => descentEvaluator(c as DescentFootprintContext) });
@@ -42,5 +42,14 @@ describe('footprint session (demo study, 3 × 3, in-thread workers)', () => {
     expect(Array.from(live!.status)).toEqual(Array.from(run.field.status));
     expect(session.running).toBe(false);
     session.close();
+  });
+});
+
+describe('footprint worker count', () => {
+  it('is one per core but one, at least two and at most eight; unknown core counts give two', () => {
+    expect([1, 2, 3, 4, 8, 16, 64].map(footprintWorkerCount)).toEqual([2, 2, 2, 3, 7, 8, 8]);
+    expect(footprintWorkerCount(undefined)).toBe(2);
+    expect(footprintWorkerCount(0)).toBe(2);
+    expect(footprintWorkerCount(2.5)).toBe(2);
   });
 });
