@@ -10,7 +10,11 @@ export const TARGET = {
   pending: 0,
   /** Reachable: an optimal trajectory exists within the vehicle's propellant. */
   reachable: 1,
-  /** Certified unreachable: every time of flight tried came back with an infeasibility certificate. */
+  /**
+   * Certified unreachable: at every time of flight searched the exact landing is infeasible — a
+   * minimum-propellant infeasibility certificate, or a minimum-landing-error optimum with a positive miss
+   * (that problem relaxes the landing point, so a positive minimum proves the landing impossible).
+   */
   unreachable: 2,
   /** The solver failed for this target (neither solved nor certified). */
   failed: 3,
