@@ -24,7 +24,11 @@ export interface PolynomialGuidanceOptions {
   cutoffTime?: number;
   /** Landing-position miss accepted as on target, m. Default 1. */
   missTolerance?: number;
-  /** Number of burn times scanned across the bracket. Default 80. */
+  /**
+   * Burn times scanned across the bracket, coarse then fine: `scan` evenly spaced, then `scan` more
+   * within one coarse step either side of the best (finer than a single scan of 4 × as many, for half
+   * the simulations). Default 20.
+   */
   scan?: number;
 }
 
@@ -72,19 +76,29 @@ export function flyPolynomial(setup: DescentSetup, ignition: IgnitionState, targ
 /** Scans the burn time over the physical bracket and keeps the best (see the file comment). */
 export function polynomialGuidance(setup: DescentSetup, ignition: IgnitionState, target: Vec3, options: PolynomialGuidanceOptions = {}): BaselineResult & { scanned: number } {
   const br = timeOfFlightBracket(setup, ignition, target);
-  const n = options.scan ?? 80;
+  const n = options.scan ?? 20;
   const tol = options.missTolerance ?? 1;
-  let bestHit: BaselineResult | null = null;
-  let bestMiss: BaselineResult | null = null;
-  const hi = Math.min(br.upper, br.lower * 6);
-  for (let i = 0; i <= n; i++) {
-    const T = br.lower + ((hi - br.lower) * i) / n;
-    if (T <= (options.cutoffTime ?? 0.5) + 1) continue;
+  // Best on-target flight (least propellant) and closest flight, each with its burn time.
+  const found: { hit: { r: BaselineResult; T: number } | null; miss: { r: BaselineResult; T: number } | null } = { hit: null, miss: null };
+  let scanned = 0;
+  const fly = (T: number) => {
+    if (T <= (options.cutoffTime ?? 0.5) + 1) return;
     const r = flyPolynomial(setup, ignition, target, T, options);
+    scanned++;
     const ok = r.miss <= tol && r.velocityError <= Math.max(0.5, tol / 2) && r.samples[r.samples.length - 1].m > setup.vehicle.dryMass;
-    if (ok && (!bestHit || r.propellant < bestHit.propellant)) bestHit = r;
-    if (!bestMiss || r.miss < bestMiss.miss) bestMiss = r;
+    if (ok && (!found.hit || r.propellant < found.hit.r.propellant)) found.hit = { r, T };
+    if (!found.miss || r.miss < found.miss.r.miss) found.miss = { r, T };
+  };
+  const hi = Math.min(br.upper, br.lower * 6);
+  const step = (hi - br.lower) / n;
+  for (let i = 0; i <= n; i++) fly(br.lower + step * i);
+  const centre = (found.hit ?? found.miss)?.T;
+  if (centre !== undefined) {
+    for (let i = 1; i <= n; i++) {
+      const T = centre - step + (2 * step * i) / (n + 1);
+      if (T > br.lower && T < hi) fly(T);
+    }
   }
-  const best = (bestHit ?? bestMiss)!;
-  return { ...best, scanned: n + 1 };
+  const best = (found.hit ?? found.miss)!.r;
+  return { ...best, scanned };
 }
