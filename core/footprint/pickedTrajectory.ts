@@ -17,6 +17,8 @@ export interface PickedTrajectoryJob {
   /** Target, m east, north of the nominal target (on the study's target plane). */
   east_m: number;
   north_m: number;
+  /** A time-of-flight guess, s (e.g. the computed footprint's at the picked point): fewer solves. */
+  tfGuess_s?: number;
 }
 
 export interface PickedTrajectory {
@@ -58,7 +60,8 @@ export function solvePickedTrajectory(job: PickedTrajectoryJob): PickedTrajector
   const d = studyToDescent(job.study);
   const solver = new DescentSolver(d.setup, landreachConicBackend(), d.ignition);
   const target: Vec3 = [job.east_m, job.north_m, d.target[2]];
-  const r = searchFreeFinalTime(solver, target, d.ignition, { decode: true });
+  const guess = job.tfGuess_s !== undefined && Number.isFinite(job.tfGuess_s) && job.tfGuess_s > 0 ? job.tfGuess_s : undefined;
+  const r = searchFreeFinalTime(solver, target, d.ignition, { decode: true, tfGuess: guess });
   return {
     status: r.status,
     target_m: target,

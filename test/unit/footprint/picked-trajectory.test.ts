@@ -25,4 +25,15 @@ describe('picked trajectory', () => {
     const last = b.position_m.length - 3;
     expect(Math.hypot(b.position_m[last] - 600, b.position_m[last + 1] + 400)).toBeLessThan(5);
   }, 60_000);
+
+  it('starts from a time-of-flight guess when given one (from a footprint), with the same optimum', () => {
+    const study = demoStudy();
+    const job = { study: { ...study, discretisation: { ...study.discretisation, nodes: 30 } }, east_m: 600, north_m: -400 };
+    const cold = solvePickedTrajectory(job);
+    // A guess 1.5 s off, as a footprint's interpolated time of flight might be.
+    const warm = solvePickedTrajectory({ ...job, tfGuess_s: cold.timeOfFlight_s + 1.5 });
+    expect(warm.status).toBe('solved');
+    expect(Math.abs(warm.propellant_kg - cold.propellant_kg)).toBeLessThan(0.02);
+    expect(solvePickedTrajectory({ ...job, tfGuess_s: NaN }).propellant_kg).toBeCloseTo(cold.propellant_kg, 6);
+  }, 60_000);
 });
