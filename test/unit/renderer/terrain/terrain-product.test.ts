@@ -101,3 +101,15 @@ describe('reading a DEM', () => {
     expect(describeGeoreference({ model: 'geographic', geographicEpsg: 4326, geoTransform: [0, 1, 0, 0, 0, -1], localFrame: { originLatitude_deg: 45, originLongitude_deg: 7.5, bodyRadius_m: 6378137, maxEastScaleError: 0 } })).toMatch(/^geographic \(EPSG:4326\), flat local frame about 45\.0000°, 7\.5000° on a 6378\.1 km radius$/);
   });
 });
+
+describe('reading a PNG heightmap', () => {
+  it('uses the Terrain group’s pixel size and height step (16-bit samples, PNG spec encoder)', async () => {
+    const { encodeGreyPng } = await import('../../terrain/png-encode.ts');
+    // Samples 0, 1000, 2000, 3000 at 0.05 m per step: heights 0, 50, 100, 150 m.
+    const png = encodeGreyPng(2, 2, [0, 1000, 2000, 3000], 16);
+    const { grid, format } = await readTerrain(png, 'h.png', { pixelSize_m: 3, heightScale_m: 0.05 });
+    expect(format).toBe('png-heightmap');
+    expect([grid.width, grid.pixelSizeX_m, grid.pixelSizeY_m]).toEqual([2, 3, 3]);
+    expect(Array.from(grid.heights)).toEqual([0, 50, 100, 150]);
+  });
+});
