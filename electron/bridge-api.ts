@@ -41,6 +41,24 @@ export type OpenStudyResult =
   | { status: 'cancelled' }
   | { status: 'error'; message: string };
 
+/**
+ * Result of choosing an elevation model (GeoTIFF .tif/.tiff, 16-bit PNG heightmap, Landreach JSON grid).
+ * `bytes` are the file's content, still to be read by core/terrain in the renderer.
+ */
+export type OpenTerrainResult =
+  | { status: 'opened'; name: string; bytes: Uint8Array }
+  | { status: 'cancelled' }
+  | { status: 'error'; message: string };
+
+/** File extensions an elevation model may carry (lower case, without the dot). */
+export const TERRAIN_EXTENSIONS = ['tif', 'tiff', 'png', 'json'] as const;
+
+/**
+ * Largest elevation-model file accepted (256 MiB): core/terrain reads at most 4096 × 4096 cells, which is
+ * 64 MiB of Float32 heights uncompressed, or 128 MiB as Float64; anything bigger needs cutting to a window first.
+ */
+export const MAX_TERRAIN_BYTES = 256 * 1024 * 1024;
+
 /** Result of any write (save, save as, export). */
 export type WriteResult =
   | { status: 'written'; path: string; name: string }
@@ -76,6 +94,8 @@ export interface LandreachBridge {
   /** Forget the current file (File ▸ New). */
   newStudy(): Promise<void>;
   exportFile(request: ExportRequest): Promise<WriteResult>;
+  /** Show the open dialog for an elevation model and return its bytes (no arguments). */
+  openTerrainFile(): Promise<OpenTerrainResult>;
   listRecent(): Promise<string[]>;
   /** Autosave: write a crash-recovery copy of the unsaved study. */
   writeRecovery(text: string): Promise<void>;
@@ -97,6 +117,7 @@ export const INVOKE_CHANNELS = {
   saveStudyAs: 'study:save-as',
   newStudy: 'study:new',
   exportFile: 'export:write',
+  openTerrainFile: 'terrain:open',
   listRecent: 'recent:list',
   writeRecovery: 'recovery:write',
   readRecovery: 'recovery:read',

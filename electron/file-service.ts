@@ -11,7 +11,7 @@ import * as nodeFs from 'node:fs/promises';
 import * as path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { checkEnvelope, describeEnvelopeProblem } from './study-envelope.ts';
-import { MAX_PAYLOAD_BYTES } from './bridge-api.ts';
+import { MAX_PAYLOAD_BYTES, MAX_TERRAIN_BYTES, TERRAIN_EXTENSIONS } from './bridge-api.ts';
 
 /** The subset of node:fs/promises this module uses. */
 export interface FileSystem {
@@ -130,6 +130,36 @@ export async function writeStudyFile(file: string, text: string, fs: FileSystem 
   }
   await assertStudyOverwritable(file, fs);
   await atomicWriteFile(file, text, fs);
+}
+
+/**
+ * Read an elevation model's bytes: a regular file with one of TERRAIN_EXTENSIONS, at most MAX_TERRAIN_BYTES.
+ * The content is not judged here (core/terrain's readers in the renderer do that and name the problem).
+ */
+export async function readTerrainFile(file: string, fs: FileSystem = realFileSystem, maxBytes = MAX_TERRAIN_BYTES): Promise<Uint8Array> {
+  const name = path.basename(file);
+  const ext = path.extname(file).slice(1).toLowerCase();
+  if (!(TERRAIN_EXTENSIONS as readonly string[]).includes(ext)) {
+    throw new FileServiceError(`${name} is not an elevation model: choose a GeoTIFF (.tif, .tiff), a 16-bit PNG heightmap (.png) or a Landreach JSON grid (.json).`);
+  }
+  let info;
+  try {
+    info = await fs.stat(file);
+  } catch (error) {
+    if (isMissing(error)) throw new FileServiceError(`${name} no longer exists. It may have been moved or deleted.`);
+    throw new FileServiceError(`${name} cannot be read: ${(error as Error).message}.`);
+  }
+  if (!info.isFile()) throw new FileServiceError(`${name} is not a file. Choose an elevation model file.`);
+  if (info.size > maxBytes) {
+    throw new FileServiceError(
+      `${name} is ${(info.size / 1048576).toFixed(1)} MiB, larger than the ${maxBytes / 1048576} MiB an elevation model may be here. Cut a window of at most 4096 × 4096 cells first (e.g. gdal_translate -srcwin).`,
+    );
+  }
+  try {
+    return new Uint8Array(await fs.readFile(file));
+  } catch (error) {
+    throw new FileServiceError(`${name} cannot be read: ${(error as Error).message}.`);
+  }
 }
 
 /** Ensure a folder exists (for recovery copies and settings). */

@@ -45,6 +45,11 @@ export function expectFileName(value: unknown, name: string): string {
   return text;
 }
 
+/** A request that takes no arguments must get none (a page passing a path here is refused, not ignored). */
+export function expectNoArguments(args: unknown[], method: string): void {
+  if (args.length > 0) throw new IpcValidationError(`invalid ${method} call: expected no arguments, got ${args.length}`);
+}
+
 export function expectExportRequest(value: unknown): ExportRequest {
   if (typeof value !== 'object' || value === null) throw new IpcValidationError('invalid export request: expected an object');
   const record = value as Record<string, unknown>;

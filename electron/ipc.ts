@@ -4,9 +4,9 @@
  * whole table is exercised in tests with fakes.
  */
 import * as path from 'node:path';
-import { EXPORT_KINDS, INVOKE_CHANNELS, type OpenStudyResult, type WriteResult } from './bridge-api.ts';
-import { FileServiceError, atomicWriteFile, readStudyFile, withExtension, writeStudyFile, type FileSystem } from './file-service.ts';
-import { assertTrustedSender, expectDocumentState, expectExportRequest, expectFileName, expectText, IpcValidationError, type SenderInfo } from './ipc-validate.ts';
+import { EXPORT_KINDS, INVOKE_CHANNELS, TERRAIN_EXTENSIONS, type OpenStudyResult, type OpenTerrainResult, type WriteResult } from './bridge-api.ts';
+import { FileServiceError, atomicWriteFile, readStudyFile, readTerrainFile, withExtension, writeStudyFile, type FileSystem } from './file-service.ts';
+import { assertTrustedSender, expectDocumentState, expectExportRequest, expectFileName, expectNoArguments, expectText, IpcValidationError, type SenderInfo } from './ipc-validate.ts';
 import type { RecentFiles } from './recent-files.ts';
 import type { RecoveryStore } from './recovery.ts';
 
@@ -50,6 +50,7 @@ export interface IpcRegistrar {
 }
 
 const STUDY_FILTERS: FileFilter[] = [{ name: 'Landreach study', extensions: ['json'] }];
+const TERRAIN_FILTERS: FileFilter[] = [{ name: 'Elevation model (GeoTIFF, 16-bit PNG, JSON grid)', extensions: [...TERRAIN_EXTENSIONS] }];
 
 function errorMessage(error: unknown): string {
   if (error instanceof FileServiceError) return error.message;
@@ -132,6 +133,17 @@ export function createIpcHandlers(deps: IpcDependencies): Record<string, InvokeH
       try {
         await atomicWriteFile(chosen, data, fs);
         return { status: 'written', path: chosen, name: path.basename(chosen) };
+      } catch (error) {
+        return { status: 'error', message: errorMessage(error) };
+      }
+    }),
+    [INVOKE_CHANNELS.openTerrainFile]: guarded(async (...args): Promise<OpenTerrainResult> => {
+      // The page names no path: only a file the user chose in the dialog is read.
+      expectNoArguments(args, 'openTerrainFile');
+      const chosen = await dialogs.chooseOpenPath(TERRAIN_FILTERS);
+      if (!chosen) return { status: 'cancelled' };
+      try {
+        return { status: 'opened', name: path.basename(chosen), bytes: await readTerrainFile(chosen, fs) };
       } catch (error) {
         return { status: 'error', message: errorMessage(error) };
       }

@@ -22,6 +22,7 @@ const bridge: LandreachBridge = {
   saveStudyAs: invoke('study:save-as') as LandreachBridge['saveStudyAs'],
   newStudy: invoke('study:new') as LandreachBridge['newStudy'],
   exportFile: invoke('export:write') as LandreachBridge['exportFile'],
+  openTerrainFile: invoke('terrain:open') as LandreachBridge['openTerrainFile'],
   listRecent: invoke('recent:list') as LandreachBridge['listRecent'],
   writeRecovery: invoke('recovery:write') as LandreachBridge['writeRecovery'],
   readRecovery: invoke('recovery:read') as LandreachBridge['readRecovery'],

@@ -9,11 +9,13 @@ import type {
   MenuCommand,
   MenuCommandDetail,
   OpenStudyResult,
+  OpenTerrainResult,
   RecoveryCopy,
   WriteResult,
 } from '../electron/bridge-api.ts';
 
-export type { ExportKind, MenuCommand, OpenStudyResult, WriteResult } from '../electron/bridge-api.ts';
+export type { ExportKind, MenuCommand, OpenStudyResult, OpenTerrainResult, WriteResult } from '../electron/bridge-api.ts';
+import { MAX_TERRAIN_FILE_BYTES as MAX_TERRAIN_BYTES, TERRAIN_FILE_EXTENSIONS as TERRAIN_EXTENSIONS } from './terrain/terrain-files.ts';
 
 declare global {
   interface Window {
@@ -44,12 +46,12 @@ function download(name: string, data: string | Uint8Array, type: string): void {
   setTimeout(() => URL.revokeObjectURL(url), 10_000);
 }
 
-function pickFile(accept: string): Promise<File | null> {
+function pickFile(accept: string, role = 'study-file-input'): Promise<File | null> {
   return new Promise((resolve) => {
     const input = document.createElement('input');
     input.type = 'file';
     input.accept = accept;
-    input.dataset.role = 'study-file-input';
+    input.dataset.role = role;
     input.hidden = true;
     const finish = (file: File | null) => {
       input.remove();
@@ -78,6 +80,18 @@ export function createBrowserBridge(): LandreachBridge {
       if (!file) return { status: 'cancelled' };
       try {
         return { status: 'opened', path: file.name, name: file.name, text: await file.text() };
+      } catch (error) {
+        return { status: 'error', message: `${file.name} cannot be read: ${(error as Error).message}.` };
+      }
+    },
+    async openTerrainFile(): Promise<OpenTerrainResult> {
+      const file = await pickFile(TERRAIN_EXTENSIONS.map((e) => `.${e}`).join(','), 'terrain-file-input');
+      if (!file) return { status: 'cancelled' };
+      if (file.size > MAX_TERRAIN_BYTES) {
+        return { status: 'error', message: `${file.name} is ${(file.size / 1048576).toFixed(1)} MiB, larger than the ${MAX_TERRAIN_BYTES / 1048576} MiB an elevation model may be here. Cut a window of at most 4096 × 4096 cells first.` };
+      }
+      try {
+        return { status: 'opened', name: file.name, bytes: new Uint8Array(await file.arrayBuffer()) };
       } catch (error) {
         return { status: 'error', message: `${file.name} cannot be read: ${(error as Error).message}.` };
       }

@@ -13,3 +13,6 @@ export const trajectoryWorkerFactory: WorkerFactory = () =>
 
 export const studyWorkerFactory: WorkerFactory = () =>
   adaptWebWorker(new Worker(new URL('../workers/study.worker.ts', import.meta.url), { type: 'module' }));
+
+export const terrainWorkerFactory: WorkerFactory = () =>
+  adaptWebWorker(new Worker(new URL('../workers/terrain.worker.ts', import.meta.url), { type: 'module' }));

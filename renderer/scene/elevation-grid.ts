@@ -1,5 +1,6 @@
 /**
- * A plain elevation grid as the scene receives it (core/terrain will produce the same shape).
+ * A plain elevation grid as the scene receives it: the display grid the app builds from a DEM read by
+ * core/terrain (renderer/terrain/terrain-product.ts, decimated, in the nominal-target frame).
  * Row 0 is the north edge, column 0 the west edge (the GeoTIFF convention). Heights in metres;
  * NaN marks missing data. Scene coordinates: x east, y north, z up, metres, origin at the nominal target.
  */

@@ -111,6 +111,13 @@ export class TerrainScene {
     this.scene.add(sun);
   }
 
+  /** Size and placement of the terrain drawn (no heights), or null before any: for tests and drape builders. */
+  terrainLayout(): { width: number; height: number; pixelSize_m: number; west_m: number; north_m: number } | null {
+    if (!this.grid) return null;
+    const { width, height, pixelSize_m, west_m, north_m } = this.grid;
+    return { width, height, pixelSize_m, west_m, north_m };
+  }
+
   setTerrain(grid: ElevationGrid, exaggeration: number): void {
     this.grid = grid;
     this.exaggeration = exaggeration;

@@ -108,14 +108,15 @@ describe('workspace in Chromium', () => {
         }
       }
       // Where the scene says the ground is, the pixel must be terrain, not background.
-      const probes = [[-2500, 2500], [2500, 2500], [-2500, -2500], [2500, -2500], [0, 1500]].map(([e, n]) => {
+      // The demo DEM spans ±512 m about the nominal target (its centre by default).
+      const probes = [[-400, 400], [400, 400], [-400, -400], [400, -400], [0, 300]].map(([e, n]) => {
         const p = canvas.landreachScene.projectGroundPoint(e, n);
         return p ? differs(4 * (Math.floor(p.y) * copy.width + Math.floor(p.x))) : null;
       });
       return { width: copy.width, height: copy.height, fraction: drawn / (data.length / 4), colours: hues.size, probes, corner: differs(0) };
     });
     expect(stats.width).toBeGreaterThan(300);
-    // The oblique preset frames the whole 8 km terrain and the ignition point above it.
+    // The oblique preset frames the whole 1 km demo DEM and the ignition point above it.
     expect(stats.fraction).toBeGreaterThan(0.15);
     expect(stats.probes).toEqual([true, true, true, true, true]);
     // The top-left corner of the view is outside the terrain: background.
@@ -137,14 +138,15 @@ describe('workspace in Chromium', () => {
         framesDrawn: number;
         setDrape(d: { values: Float32Array; range: [number, number] } | null): void;
         projectGroundPoint(e: number, n: number): { x: number; y: number } | null;
+        terrainLayout(): { width: number; height: number; pixelSize_m: number; west_m: number; north_m: number };
       };
       const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: Scene };
       const scene = canvas.landreachScene;
-      const size = 161;
-      const values = new Float32Array(size * size);
-      for (let r = 0; r < size; r++) for (let c = 0; c < size; c++) values[r * size + c] = -4000 + c * 50;
+      const { width, height, pixelSize_m, west_m } = scene.terrainLayout();
+      const values = new Float32Array(width * height);
+      for (let r = 0; r < height; r++) for (let c = 0; c < width; c++) values[r * width + c] = west_m + c * pixelSize_m;
       const before = scene.framesDrawn;
-      scene.setDrape({ values, range: [-4000, 4000] });
+      scene.setDrape({ values, range: [west_m, west_m + (width - 1) * pixelSize_m] });
       while (scene.framesDrawn === before) await new Promise((r) => requestAnimationFrame(r));
       const copy = document.createElement('canvas');
       copy.width = canvas.width;
@@ -155,7 +157,7 @@ describe('workspace in Chromium', () => {
         const p = scene.projectGroundPoint(e, n)!;
         return Array.from(ctx.getImageData(Math.round(p.x), Math.round(p.y), 1, 1).data.slice(0, 3));
       };
-      const result = { west: at(-3700, 2000), east: at(3700, 2000) };
+      const result = { west: at(-480, 250), east: at(480, 250) };
       scene.setDrape(null);
       return result;
     });
@@ -176,6 +178,7 @@ describe('workspace in Chromium', () => {
         framesDrawn: number;
         setHazard(mask: Uint8Array | null, visible: boolean): void;
         projectGroundPoint(e: number, n: number): { x: number; y: number } | null;
+        terrainLayout(): { width: number; height: number; pixelSize_m: number; west_m: number; north_m: number };
       };
       const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: Scene };
       const scene = canvas.landreachScene;
@@ -200,13 +203,13 @@ describe('workspace in Chromium', () => {
       };
       scene.setHazard(null, false);
       const plain = await frame();
-      // Synthetic mask (not terrain analysis): every sample east of 1000 m is "unsafe".
-      const size = 161;
-      const mask = new Uint8Array(size * size);
-      for (let r = 0; r < size; r++) for (let c = 0; c < size; c++) mask[r * size + c] = -4000 + c * 50 > 1000 ? 1 : 0;
+      // Synthetic mask (not terrain analysis): every sample east of 100 m is "unsafe".
+      const { width, height, pixelSize_m, west_m } = scene.terrainLayout();
+      const mask = new Uint8Array(width * height);
+      for (let r = 0; r < height; r++) for (let c = 0; c < width; c++) mask[r * width + c] = west_m + c * pixelSize_m > 100 ? 1 : 0;
       scene.setHazard(mask, true);
       const striped = await frame();
-      return { hazardous: patchDiff(plain, striped, 2500, 0), safe: patchDiff(plain, striped, -2500, 0) };
+      return { hazardous: patchDiff(plain, striped, 350, 0), safe: patchDiff(plain, striped, -350, 0) };
     });
     await screenshot(page, 'scene-hazard-stripes');
     await page.evaluate(() => {
@@ -272,7 +275,7 @@ describe('workspace in Chromium', () => {
     const box = (await canvas.boundingBox())!;
     const target = await page.evaluate(() => {
       const c = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { projectGroundPoint(e: number, n: number): { x: number; y: number } | null } };
-      const p = c.landreachScene.projectGroundPoint(1000, 500)!;
+      const p = c.landreachScene.projectGroundPoint(300, 150)!;
       // Drawing-buffer pixels → CSS pixels.
       return { x: (p.x * c.clientWidth) / c.width, y: (p.y * c.clientHeight) / c.height };
     });
@@ -284,9 +287,9 @@ describe('workspace in Chromium', () => {
       const m = new RegExp(`${axis} (−?)([\\d.]+) (k?m)`).exec(text)!;
       return (m[1] ? -1 : 1) * Number(m[2]) * (m[3] === 'km' ? 1000 : 1);
     };
-    // One screen pixel is roughly 15 m of ground here; allow a few.
-    expect(Math.abs(parse('E') - 1000)).toBeLessThan(60);
-    expect(Math.abs(parse('N') - 500)).toBeLessThan(60);
+    // One screen pixel is a few metres of ground here (1 km DEM); allow a few pixels.
+    expect(Math.abs(parse('E') - 300)).toBeLessThan(15);
+    expect(Math.abs(parse('N') - 150)).toBeLessThan(15);
 
     // An orbit drag is not a pick.
     await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);

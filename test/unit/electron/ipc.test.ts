@@ -166,3 +166,43 @@ describe('document state and version', () => {
     expect(session.currentPath).toBeNull();
   });
 });
+
+describe('open an elevation model', () => {
+  it('returns the chosen file’s bytes and name, and does not touch the study session', async () => {
+    const file = path.join(dir, 'site.tif');
+    // Little-endian TIFF header (TIFF 6.0 §2): "II", 42. The content is judged by core/terrain, not here.
+    const bytes = new Uint8Array([0x49, 0x49, 42, 0, 8, 0, 0, 0, 9, 9]);
+    await fs.writeFile(file, bytes);
+    nextOpen = file;
+    const result = (await call(INVOKE_CHANNELS.openTerrainFile)) as { status: string; name: string; bytes: Uint8Array };
+    expect(result.status).toBe('opened');
+    expect(result.name).toBe('site.tif');
+    expect([...result.bytes]).toEqual([...bytes]);
+    expect(session.currentPath).toBeNull();
+  });
+
+  it('cancels, and refuses a page that passes a path', async () => {
+    expect(await call(INVOKE_CHANNELS.openTerrainFile)).toEqual({ status: 'cancelled' });
+    await expect(call(INVOKE_CHANNELS.openTerrainFile, '/etc/passwd')).rejects.toThrow(/invalid openTerrainFile call: expected no arguments, got 1/);
+  });
+
+  it('names the file and the fix for a wrong extension, a folder and a missing file', async () => {
+    const text = path.join(dir, 'notes.txt');
+    await fs.writeFile(text, 'x');
+    nextOpen = text;
+    expect(await call(INVOKE_CHANNELS.openTerrainFile)).toEqual({ status: 'error', message: expect.stringMatching(/^notes\.txt is not an elevation model: choose a GeoTIFF/) });
+    const folder = path.join(dir, 'dem.tif');
+    await fs.mkdir(folder);
+    nextOpen = folder;
+    expect(await call(INVOKE_CHANNELS.openTerrainFile)).toEqual({ status: 'error', message: 'dem.tif is not a file. Choose an elevation model file.' });
+    nextOpen = path.join(dir, 'gone.tiff');
+    expect(await call(INVOKE_CHANNELS.openTerrainFile)).toEqual({ status: 'error', message: expect.stringMatching(/^gone\.tiff no longer exists/) });
+  });
+
+  it('refuses a file above the size limit with its size and the fix', async () => {
+    const { readTerrainFile } = await import('../../../electron/file-service.ts');
+    const file = path.join(dir, 'big.tif');
+    await fs.writeFile(file, new Uint8Array(3 * 1048576));
+    await expect(readTerrainFile(file, undefined, 2 * 1048576)).rejects.toThrow(/big\.tif is 3\.0 MiB, larger than the 2 MiB .*Cut a window/);
+  });
+});
