@@ -124,3 +124,24 @@ export function countByStatus(field: FootprintField): Record<keyof typeof TARGET
   for (const code of field.status) out[names[code]]++;
   return out;
 }
+
+/**
+ * The optimal time of flight at the computed target nearest to (east, north) — of its closest approach
+ * if unreachable — when that target lies within one grid spacing; else undefined. A start for a
+ * neighbouring target's own search (a picked point, say).
+ */
+export function timeOfFlightNear(field: FootprintField, east_m: number, north_m: number): number | undefined {
+  const { nx, ny } = field;
+  const nearest = (a: Float64Array, v: number) => {
+    let best = 0;
+    for (let i = 1; i < a.length; i++) if (Math.abs(a[i] - v) < Math.abs(a[best] - v)) best = i;
+    return best;
+  };
+  const i = nearest(field.east, east_m);
+  const j = nearest(field.north, north_m);
+  const dx = nx > 1 ? Math.abs(field.east[1] - field.east[0]) : Infinity;
+  const dy = ny > 1 ? Math.abs(field.north[1] - field.north[0]) : Infinity;
+  if (Math.abs(field.east[i] - east_m) > dx || Math.abs(field.north[j] - north_m) > dy) return undefined;
+  const tf = field.timeOfFlight_s[j * nx + i];
+  return Number.isFinite(tf) && tf > 0 ? tf : undefined;
+}

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { columnOrder, makeTargetGrid, parseGridSize, rowOrder } from '../../../core/footprint/grid.ts';
-import { emptyField, emptyRow, rowBuffers, setOutcome, TARGET, writeRow, countByStatus } from '../../../core/footprint/field.ts';
+import { emptyField, emptyRow, rowBuffers, setOutcome, TARGET, writeRow, countByStatus, timeOfFlightNear } from '../../../core/footprint/field.ts';
 
 describe('target grids', () => {
   it('spans the requested extent with the requested counts', () => {
@@ -60,5 +60,18 @@ describe('struct-of-arrays field', () => {
     expect(countByStatus(field)).toEqual({ pending: 4, reachable: 1, unreachable: 1, failed: 0, overBudget: 0 });
     const buffers = rowBuffers(row);
     expect(new Set(buffers).size).toBe(6);
+  });
+});
+
+describe('time of flight near a point', () => {
+  it('is that of the nearest computed target within one spacing, else undefined', () => {
+    const grid = makeTargetGrid({ halfWidthEast_m: 100, halfWidthNorth_m: 100, nx: 3, ny: 3 });
+    const field = emptyField(grid);
+    field.timeOfFlight_s.set([30, 31, 32, 33, 34, 35, 36, 37, 38]);
+    field.timeOfFlight_s[8] = NaN;
+    expect(timeOfFlightNear(field, 0, 0)).toBe(34);
+    expect(timeOfFlightNear(field, -90, -110)).toBe(30);
+    expect(timeOfFlightNear(field, 100, 100)).toBeUndefined(); // not computed there
+    expect(timeOfFlightNear(field, 260, 0)).toBeUndefined(); // beyond one spacing of the grid
   });
 });
