@@ -350,7 +350,12 @@ export class TerrainScene {
     const g = this.grid;
     const [lo, hi] = heightRange(g.heights);
     // Room for the axis labels outside the south and west edges.
-    const margin = (Math.max(g.width, g.height) - 1) * g.pixelSize_m * 0.08;
+    const span = (Math.max(g.width, g.height) - 1) * g.pixelSize_m;
+    const margin = span * 0.08;
+    // The view frames the terrain and the approach above it, but no higher (in scene units) than half the
+    // terrain's width above its top: over a small site DEM the ignition point would otherwise shrink the
+    // site to a speck.
+    const ignitionZ = this.ignition ? (sampleHeight(g, 0, 0) + this.ignition.altitude_m) * this.exaggeration : -Infinity;
     return {
       minEast: g.west_m - margin,
       maxEast: g.west_m + (g.width - 1) * g.pixelSize_m,
@@ -358,7 +363,7 @@ export class TerrainScene {
       maxNorth: g.north_m,
       minZ: lo * this.exaggeration,
       focusZ: ((lo + hi) / 2) * this.exaggeration,
-      maxZ: Math.max(hi * this.exaggeration, this.ignition ? (sampleHeight(g, 0, 0) + this.ignition.altitude_m) * this.exaggeration : -Infinity),
+      maxZ: Math.max(hi * this.exaggeration, Math.min(ignitionZ, hi * this.exaggeration + 0.5 * span)),
     };
   }
 

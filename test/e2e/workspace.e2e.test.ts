@@ -250,7 +250,9 @@ describe('workspace in Chromium', () => {
       const ctx = copy.getContext('2d')!;
       ctx.drawImage(canvas, 0, 0);
       const hits: boolean[] = [];
-      for (const f of [0.25, 0.5, 0.75]) {
+      // The last part of the descent (72 to 216 m up): the oblique view frames the terrain and at most half
+      // its width of (exaggerated) sky above it, so over the 1 km demo DEM the approach's start is out of view.
+      for (const f of [0.04, 0.08, 0.12]) {
         const p = scene.projectAboveTarget(-1200 * f, -400 * f, 1800 * f)!;
         const { data } = ctx.getImageData(Math.round(p.x) - 3, Math.round(p.y) - 3, 7, 7);
         let hit = false;
