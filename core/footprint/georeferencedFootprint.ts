@@ -6,7 +6,7 @@
  */
 import type { ElevationGrid } from '../terrain/grid.ts';
 import { terrainLonLat } from '../terrain/georeference.ts';
-import { gridFactors, utmProjection } from '../terrain/transverse-mercator.ts';
+import { groundFrameOnDem } from '../terrain/groundFrame.ts';
 import type { FootprintLonLat } from '../study/footprintGeoJson.ts';
 
 /** Millimetres, without a "-0.000". */
@@ -20,17 +20,15 @@ export function footprintLonLat(grid: ElevationGrid, target_m: readonly [number,
   const ref = terrainLonLat(grid.georeference, source);
   if (!ref) return null;
   const [tE, tN] = target_m;
-  const toLonLat = (e: number, n: number) => ref.toLonLat(tE + e, tN + n);
-  const placed = `The nominal target is at ${metres(tE)} m east, ${metres(tN)} m north in the DEM's frame (${ref.sourceCrs}); local metres are laid onto that frame unrotated.`;
-  const notes = [placed];
+  const ground = groundFrameOnDem(grid.georeference, target_m, source);
+  const toLonLat = (e: number, n: number) => ref.toLonLat(...ground.toDem(e, n));
+  const notes = [`The nominal target is at ${metres(tE)} m east, ${metres(tN)} m north in the DEM's frame (${ref.sourceCrs}).`];
   const frame = grid.georeference?.localFrame;
-  const utm = grid.georeference?.model === 'projected' ? utmProjection(grid.georeference.projectedEpsg ?? 0) : null;
-  if (utm) {
-    const [lon0, lat0] = toLonLat(0, 0);
-    const { convergence_deg: c, scale } = gridFactors(utm, lon0, lat0);
+  if (ground.convergence_rad !== 0 || ground.scale !== 1) {
+    const c = ground.convergence_rad / (Math.PI / 180);
     // c > 0: true north points grid-east, so grid north lies west of true north.
     notes.push(
-      `At the target UTM grid north is ${Math.abs(c).toFixed(4)}° ${c > 0 ? 'west' : 'east'} of true north (meridian convergence) and grid metres are ${scale.toFixed(6)} × ground metres (point scale): local metres are grid metres.`,
+      `At the target UTM grid north is ${Math.abs(c).toFixed(4)}° ${c > 0 ? 'west' : 'east'} of true north (meridian convergence) and grid metres are ${ground.scale.toFixed(6)} × ground metres (point scale); local metres are ground metres, rotated and scaled by these onto the grid (what remains is their change across the footprint).`,
     );
   } else if (frame) {
     notes.push(

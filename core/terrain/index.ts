@@ -15,3 +15,4 @@ export * from './resample.ts';
 export * from './mesh.ts';
 export * from './demo-terrain.ts';
 export * from './lzw.ts';
+export * from './groundFrame.ts';

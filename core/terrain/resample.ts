@@ -64,9 +64,15 @@ export function resampleHazardFlags(flags: Uint8Array, source: ElevationGrid, ta
  * Footprint results (a coarse target grid) laid onto the terrain grid, so hazards stay at full DEM
  * resolution: propellant bilinear between target centres; a terrain cell is reachable only when all
  * four surrounding targets are (conservative at the footprint's edge). Terrain cells outside the target
- * centres are unreachable.
+ * centres are unreachable. `demToGrid` maps the terrain's coordinates into the target grid's frame when the
+ * two differ (a footprint in ground metres on a UTM DEM, see groundFrame.ts); by default they are the same.
  */
-export function resampleReachability(reach: ReachabilityGrid, reachGrid: GridSpec, terrain: ElevationGrid): ReachabilityGrid {
+export function resampleReachability(
+  reach: ReachabilityGrid,
+  reachGrid: GridSpec,
+  terrain: ElevationGrid,
+  demToGrid?: (demEast_m: number, demNorth_m: number) => [number, number],
+): ReachabilityGrid {
   checkSpec(reachGrid);
   if (reach.reachable.length !== reachGrid.width * reachGrid.height || reach.propellant_kg.length !== reach.reachable.length) {
     throw new TerrainInputError(`reachability arrays have ${reach.reachable.length} / ${reach.propellant_kg.length} values, but the target grid is ${reachGrid.width} × ${reachGrid.height}`);
@@ -77,11 +83,14 @@ export function resampleReachability(reach: ReachabilityGrid, reachGrid: GridSpe
   const n = terrain.width * terrain.height;
   const out: ReachabilityGrid = { width: terrain.width, height: terrain.height, reachable: new Uint8Array(n), propellant_kg: new Float32Array(n).fill(NaN) };
   for (let r = 0; r < terrain.height; r++) {
-    const fy = (n0 - (terrain.originNorth_m - (r + 0.5) * terrain.pixelSizeY_m)) / reachGrid.pixelSizeY_m - 0.5;
-    if (!(fy >= 0 && fy <= H - 1)) continue;
-    const r0 = Math.min(Math.floor(fy), Math.max(H - 2, 0)), r1 = Math.min(r0 + 1, H - 1), ty = fy - r0;
+    const demNorth = terrain.originNorth_m - (r + 0.5) * terrain.pixelSizeY_m;
     for (let c = 0; c < terrain.width; c++) {
-      const fx = (terrain.originEast_m + (c + 0.5) * terrain.pixelSizeX_m - e0) / reachGrid.pixelSizeX_m - 0.5;
+      const demEast = terrain.originEast_m + (c + 0.5) * terrain.pixelSizeX_m;
+      const [x, y] = demToGrid ? demToGrid(demEast, demNorth) : [demEast, demNorth];
+      const fy = (n0 - y) / reachGrid.pixelSizeY_m - 0.5;
+      if (!(fy >= 0 && fy <= H - 1)) continue;
+      const r0 = Math.min(Math.floor(fy), Math.max(H - 2, 0)), r1 = Math.min(r0 + 1, H - 1), ty = fy - r0;
+      const fx = (x - e0) / reachGrid.pixelSizeX_m - 0.5;
       if (!(fx >= 0 && fx <= W - 1)) continue;
       const c0 = Math.min(Math.floor(fx), Math.max(W - 2, 0)), c1 = Math.min(c0 + 1, W - 1), tx = fx - c0;
       const k00 = r0 * W + c0, k01 = r0 * W + c1, k10 = r1 * W + c0, k11 = r1 * W + c1;

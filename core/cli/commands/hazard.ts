@@ -20,7 +20,7 @@ import { parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
 import {
   DEFAULT_HAZARD_LIMITS, HAZARD_MARGIN, HAZARD_ROUGHNESS, HAZARD_SLOPE, HAZARD_UNKNOWN, TerrainInputError,
   gridGeometry, gridRasterGeoreference, hazardMap, toDegrees, validCount, writeGeoTiff,
-  rankSites, resampleReachability, safeReachableSet, type GridSpec,
+  groundFrameOnDem, rankSites, resampleReachability, safeReachableSet, type GridSpec,
 } from '../../terrain/index.ts';
 
 
@@ -281,12 +281,18 @@ async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, fla
     height: ny,
     pixelSizeX_m: targets.spacingEast_m,
     pixelSizeY_m: targets.spacingNorth_m,
-    originEast_m: tE + west - targets.spacingEast_m / 2,
-    originNorth_m: tN + north + targets.spacingNorth_m / 2,
+    originEast_m: west - targets.spacingEast_m / 2,
+    originNorth_m: north + targets.spacingNorth_m / 2,
   };
-  const onDem = resampleReachability({ width: nx, height: ny, reachable, propellant_kg: propellant }, spec, grid);
+  // The footprint is in ground metres from the target; on a UTM DEM the grid is rotated and scaled from
+  // them (meridian convergence, point scale: groundFrame.ts). Elsewhere the map is a plain shift.
+  const ground = groundFrameOnDem(grid.georeference, [tE, tN], 'DEM');
+  const onDem = resampleReachability({ width: nx, height: ny, reachable, propellant_kg: propellant }, spec, grid, ground.fromDem);
   const safe = safeReachableSet(map, onDem);
-  const sites = rankSites(grid, map, onDem, { count }).map((site) => ({ ...site, east_m: site.east_m - tE, north_m: site.north_m - tN, frame: 'study (m east, north of the nominal target)' }));
+  const sites = rankSites(grid, map, onDem, { count }).map((site) => {
+    const [east_m, north_m] = ground.fromDem(site.east_m, site.north_m);
+    return { ...site, east_m, north_m, frame: 'study (m east, north of the nominal target)' };
+  });
   return {
     safe,
     sites,

@@ -62,10 +62,18 @@ describe('landreach hazard --study', () => {
     const sites = doc.features.filter((f: { properties: { kind: string } }) => f.properties.kind === 'landing-site');
     expect(sites.length).toBe(summary.sites.length);
     expect(sites.length).toBeGreaterThan(0);
+    const scale = Number(/grid metres are ([\d.]+) × ground metres/.exec(doc.features[0].properties.crs_note)![1]);
     sites.forEach((f: { geometry: { coordinates: number[] } }, k: number) => {
-      const [lon, lat] = transverseMercatorInverse(utm, tE + summary.sites[k].east_m, tN + summary.sites[k].north_m);
+      // The site's cell centre in UTM, from the DEM's geotransform (400000 E, 5000000 N, 10 m cells).
+      const s = summary.sites[k];
+      const E = 400000 + (s.col + 0.5) * 10;
+      const N = 5000000 - (s.row + 0.5) * 10;
+      const [lon, lat] = transverseMercatorInverse(utm, E, N);
       expect(f.geometry.coordinates[0]).toBeCloseTo(lon, 8);
       expect(f.geometry.coordinates[1]).toBeCloseTo(lat, 8);
+      // The summary gives the site in ground metres from the target: the grid offset rotated back by the
+      // meridian convergence and divided by the point scale, so its length is the grid length / k.
+      expect(Math.hypot(s.east_m, s.north_m)).toBeCloseTo(Math.hypot(E - tE, N - tN) / scale, 3);
     });
     expect(doc.features[0].properties.crs_note).toMatch(/UTM zone 33N \(EPSG:32633\)/);
   }, 120_000);
