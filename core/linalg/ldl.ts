@@ -212,46 +212,6 @@ export class LdlFactor {
       x[i] = s0 + s1;
     }
   }
-
-  /**
-   * Solves L D Lᵀ x = b for two right-hand sides at once, in place. The triangular solves are chains of
-   * dependent sums (each row waits for the rows before it); two independent chains interleaved cost about
-   * as much time as one.
-   */
-  solveInPlace2(x: Float64Array, w: Float64Array): void {
-    const { n, Lp, Li, Rp, Ri } = this.symbolic;
-    const { Lx, Dinv, Rx } = this;
-    for (let i = 0; i < n; i++) {
-      let s = x[i];
-      let u = w[i];
-      const end = Rp[i + 1];
-      for (let q = Rp[i]; q < end; q++) {
-        const r = Rx[q];
-        const c = Ri[q];
-        s -= r * x[c];
-        u -= r * w[c];
-      }
-      x[i] = s;
-      w[i] = u;
-    }
-    for (let i = 0; i < n; i++) {
-      x[i] *= Dinv[i];
-      w[i] *= Dinv[i];
-    }
-    for (let i = n - 1; i >= 0; i--) {
-      let s = x[i];
-      let u = w[i];
-      const end = Lp[i + 1];
-      for (let j = Lp[i]; j < end; j++) {
-        const l = Lx[j];
-        const r = Li[j];
-        s -= l * x[r];
-        u -= l * w[r];
-      }
-      x[i] = s;
-      w[i] = u;
-    }
-  }
 }
 
 /** y = S x for a symmetric S stored as its upper triangle U (CSC). */

@@ -1,6 +1,7 @@
 /** Chart configurations for the studies: footprint area vs reserve, divert radius vs ignition altitude, landing points. */
 import { linearAxis, limitLine, lineChart, markerLine, series, toPoints, type LineConfig, type LineDataset } from './chart-parts.ts';
 import { CHART_INK, SERIES } from './palette.ts';
+import type { Ellipse } from '../../core/footprint/ellipse.ts';
 
 export function footprintAreaChart(reserve_kg: ArrayLike<number>, area_m2: ArrayLike<number>): LineConfig {
   const km2 = Float64Array.from(area_m2, (a) => a / 1e6);
@@ -38,15 +39,8 @@ export function niceCeil(v: number): number {
   return 10 * p;
 }
 
-export interface EllipseOutline {
-  centreEast_m: number;
-  centreNorth_m: number;
-  semiMajor_m: number;
-  semiMinor_m: number;
-  /** Major axis, degrees counter-clockwise from east (core/footprint/ellipse.ts). */
-  orientation_deg: number;
-  probability: number;
-}
+/** A landing ellipse as core/footprint/ellipse.ts gives it (orientation: degrees counter-clockwise from east). */
+export type EllipseOutline = Ellipse;
 
 /** At most this many landing points are drawn (every k-th sample beyond it); the ellipse uses them all. */
 export const MAX_LANDING_POINTS = 2000;

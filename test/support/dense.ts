@@ -38,3 +38,24 @@ export function matMul(A: number[][], B: number[][]): number[][] {
 
 export const norm2 = (v: ArrayLike<number>): number => Math.sqrt(Array.from(v).reduce((s, x) => s + x * x, 0));
 export const normInf = (v: ArrayLike<number>): number => Array.from(v).reduce((s, x) => Math.max(s, Math.abs(x)), 0);
+
+/**
+ * A random quasi-definite matrix [[H, Bᵀ], [B, −F]] (Vanderbei 1995: H, F diagonal positive), dense:
+ * the shape of an interior-point KKT matrix, for the sparse LDLᵀ tests.
+ */
+export function quasiDefinite(rng: { uniform(a: number, b: number): number; next(): number; normal(): number }, n1: number, n2: number, density: number): number[][] {
+  const n = n1 + n2;
+  const M = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  for (let i = 0; i < n1; i++) M[i][i] = rng.uniform(0.5, 3);
+  for (let i = n1; i < n; i++) M[i][i] = -rng.uniform(0.5, 3);
+  for (let i = n1; i < n; i++) {
+    for (let j = 0; j < n1; j++) {
+      if (rng.next() < density) {
+        const v = rng.normal();
+        M[i][j] = v;
+        M[j][i] = v;
+      }
+    }
+  }
+  return M;
+}

@@ -2,24 +2,12 @@ import { describe, expect, it } from 'vitest';
 import { cscFromTriplets, type CscMatrix } from '../../../core/linalg/csc.ts';
 import { LdlFactor, ldlSymbolic, symmetricUpperMul } from '../../../core/linalg/ldl.ts';
 import { invertPermutation, minimumDegreeOrdering } from '../../../core/linalg/ordering.ts';
-import { denseSolve } from '../../support/dense.ts';
+import { denseSolve, quasiDefinite } from '../../support/dense.ts';
 import { Rng } from '../../support/random.ts';
 
-/** Random quasi-definite matrix [[H, Bᵀ], [B, −F]] with H, F diagonal positive, as dense and as upper CSC. */
-function quasiDefinite(rng: Rng, n1: number, n2: number, density: number) {
-  const n = n1 + n2;
-  const M = Array.from({ length: n }, () => new Array<number>(n).fill(0));
-  for (let i = 0; i < n1; i++) M[i][i] = rng.uniform(0.5, 3);
-  for (let i = n1; i < n; i++) M[i][i] = -rng.uniform(0.5, 3);
-  for (let i = n1; i < n; i++) {
-    for (let j = 0; j < n1; j++) {
-      if (rng.next() < density) {
-        const v = rng.normal();
-        M[i][j] = v;
-        M[j][i] = v;
-      }
-    }
-  }
+/** Random quasi-definite matrix (test/support/dense.ts), as dense and as upper CSC. */
+function quasiDefiniteWithUpper(rng: Rng, n1: number, n2: number, density: number) {
+  const M = quasiDefinite(rng, n1, n2, density);
   return { M, U: upper(M) };
 }
 
@@ -47,7 +35,7 @@ describe('sparse LDLᵀ', () => {
   it('solves quasi-definite systems like dense Gaussian elimination', () => {
     const rng = new Rng(11);
     for (let trial = 0; trial < 20; trial++) {
-      const { M } = quasiDefinite(rng, rng.int(2, 15), rng.int(1, 10), 0.3);
+      const { M } = quasiDefiniteWithUpper(rng, rng.int(2, 15), rng.int(1, 10), 0.3);
       const perm = minimumDegreeOrdering(upper(M));
       const P = permuteSymmetric(M, perm);
       const U = upper(P);
@@ -67,7 +55,7 @@ describe('sparse LDLᵀ', () => {
 
   it('refactors new values on the same pattern without new analysis', () => {
     const rng = new Rng(3);
-    const { M, U } = quasiDefinite(rng, 8, 5, 0.4);
+    const { M, U } = quasiDefiniteWithUpper(rng, 8, 5, 0.4);
     const f = new LdlFactor(ldlSymbolic(U));
     f.refactor(U, null, 0, 0);
     const scaled = { ...U, values: U.values.map((v) => 2 * v) };
@@ -97,7 +85,7 @@ describe('sparse LDLᵀ', () => {
 describe('minimum-degree ordering', () => {
   it('returns a permutation', () => {
     const rng = new Rng(5);
-    const { U } = quasiDefinite(rng, 30, 20, 0.1);
+    const { U } = quasiDefiniteWithUpper(rng, 30, 20, 0.1);
     const perm = minimumDegreeOrdering(U);
     expect(Array.from(perm).sort((a, b) => a - b)).toEqual(Array.from({ length: 50 }, (_, i) => i));
     const pinv = invertPermutation(perm);

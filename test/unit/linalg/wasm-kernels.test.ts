@@ -11,23 +11,9 @@ import { JsLdlSystem, type LdlSystem } from '../../../core/linalg/ldlSystem.ts';
 import { minimumDegreeOrdering } from '../../../core/linalg/ordering.ts';
 import { WasmLdlSystem, wasmKernelsAvailable } from '../../../core/linalg/wasm/ldlWasm.ts';
 import { ConicWorkspace } from '../../../core/conic/index.ts';
-import { denseSolve } from '../../support/dense.ts';
+import { denseSolve, quasiDefinite } from '../../support/dense.ts';
 import { Rng } from '../../support/random.ts';
 import { controlInstance } from '../../support/socp-instances.ts';
-
-/** A random quasi-definite matrix [[H, Bᵀ], [B, −F]] (H, F diagonal positive), dense. */
-function quasiDefinite(rng: Rng, n1: number, n2: number, density: number): number[][] {
-  const n = n1 + n2;
-  const M = Array.from({ length: n }, () => new Array<number>(n).fill(0));
-  for (let i = 0; i < n1; i++) M[i][i] = rng.uniform(0.5, 3);
-  for (let i = n1; i < n; i++) M[i][i] = -rng.uniform(0.5, 3);
-  for (let i = n1; i < n; i++) {
-    for (let j = 0; j < n1; j++) {
-      if (rng.next() < density) M[i][j] = M[j][i] = rng.normal();
-    }
-  }
-  return M;
-}
 
 /** Upper triangle of P M Pᵀ (perm[k] = original row of permuted row k), rows sorted, as CSC. */
 function permutedUpper(M: number[][], perm: Int32Array): CscMatrix {
