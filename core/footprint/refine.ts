@@ -64,39 +64,44 @@ export async function refineBudgetBoundary(
   // Coarse targets carry over exactly.
   for (let j = 0; j < ny; j++) for (let i = 0; i < nx; i++) copyTarget(coarse, j * nx + i, fine, j * r * nxF + i * r);
 
+  // Pass 1: every fine target of a cell the level crosses (its closed rectangle, edges included) is solved.
+  // Pass 2: the other fine targets of a cell wholly inside are filled; those of a cell wholly outside stay
+  // pending. (A target on the edge between a crossed cell and an inside one is solved, not filled.)
+  const cells: { corners: number[]; inside: boolean; crossed: boolean; i: number; j: number }[] = [];
   for (let j = 0; j + 1 < ny; j++) {
     for (let i = 0; i + 1 < nx; i++) {
       const corners = [j * nx + i, j * nx + i + 1, (j + 1) * nx + i, (j + 1) * nx + i + 1];
       const ins = corners.map(inside);
-      const crossed = ins.some((v) => v !== ins[0]);
-      for (let b = 0; b <= r; b++) {
-        for (let a = 0; a <= r; a++) {
-          if ((a === 0 || a === r) && (b === 0 || b === r)) continue; // a coarse target
-          const K = (j * r + b) * nxF + i * r + a;
-          const u = a / r;
-          const v = b / r;
-          const w = [(1 - u) * (1 - v), u * (1 - v), (1 - u) * v, u * v];
-          if (crossed) {
-            toSolve[K] = 1;
-            filled[K] = 0;
-            hint[K] = weighted(corners.map((c) => coarse.timeOfFlight_s[c]), w);
-          } else if (ins[0] && !toSolve[K]) {
-            // Wholly inside: a convex combination of values ≤ level stays ≤ level.
-            fine.status[K] = TARGET.reachable;
-            fine.propellant_kg[K] = weighted(corners.map((c) => coarse.propellant_kg[c]), w);
-            fine.timeOfFlight_s[K] = weighted(corners.map((c) => coarse.timeOfFlight_s[c]), w);
-            filled[K] = 1;
-          }
-        }
-      }
+      cells.push({ corners, inside: ins[0], crossed: ins.some((v) => v !== ins[0]), i, j });
     }
   }
-  for (let K = 0; K < toSolve.length; K++) {
-    if (toSolve[K] && filled[K]) filled[K] = 0;
-    if (toSolve[K]) {
-      fine.status[K] = TARGET.pending;
-      fine.propellant_kg[K] = NaN;
+  const eachFineTarget = (cell: (typeof cells)[number], f: (K: number, w: number[]) => void) => {
+    for (let b = 0; b <= r; b++) {
+      for (let a = 0; a <= r; a++) {
+        if ((a === 0 || a === r) && (b === 0 || b === r)) continue; // a coarse target
+        const u = a / r;
+        const v = b / r;
+        f((cell.j * r + b) * nxF + cell.i * r + a, [(1 - u) * (1 - v), u * (1 - v), (1 - u) * v, u * v]);
+      }
     }
+  };
+  for (const cell of cells) {
+    if (!cell.crossed) continue;
+    eachFineTarget(cell, (K, w) => {
+      toSolve[K] = 1;
+      hint[K] = weighted(cell.corners.map((c) => coarse.timeOfFlight_s[c]), w);
+    });
+  }
+  for (const cell of cells) {
+    if (cell.crossed || !cell.inside) continue;
+    eachFineTarget(cell, (K, w) => {
+      if (toSolve[K]) return;
+      // Wholly inside: a convex combination of values ≤ level stays ≤ level.
+      fine.status[K] = TARGET.reachable;
+      fine.propellant_kg[K] = weighted(cell.corners.map((c) => coarse.propellant_kg[c]), w);
+      fine.timeOfFlight_s[K] = weighted(cell.corners.map((c) => coarse.timeOfFlight_s[c]), w);
+      filled[K] = 1;
+    });
   }
 
   const jobs: RowJob[] = [];
@@ -123,12 +128,7 @@ export async function refineBudgetBoundary(
     onResult: (row, job) => {
       for (const I of job.columns ?? []) {
         const K = row.row * nxF + I;
-        fine.status[K] = row.status[I];
-        fine.propellant_kg[K] = row.propellant_kg[I];
-        fine.timeOfFlight_s[K] = row.timeOfFlight_s[I];
-        fine.peakTilt_deg[K] = row.peakTilt_deg[I];
-        fine.miss_m[K] = row.miss_m[I];
-        fine.solves[K] = row.solves[I];
+        copyTarget(row, I, fine, K);
         extraTargets++;
         extraSolves += row.solves[I];
       }
@@ -139,7 +139,10 @@ export async function refineBudgetBoundary(
   return { factor: r, field: fine, filled, extraTargets, extraSolves, region, cancelled: summary.cancelled };
 }
 
-function copyTarget(from: FootprintField, k: number, to: FootprintField, K: number): void {
+/** The per-target arrays a field and a finished row share. */
+type TargetArrays = Pick<FootprintField, 'status' | 'propellant_kg' | 'timeOfFlight_s' | 'peakTilt_deg' | 'miss_m' | 'solves'>;
+
+function copyTarget(from: TargetArrays, k: number, to: TargetArrays, K: number): void {
   to.status[K] = from.status[k];
   to.propellant_kg[K] = from.propellant_kg[k];
   to.timeOfFlight_s[K] = from.timeOfFlight_s[k];

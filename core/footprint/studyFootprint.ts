@@ -5,7 +5,9 @@
 import type { Study } from '../study/schema.ts';
 import { studyToDescent } from '../study/toDescent.ts';
 import type { FootprintSummary } from '../study/footprintExport.ts';
-import { niceStep } from '../study/footprintSvg.ts';
+import { footprintSvg, niceStep } from '../study/footprintSvg.ts';
+import { sampleColormap, VIRIDIS } from '../study/colormap.ts';
+import type { Ellipse } from './ellipse.ts';
 import { guaranteedDivertRadius, propellantRegions, regionBounds, type PropellantRegion, type DivertRadius } from './contours.ts';
 import type { DescentFootprintContext } from './descentEvaluator.ts';
 import type { BoundaryRefinement } from './refine.ts';
@@ -103,4 +105,22 @@ export function footprintFigures(
     };
   }
   return { summary, levels_kg, bands, reachable, divert };
+}
+
+/**
+ * The report map of a field and its figures (core/study/footprintSvg.ts): propellant bands in viridis, the
+ * reachable region at the budget, the guaranteed divert circle, and an optional landing ellipse.
+ */
+export function footprintMapSvg(field: FootprintField, figures: FootprintFigures, text: { title: string; caption: string[] }, ellipse?: Ellipse | null): string {
+  return footprintSvg({
+    title: text.title,
+    bounds_m: regionBounds(field),
+    bands: figures.bands,
+    reachable: figures.reachable,
+    budget_kg: figures.summary.budget_kg,
+    colormap: (t) => sampleColormap(VIRIDIS, t) as unknown as [number, number, number],
+    divertRadius_m: figures.divert.radius_m,
+    caption: text.caption,
+    ellipse,
+  });
 }

@@ -1,10 +1,7 @@
 /** The footprint's export files, built with core/study's exporters from the field the app holds (pure). */
 import type { FootprintField } from '../../core/footprint/field.ts';
-import type { FootprintFigures } from '../../core/footprint/studyFootprint.ts';
-import { sampleColormap, VIRIDIS } from '../../core/study/colormap.ts';
+import { footprintMapSvg, type FootprintFigures } from '../../core/footprint/studyFootprint.ts';
 import { footprintCsv, footprintGeoJson, footprintReport } from '../../core/study/footprintExport.ts';
-import { footprintSvg } from '../../core/study/footprintSvg.ts';
-import { regionBounds } from '../../core/footprint/contours.ts';
 import type { Study } from '../../core/study/schema.ts';
 
 export type FootprintExportKind = 'csv' | 'geojson' | 'json' | 'svg';
@@ -29,14 +26,8 @@ export function footprintExportText(kind: FootprintExportKind, r: FootprintResul
     case 'json':
       return footprintReport({ studyName: r.study.name, inputsHash: r.inputsHash, inputs: r.inputs, summary: figures.summary, field, contourLevels_kg: figures.levels_kg, createdAt });
     case 'svg':
-      return footprintSvg({
+      return footprintMapSvg(field, figures, {
         title: `Divert footprint — ${r.study.name}`,
-        bounds_m: regionBounds(field),
-        bands: figures.bands,
-        reachable: figures.reachable,
-        budget_kg: figures.summary.budget_kg,
-        colormap: (t) => sampleColormap(VIRIDIS, t) as unknown as [number, number, number],
-        divertRadius_m: figures.divert.radius_m,
         caption: [
           `${r.study.name} — ${field.nx} × ${field.ny} targets, N = ${r.inputs.nodes}, reserve ${figures.summary.reserve_kg} kg${figures.summary.cancelled ? ' — STOPPED EARLY: partial result' : ''}`,
           `Landreach ${r.appVersion}, ${createdAt}, inputs ${r.inputsHash.slice(0, 16)}`,

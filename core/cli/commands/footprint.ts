@@ -19,15 +19,12 @@ import { TerrainInputError } from '../../terrain/grid.ts';
 import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 import { footprintCsv, footprintGeoJson, footprintReport } from '../../study/footprintExport.ts';
-import { footprintSvg } from '../../study/footprintSvg.ts';
-import { sampleColormap, VIRIDIS } from '../../study/colormap.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { DescentSolver } from '../../descent/solver.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { reachBoundary } from '../../descent/reach.ts';
-import { regionBounds } from '../../footprint/contours.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
-import { FOOTPRINT_NODES, footprintContext, footprintFigures } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintContext, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
 
 const USAGE = `Usage: landreach footprint STUDY.json --out DIR [options]
 
@@ -229,13 +226,14 @@ export const footprintCommand: CliCommand = {
     const field = run.field;
     // Ctrl-C during the boundary refinement also makes the result partial.
     const cancelled = run.cancelled || (run.refinement?.cancelled ?? false);
-    const { summary, levels_kg: levels, bands, reachable, divert: radius } = footprintFigures(
+    const figures = footprintFigures(
       field,
       { usable_kg: usable, reserve_kg: reserve },
       { elapsed_s: run.progress.elapsed_s, cancelled },
       o.levels ?? undefined,
       run.refinement,
     );
+    const { summary, levels_kg: levels, bands, reachable, divert: radius } = figures;
     const counts = summary;
     const solves = summary.solves;
     const createdAt = new Date().toISOString();
@@ -249,16 +247,7 @@ export const footprintCommand: CliCommand = {
       { path: join(o.out, 'footprint.geojson'), text: JSON.stringify(footprintGeoJson({ contours: bands, reachable, reserve_kg: reserve, lonLat: placement?.lonLat })) },
       {
         path: join(o.out, 'footprint.svg'),
-        text: footprintSvg({
-          title: `Divert footprint — ${study.name}`,
-          bounds_m: regionBounds(field),
-          bands,
-          reachable,
-          budget_kg: budget,
-          colormap: (t) => sampleColormap(VIRIDIS, t) as unknown as [number, number, number],
-          divertRadius_m: radius.radius_m,
-          caption,
-        }),
+        text: footprintMapSvg(field, figures, { title: `Divert footprint — ${study.name}`, caption }),
       },
     ];
     writeFilesAtomically(files);

@@ -9,7 +9,7 @@ import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { readStudy, writeFilesAtomically } from '../files.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
-import { FOOTPRINT_NODES, footprintFigures } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
 import { makeTargetGrid, parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
 import { minimumAltitude, reserveStudy, type AltitudeStudyRow, type IgnitionRule } from '../../footprint/studies.ts';
 import type { Study } from '../../study/index.ts';
@@ -27,9 +27,6 @@ import {
   studyAtAltitude,
 } from '../../footprint/studyRuns.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { footprintSvg } from '../../study/footprintSvg.ts';
-import { sampleColormap, VIRIDIS } from '../../study/colormap.ts';
-import { regionBounds } from '../../footprint/contours.ts';
 import { altitudeStudyCsvLines, DISPERSION_MODEL, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReport } from '../../study/studyExport.ts';
 
 const USAGE = `Usage: landreach study reserve|ignition-altitude|dispersion STUDY.json --out DIR [options]
@@ -257,20 +254,13 @@ async function runDispersion(o: Common, study: Study, io: CliIo, hash: string) {
   const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
   const reserve = study.vehicle.propellantReserve_kg;
   const fig = footprintFigures(nominal.field, { usable_kg: usable, reserve_kg: reserve }, { elapsed_s: nominal.progress.elapsed_s, cancelled: nominal.cancelled });
-  const map = footprintSvg({
+  const map = footprintMapSvg(nominal.field, fig, {
     title: `Landing ellipse and divert footprint — ${study.name}`,
-    bounds_m: regionBounds(nominal.field),
-    bands: fig.bands,
-    reachable: fig.reachable,
-    budget_kg: usable - reserve,
-    colormap: (t) => sampleColormap(VIRIDIS, t) as unknown as [number, number, number],
-    divertRadius_m: fig.divert.radius_m,
-    ellipse: e,
     caption: [
       `${study.name} — ${(probability * 100).toFixed(1)} % ellipse of ${samples} dispersed samples (seed ${seed}); footprint ${o.grid[0]} × ${o.grid[1]}, N = ${o.nodes}, reserve ${reserve} kg${nominal.cancelled ? ' — STOPPED EARLY: partial footprint' : ''}`,
       `Landreach ${APP_VERSION}, ${new Date().toISOString()}, inputs ${hash.slice(0, 16)}`,
     ],
-  });
+  }, e);
   return {
     rows: [{ ...e }],
     csv,
