@@ -15,7 +15,7 @@ import type { CscMatrix } from '../linalg/csc.ts';
 import { ldlSymbolic } from '../linalg/ldl.ts';
 import { JsLdlSystem, type LdlSystem } from '../linalg/ldlSystem.ts';
 import { invertPermutation, minimumDegreeOrdering } from '../linalg/ordering.ts';
-import { WasmLdlSystem, wasmKernelsAvailable } from '../linalg/wasm/ldlWasm.ts';
+import { WasmLdlSystem, wasmKernelsAvailable, type WasmSystemOptions } from '../linalg/wasm/ldlWasm.ts';
 import type { Cone } from './cones/cone.ts';
 import type { KernelChoice } from './settings.ts';
 
@@ -47,8 +47,10 @@ export class KktSystem {
   readonly pinv: Int32Array;
   private readonly posA: Int32Array;
   private readonly posG: Int32Array;
-  private readonly posDiagXY: Int32Array;
-  private readonly posCone: Int32Array[];
+  /** Positions in `matrix.values` of the x and y diagonal entries (the static regularisation ±δ). */
+  readonly posDiagXY: Int32Array;
+  /** Per cone, the positions of its −(W² + δI) block entries, in the cone's blockPattern() order. */
+  readonly posCone: Int32Array[];
   private readonly sign: Int8Array;
   private readonly cones: readonly Cone[];
   /** Static regularisation in force for the current factorisation. */
@@ -65,6 +67,8 @@ export class KktSystem {
     G: CscMatrix,
     cones: readonly Cone[],
     private readonly options: KktOptions,
+    /** WebAssembly module and reserved memory for a caller that runs more kernels on this system's memory. */
+    wasm?: WasmSystemOptions,
   ) {
     const n = A.n;
     const p = A.m;
@@ -134,9 +138,9 @@ export class KktSystem {
     // The A and G entries: their product with [x; y; z] is [Aᵀy + Gᵀz; Ax; Gx] (couplingProduct).
     const coupling = new Uint8Array(nnz);
     for (let t = 0; t < nnz; t++) coupling[t] = srcKind[order[t]] === SRC_A || srcKind[order[t]] === SRC_G ? 1 : 0;
-    const useWasm = options.kernels === 'wasm' || (options.kernels === 'auto' && wasmKernelsAvailable());
+    const useWasm = wasm !== undefined || options.kernels === 'wasm' || (options.kernels === 'auto' && wasmKernelsAvailable());
     this.system = useWasm
-      ? new WasmLdlSystem(pattern, symbolic, this.sign, this.perm, coupling)
+      ? new WasmLdlSystem(pattern, symbolic, this.sign, this.perm, coupling, wasm)
       : new JsLdlSystem(pattern, symbolic, this.sign, this.perm, coupling);
     this.matrix = this.system.matrix;
 

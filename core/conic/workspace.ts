@@ -17,6 +17,7 @@ import { ruizEquilibrate, validateProblem, type Equilibration } from './problem.
 import { resolveSettings, type SolverSettings } from './settings.ts';
 import type { ConeSpec, ConicProblem, ConicSolution, SolveStatus } from './types.ts';
 import { type Residuals, assessIterate, emptyAssessment, type Assessment } from './termination.ts';
+import { WasmIteration, iterationBytes, iterationModule } from './wasm/iterationWasm.ts';
 
 /** New values for a problem of the same shape and sparsity pattern. */
 export interface ProblemUpdate {
@@ -67,7 +68,8 @@ export class ConicWorkspace {
   private readonly coneSpec: ConeSpec;
   private readonly scratch: Equilibration;
   private readonly norms = { b: 0, h: 0, c: 0, bs: 0, hs: 0, cs: 0 };
-  // Iterate.
+  // Iterate; x, y, z are consecutive parts of xyz.
+  private readonly xyz: Float64Array;
   private readonly x: Float64Array;
   private readonly y: Float64Array;
   private readonly z: Float64Array;
@@ -80,9 +82,10 @@ export class ConicWorkspace {
   private readonly ry: Float64Array;
   private readonly rz: Float64Array;
   private readonly rhs: Float64Array;
-  /** [x; y; z] and its product with the coupling blocks (residuals). */
-  private readonly stacked: Float64Array;
+  /** The product of [x; y; z] with the coupling blocks (residuals). */
   private readonly coupled: Float64Array;
+  /** The iteration on WebAssembly (null: the TypeScript step below). */
+  private readonly engine: WasmIteration | null;
   private readonly sol1: Float64Array;
   private readonly sol2: Float64Array;
   private readonly ds: Float64Array;
@@ -124,9 +127,6 @@ export class ConicWorkspace {
     this.c0 = problem.c.slice();
     this.b0 = problem.b.slice();
     this.h0 = problem.h.slice();
-    this.c = new Float64Array(n);
-    this.b = new Float64Array(p);
-    this.h = new Float64Array(m);
     this.D = new Float64Array(n);
     this.E = new Float64Array(p + m);
 
@@ -141,26 +141,40 @@ export class ConicWorkspace {
       offset += q;
     }
     this.degree = this.cones.reduce((sum, k) => sum + k.degree, 0);
+    this.coneSpec = { nonnegative: problem.cones.nonnegative, secondOrder: problem.cones.secondOrder.slice() };
 
-    this.x = new Float64Array(n);
-    this.y = new Float64Array(p);
-    this.z = new Float64Array(m);
-    this.s = new Float64Array(m);
-    this.lambda = new Float64Array(m);
-    this.rx = new Float64Array(n);
-    this.ry = new Float64Array(p);
-    this.rz = new Float64Array(m);
+    // The KKT system first: with the WebAssembly iteration, every vector below lives in its memory.
+    const kernels = this.settings.kernels;
+    const module = kernels === 'javascript' ? null : iterationModule();
+    if (kernels === 'wasm' && !module) throw new Error('WebAssembly kernels are not available here (set kernels: "javascript")');
+    const blockEntries = this.cones.reduce((sum, k) => sum + k.blockEntries, 0);
+    this.kkt = new KktSystem(this.As, this.Gs, this.cones, this.settings,
+      module ? { module, reserveBytes: iterationBytes(n, p, m, this.coneSpec, blockEntries) } : undefined);
+    this.engine = module ? new WasmIteration(this.kkt, this.coneSpec, this.settings, this.degree) : null;
+    const v = this.engine?.vectors;
     const dim = n + p + m;
-    this.rhs = new Float64Array(dim);
-    this.stacked = new Float64Array(dim);
-    this.coupled = new Float64Array(dim);
-    this.sol1 = new Float64Array(dim);
-    this.sol2 = new Float64Array(dim);
-    this.ds = new Float64Array(m);
-    this.dsScaled = new Float64Array(m);
-    this.dzScaled = new Float64Array(m);
-    this.tmpM = new Float64Array(m);
-    this.tmpM2 = new Float64Array(m);
+    this.c = v?.c ?? new Float64Array(n);
+    this.b = v?.b ?? new Float64Array(p);
+    this.h = v?.h ?? new Float64Array(m);
+    this.xyz = v?.xyz ?? new Float64Array(dim);
+    this.x = this.xyz.subarray(0, n);
+    this.y = this.xyz.subarray(n, n + p);
+    this.z = this.xyz.subarray(n + p);
+    this.s = v?.s ?? new Float64Array(m);
+    this.lambda = v?.lambda ?? new Float64Array(m);
+    const r = v?.rxyz ?? new Float64Array(dim);
+    this.rx = r.subarray(0, n);
+    this.ry = r.subarray(n, n + p);
+    this.rz = r.subarray(n + p);
+    this.rhs = v?.rhs ?? new Float64Array(dim);
+    this.coupled = v?.coupled ?? new Float64Array(dim);
+    this.sol1 = v?.sol1 ?? new Float64Array(dim);
+    this.sol2 = v?.sol2 ?? new Float64Array(dim);
+    this.ds = v?.ds ?? new Float64Array(m);
+    this.dsScaled = v?.dsScaled ?? new Float64Array(m);
+    this.dzScaled = v?.dzScaled ?? new Float64Array(m);
+    this.tmpM = v?.tmp ?? new Float64Array(m);
+    this.tmpM2 = v?.tmp2 ?? new Float64Array(m);
     this.ones = new Float64Array(m);
     this.res = {
       rx: this.rx, ry: this.ry, rz: this.rz, c: this.c, b: this.b, h: this.h,
@@ -169,10 +183,9 @@ export class ConicWorkspace {
     this.best = { x: new Float64Array(n), y: new Float64Array(p), z: new Float64Array(m), s: new Float64Array(m), tau: 1, kappa: 1 };
     for (const k of this.cones) k.addIdentity(this.ones, 1);
 
-    this.coneSpec = { nonnegative: problem.cones.nonnegative, secondOrder: problem.cones.secondOrder.slice() };
     this.scratch = { D: this.D, E: this.E, colMax: new Float64Array(n), rowMax: new Float64Array(p + m) };
     this.equilibrate(false);
-    this.kkt = new KktSystem(this.As, this.Gs, this.cones, this.settings);
+    this.kkt.setAG(this.As.values, this.Gs.values);
   }
 
   /** Replaces data values (same sizes, same sparsity patterns); the symbolic analysis is kept. */
@@ -336,12 +349,15 @@ export class ConicWorkspace {
   }
 
   private residuals(): Residuals {
-    const { c, b, h, x, y, z, s, tau, rx, ry, rz, res, n, p, m, stacked, coupled } = this;
+    const { c, b, h, x, y, z, s, tau, rx, ry, rz, res, n, p, m, coupled } = this;
+    res.tau = tau;
+    res.kappa = this.kappa;
+    if (this.engine) {
+      this.engine.residuals(tau, res);
+      return res;
+    }
     // [Aᵀy + Gᵀz; Ax; Gx] in one product with the KKT matrix's A and G entries.
-    stacked.set(x, 0);
-    stacked.set(y, n);
-    stacked.set(z, n + p);
-    this.kkt.couplingProduct(stacked, coupled);
+    this.kkt.couplingProduct(this.xyz, coupled);
     for (let j = 0; j < n; j++) rx[j] = coupled[j] + c[j] * tau;
     for (let i = 0; i < p; i++) ry[i] = coupled[n + i] - b[i] * tau;
     for (let i = 0; i < m; i++) rz[i] = s[i] + coupled[n + p + i] - h[i] * tau;
@@ -349,8 +365,6 @@ export class ConicWorkspace {
     res.by = dot(b, y);
     res.hz = dot(h, z);
     res.sz = dot(s, z);
-    res.tau = tau;
-    res.kappa = this.kappa;
     return res;
   }
 
@@ -358,6 +372,13 @@ export class ConicWorkspace {
   private step(res: Residuals): number | null {
     const { n, p, m, cones, kkt, rhs, sol1, sol2, lambda, s, z, ds, dsScaled, dzScaled, tmpM, tmpM2 } = this;
     const { tau, kappa } = this;
+    if (this.engine) {
+      this.factorisations++;
+      const alpha = this.engine.step(tau, kappa, res);
+      this.tau = this.engine.tau;
+      this.kappa = this.engine.kappa;
+      return alpha;
+    }
     for (const k of cones) if (!k.updateScaling(s, z, lambda)) return null;
     this.factorisations++;
     if (!kkt.updateAndFactor()) return null;
@@ -382,7 +403,8 @@ export class ConicWorkspace {
     const alphaAff = Math.min(1, this.stepToBoundary(dTauAff, dKappaAff));
 
     // Centring σ = (1 − α_aff)³ (Mehrotra's heuristic as in ECOS) and the second-order correction.
-    const sigma = Math.min(1, Math.max(1e-4, (1 - alphaAff) ** 3));
+    const oneMinus = 1 - alphaAff;
+    const sigma = Math.min(1, Math.max(1e-4, oneMinus * oneMinus * oneMinus));
     for (const k of cones) {
       k.jordanProduct(lambda, lambda, tmpM);
       k.jordanProduct(dsScaled, dzScaled, tmpM2);

@@ -45,7 +45,15 @@ export function wasmKernelsAvailable(): boolean {
   return kernelModule() !== null;
 }
 
-type Slot =
+/** Options for a system that shares its WebAssembly memory with more kernels. */
+export interface WasmSystemOptions {
+  /** A module exporting (at least) the kernels of assembly/kernels.ts; default: that module alone. */
+  module?: WebAssembly.Module;
+  /** Bytes to reserve after the system's own arrays, for the caller's use (see `reserved`). */
+  reserveBytes?: number;
+}
+
+export type Slot =
   | 'Ap' | 'Ai' | 'Ax' | 'Lp' | 'Li' | 'Rp' | 'Ri' | 'Rpos' | 'Lx' | 'Rx' | 'D' | 'Dinv' | 'y' | 'sign' | 'perm'
   | 'rhs' | 'out' | 'work' | 'bk' | 'correction' | 'product' | 'lastStep' | 'info' | 'mask';
 
@@ -55,8 +63,15 @@ export class WasmLdlSystem implements LdlSystem {
   regularisedPivots = 0;
   lastRefinementSteps = 0;
   lastRelativeResidual = 0;
+  /** The instance's exports (the kernels, and whatever else `options.module` exports). */
+  readonly exports: WebAssembly.Exports;
+  /** The memory every array lives in (fixed size: views on it stay valid). */
+  readonly memory: WebAssembly.Memory;
+  /** Byte offsets of the system's arrays in `memory`. */
+  readonly at: Readonly<Record<Slot, number>>;
+  /** Byte offset of the reserved region (`options.reserveBytes` long, 16-byte aligned). */
+  readonly reserved: number;
   private readonly k: KernelExports;
-  private readonly at: Record<Slot, number>;
   private readonly rhsView: Float64Array;
   private readonly outView: Float64Array;
   private readonly infoView: Float64Array;
@@ -67,8 +82,15 @@ export class WasmLdlSystem implements LdlSystem {
    * `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle;
    * `productMask[q]` ≠ 0 selects stored entry q for maskedProduct().
    */
-  constructor(pattern: CscMatrix, symbolic: LdlSymbolic, sign: Int8Array, perm: Int32Array, productMask: Uint8Array | null = null) {
-    const module = kernelModule();
+  constructor(
+    pattern: CscMatrix,
+    symbolic: LdlSymbolic,
+    sign: Int8Array,
+    perm: Int32Array,
+    productMask: Uint8Array | null = null,
+    options: WasmSystemOptions = {},
+  ) {
+    const module = options.module ?? kernelModule();
     if (!module) throw new Error('WebAssembly kernels are not available here (set kernels: "javascript")');
     checkUpperPattern(pattern);
     const n = pattern.n;
@@ -90,9 +112,12 @@ export class WasmLdlSystem implements LdlSystem {
       rhs: f64(n), out: f64(n), work: f64(n), bk: f64(n), correction: f64(n), product: f64(n), lastStep: f64(n),
       info: f64(1), mask: take(nnz),
     };
+    this.reserved = take(options.reserveBytes ?? 0);
     const pages = Math.ceil(size / 65536);
     const memory = new WebAssembly.Memory({ initial: pages, maximum: pages });
-    this.k = new WebAssembly.Instance(module, { env: { memory } }).exports as unknown as KernelExports;
+    this.memory = memory;
+    this.exports = new WebAssembly.Instance(module, { env: { memory } }).exports;
+    this.k = this.exports as unknown as KernelExports;
     const buf = memory.buffer;
     const a = this.at;
     const colPtr = new Int32Array(buf, a.Ap, n + 1);

@@ -1,0 +1,216 @@
+/**
+ * The interior-point iteration on WebAssembly (assembly/iteration.ts): the residuals and one whole
+ * predictor–corrector step per call, over the iterate, the data and the KKT factor laid out in one
+ * WebAssembly memory. The workspace (../workspace.ts) keeps initialisation, termination and the
+ * reduced-accuracy endings, and reads and writes the iterate through the typed-array views this class
+ * hands out, so the two sides share the numbers without copies. The TypeScript step in the workspace is
+ * the portable reference; the unit tests require both to take the same iterations to the same point.
+ */
+import type { LdlSystem } from '../../linalg/ldlSystem.ts';
+import { WasmLdlSystem, type Slot } from '../../linalg/wasm/ldlWasm.ts';
+import type { KktSystem } from '../kkt.ts';
+import type { ConeSpec } from '../types.ts';
+import { ITERATION_BASE64 } from './iteration.generated.ts';
+
+let compiled: WebAssembly.Module | null | undefined;
+
+/** The compiled iteration module, or null where WebAssembly is unavailable (compiled once per thread). */
+export function iterationModule(): WebAssembly.Module | null {
+  if (compiled !== undefined) return compiled;
+  try {
+    const text = atob(ITERATION_BASE64);
+    const bytes = new Uint8Array(text.length);
+    for (let i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
+    compiled = new WebAssembly.Module(bytes);
+  } catch {
+    compiled = null;
+  }
+  return compiled;
+}
+
+// i32 header and f64 scalar slots: mirrored from assembly/iteration.ts.
+const H = {
+  n: 0, p: 1, m: 2, l: 3, nsoc: 4, socOff: 5, socDim: 6, eta: 7, w: 8, posDiag: 9, posCone: 10,
+  Ap: 11, Ai: 12, Ax: 13, Lp: 14, Li: 15, Rp: 16, Ri: 17, Rpos: 18, Lx: 19, Rx: 20, D: 21, Dinv: 22, y: 23,
+  sign: 24, perm: 25, work: 26, bk: 27, correction: 28, product: 29, lastStep: 30, info: 31, mask: 32,
+  c: 34, b: 35, h: 36, xyz: 37, s: 38, lambda: 39, rxyz: 40, rhs: 41, sol1: 42, sol2: 43, ds: 44,
+  dsScaled: 45, dzScaled: 46, tmp: 47, tmp2: 48, ones: 49, coupled: 50, refineMax: 51, refineAffine: 52,
+  retries: 53,
+} as const;
+const HEADER_SLOTS = 64;
+const F = {
+  tau: 0, kappa: 1, cx: 2, by: 3, hz: 4, sz: 5, degree: 6, stepFraction: 7, staticReg: 8, dynEps: 9,
+  dynDelta: 10, refineTol: 11, delta: 12,
+} as const;
+const SCALAR_SLOTS = 16;
+const LDL_SLOTS: ReadonlyArray<Slot & keyof typeof H> = [
+  'Ap', 'Ai', 'Ax', 'Lp', 'Li', 'Rp', 'Ri', 'Rpos', 'Lx', 'Rx', 'D', 'Dinv', 'y', 'sign', 'perm', 'work', 'bk',
+  'correction', 'product', 'lastStep', 'info', 'mask',
+];
+
+interface IterationExports {
+  ipmResiduals(header: number, scalars: number): void;
+  ipmStep(header: number, scalars: number): number;
+}
+
+/** Settings the iteration reads (a subset of SolverSettings). */
+export interface IterationSettings {
+  stepFraction: number;
+  staticRegularisation: number;
+  dynamicRegularisationEps: number;
+  dynamicRegularisationDelta: number;
+  refinementTolerance: number;
+  refinementMaxIterations: number;
+}
+
+type VectorName = 'c' | 'b' | 'h' | 'xyz' | 's' | 'lambda' | 'rxyz' | 'rhs' | 'sol1' | 'sol2' | 'ds' | 'dsScaled' |
+  'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'coupled' | 'w';
+
+/** The arrays of the iteration and their lengths, in layout order. */
+function vectorLengths(n: number, p: number, m: number): Array<[VectorName, number]> {
+  const dim = n + p + m;
+  return [
+    ['c', n], ['b', p], ['h', m], ['xyz', dim], ['s', m], ['lambda', m], ['rxyz', dim], ['rhs', dim],
+    ['sol1', dim], ['sol2', dim], ['ds', m], ['dsScaled', m], ['dzScaled', m], ['tmp', m], ['tmp2', m],
+    ['ones', m], ['coupled', dim], ['w', m],
+  ];
+}
+
+const align = (bytes: number): number => (bytes + 15) & ~15;
+
+/** Bytes the iteration needs beside the LDLᵀ system's own arrays. */
+export function iterationBytes(n: number, p: number, m: number, cones: ConeSpec, coneBlockEntries: number): number {
+  const nsoc = cones.secondOrder.length;
+  let bytes = align(4 * HEADER_SLOTS) + align(8 * SCALAR_SLOTS);
+  for (const [, len] of vectorLengths(n, p, m)) bytes += align(8 * len);
+  bytes += 2 * align(4 * nsoc) + align(8 * nsoc) + align(4 * (n + p)) + align(4 * coneBlockEntries);
+  return bytes;
+}
+
+export class WasmIteration {
+  readonly vectors: Readonly<Record<VectorName, Float64Array>>;
+  private readonly header: Int32Array;
+  private readonly scalars: Float64Array;
+  private readonly headerAt: number;
+  private readonly scalarsAt: number;
+  private readonly k: IterationExports;
+
+  /**
+   * `kkt` must have been built on the iteration module with `iterationBytes(…)` reserved; `degree` is the
+   * sum of the cone degrees.
+   */
+  constructor(kkt: KktSystem, cones: ConeSpec, settings: IterationSettings, degree: number) {
+    const system: LdlSystem = kkt.system;
+    if (!(system instanceof WasmLdlSystem)) throw new Error('internal: the WebAssembly iteration needs a WebAssembly KKT system');
+    const { n, p, m } = kkt;
+    const buf = system.memory.buffer;
+    let at = system.reserved;
+    const take = (bytes: number): number => {
+      const offset = at;
+      at += align(bytes);
+      return offset;
+    };
+    this.headerAt = take(4 * HEADER_SLOTS);
+    this.scalarsAt = take(8 * SCALAR_SLOTS);
+    this.header = new Int32Array(buf, this.headerAt, HEADER_SLOTS);
+    this.scalars = new Float64Array(buf, this.scalarsAt, SCALAR_SLOTS);
+    const vectors = {} as Record<VectorName, Float64Array>;
+    const hdr = this.header;
+    for (const [name, len] of vectorLengths(n, p, m)) {
+      const offset = take(8 * len);
+      vectors[name] = new Float64Array(buf, offset, len);
+      hdr[H[name]] = offset;
+    }
+    this.vectors = vectors;
+
+    const nsoc = cones.secondOrder.length;
+    const socOff = take(4 * nsoc);
+    const socDim = take(4 * nsoc);
+    hdr[H.eta] = take(8 * nsoc);
+    const offsets = new Int32Array(buf, socOff, nsoc);
+    const dims = new Int32Array(buf, socDim, nsoc);
+    let offset = cones.nonnegative;
+    cones.secondOrder.forEach((q, i) => {
+      offsets[i] = offset;
+      dims[i] = q;
+      offset += q;
+    });
+    const posDiag = take(4 * (n + p));
+    new Int32Array(buf, posDiag, n + p).set(kkt.posDiagXY);
+    const blockEntries = kkt.posCone.reduce((sum, pos) => sum + pos.length, 0);
+    const posCone = take(4 * blockEntries);
+    const cone = new Int32Array(buf, posCone, blockEntries);
+    let k = 0;
+    for (const pos of kkt.posCone) {
+      cone.set(pos, k);
+      k += pos.length;
+    }
+    if (at > system.reserved + iterationBytes(n, p, m, cones, blockEntries)) throw new Error('internal: iteration layout overflow');
+
+    hdr[H.n] = n;
+    hdr[H.p] = p;
+    hdr[H.m] = m;
+    hdr[H.l] = cones.nonnegative;
+    hdr[H.nsoc] = nsoc;
+    hdr[H.socOff] = socOff;
+    hdr[H.socDim] = socDim;
+    hdr[H.posDiag] = posDiag;
+    hdr[H.posCone] = posCone;
+    for (const slot of LDL_SLOTS) hdr[H[slot]] = system.at[slot];
+    hdr[H.refineMax] = settings.refinementMaxIterations;
+    hdr[H.refineAffine] = Math.min(1, settings.refinementMaxIterations);
+    const f = this.scalars;
+    f[F.degree] = degree;
+    f[F.stepFraction] = settings.stepFraction;
+    f[F.staticReg] = settings.staticRegularisation;
+    f[F.dynEps] = settings.dynamicRegularisationEps;
+    f[F.dynDelta] = settings.dynamicRegularisationDelta;
+    f[F.refineTol] = settings.refinementTolerance;
+    const ones = vectors.ones;
+    ones.fill(0, cones.nonnegative);
+    ones.fill(1, 0, cones.nonnegative);
+    for (let i = 0; i < nsoc; i++) ones[offsets[i]] = 1;
+    this.k = system.exports as unknown as IterationExports;
+  }
+
+  /** Residuals at τ into `vectors.rxyz`, and the dots cᵀx, bᵀy, hᵀz, sᵀz into `out`. */
+  residuals(tau: number, out: { cx: number; by: number; hz: number; sz: number }): void {
+    const f = this.scalars;
+    f[F.tau] = tau;
+    this.k.ipmResiduals(this.headerAt, this.scalarsAt);
+    out.cx = f[F.cx];
+    out.by = f[F.by];
+    out.hz = f[F.hz];
+    out.sz = f[F.sz];
+  }
+
+  /**
+   * One predictor–corrector step from (τ, κ) and the dots of the last residuals(): updates the iterate in
+   * place (the new τ and κ are then `tau` and `kappa`) and returns the step length, or null on a numerical
+   * failure.
+   */
+  step(tau: number, kappa: number, dots: { cx: number; by: number; hz: number; sz: number }): number | null {
+    const f = this.scalars;
+    f[F.tau] = tau;
+    f[F.kappa] = kappa;
+    f[F.cx] = dots.cx;
+    f[F.by] = dots.by;
+    f[F.hz] = dots.hz;
+    f[F.sz] = dots.sz;
+    const alpha = this.k.ipmStep(this.headerAt, this.scalarsAt);
+    return alpha >= 0 ? alpha : null;
+  }
+
+  get tau(): number {
+    return this.scalars[F.tau];
+  }
+
+  get kappa(): number {
+    return this.scalars[F.kappa];
+  }
+
+  /** Factorisations retried with a larger static regularisation (diagnostic). */
+  get regularisationRetries(): number {
+    return this.header[H.retries];
+  }
+}
