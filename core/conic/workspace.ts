@@ -30,7 +30,7 @@ export interface ProblemUpdate {
   GValues?: Float64Array;
 }
 
-/** Refinement steps for the predictor (affine) solve; the corrector and τ-direction solves use the setting. */
+/** Refinement steps for the predictor (affine) solve at most; the corrector and τ-direction solves use the setting. */
 const AFFINE_REFINEMENT = 1;
 
 /** A starting point for solve(), in the problem's units. */
@@ -397,7 +397,9 @@ export class ConicWorkspace {
     for (const k of cones) k.jordanProduct(lambda, lambda, tmpM);
     for (let i = 0; i < m; i++) tmpM[i] = -tmpM[i];
     // The affine direction only sizes the centring and the second-order correction: one refinement step.
-    if (!this.direction(1, tmpM, -tau * kappa, tauPivot, rTau, res, AFFINE_REFINEMENT)) return null;
+    if (!this.direction(1, tmpM, -tau * kappa, tauPivot, rTau, res, Math.min(AFFINE_REFINEMENT, this.settings.refinementMaxIterations))) {
+      return null;
+    }
     const dTauAff = this.dTau;
     const dKappaAff = this.dKappa;
     const alphaAff = Math.min(1, this.stepToBoundary(dTauAff, dKappaAff));

@@ -35,7 +35,7 @@ const H = {
   sign: 24, perm: 25, work: 26, bk: 27, correction: 28, product: 29, lastStep: 30, info: 31, mask: 32,
   c: 34, b: 35, h: 36, xyz: 37, s: 38, lambda: 39, rxyz: 40, rhs: 41, sol1: 42, sol2: 43, ds: 44,
   dsScaled: 45, dzScaled: 46, tmp: 47, tmp2: 48, ones: 49, coupled: 50, refineMax: 51, refineAffine: 52,
-  retries: 53,
+  retries: 53, rhs2: 54, pair: 55,
 } as const;
 const HEADER_SLOTS = 64;
 const F = {
@@ -63,8 +63,8 @@ export interface IterationSettings {
   refinementMaxIterations: number;
 }
 
-type VectorName = 'c' | 'b' | 'h' | 'xyz' | 's' | 'lambda' | 'rxyz' | 'rhs' | 'sol1' | 'sol2' | 'ds' | 'dsScaled' |
-  'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'coupled' | 'w';
+type VectorName = 'c' | 'b' | 'h' | 'xyz' | 's' | 'lambda' | 'rxyz' | 'rhs' | 'rhs2' | 'sol1' | 'sol2' | 'ds' |
+  'dsScaled' | 'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'coupled' | 'w' | 'pair';
 
 /** The arrays of the iteration and their lengths, in layout order. */
 function vectorLengths(n: number, p: number, m: number): Array<[VectorName, number]> {
@@ -72,7 +72,9 @@ function vectorLengths(n: number, p: number, m: number): Array<[VectorName, numb
   return [
     ['c', n], ['b', p], ['h', m], ['xyz', dim], ['s', m], ['lambda', m], ['rxyz', dim], ['rhs', dim],
     ['sol1', dim], ['sol2', dim], ['ds', m], ['dsScaled', m], ['dzScaled', m], ['tmp', m], ['tmp2', m],
-    ['ones', m], ['coupled', dim], ['w', m],
+    ['ones', m], ['coupled', dim], ['w', m], ['rhs2', dim],
+    // Scratch of the two-right-hand-side refined solve: five interleaved pairs.
+    ['pair', 10 * dim],
   ];
 }
 

@@ -127,6 +127,56 @@ describe.runIf(wasmKernelsAvailable())('WebAssembly LDLᵀ kernels', () => {
     expect(entries).toBe(s.nnzL);
   });
 
+  it('solve two right-hand sides at once with the same bits as two single refined solves', () => {
+    // The SIMD pair kernel (ldlSolveRefinedPair) against the one-vector kernel: each side keeps its own
+    // refinement (own step limit; a zero right-hand side stops at once while the other side refines on).
+    const rng = new Rng(77);
+    for (let trial = 0; trial < 20; trial++) {
+      const n1 = rng.int(2, 30);
+      const n2 = rng.int(1, 25);
+      const M = quasiDefinite(rng, n1, n2, rng.uniform(0.05, 0.4));
+      const natural = permutedUpper(M, Int32Array.from(M, (_, i) => i));
+      const perm = minimumDegreeOrdering(natural);
+      const U = permutedUpper(M, perm);
+      const sign = Int8Array.from(perm, (orig) => (orig < n1 ? 1 : -1));
+      const dim = M.length;
+      const sys = new WasmLdlSystem(U, ldlSymbolic(U), sign, perm, null, { reserveBytes: 8 * (14 * dim + 2) });
+      sys.matrix.values.set(U.values);
+      expect(sys.refactor(1e-13, 1e-7)).toBe(true);
+      const buf = sys.memory.buffer;
+      const rhsA = sys.reserved;
+      const rhsB = rhsA + 8 * dim;
+      const outA = rhsB + 8 * dim;
+      const outB = outA + 8 * dim;
+      const pair = outB + 8 * dim;
+      const info = pair + 80 * dim;
+      const a = Float64Array.from(M, () => rng.normal());
+      const b = trial % 4 === 0 ? new Float64Array(dim) : Float64Array.from(M, () => rng.normal());
+      new Float64Array(buf, rhsA, dim).set(a);
+      new Float64Array(buf, rhsB, dim).set(b);
+      const shift = trial % 2 === 0 ? 0 : 1e-3;
+      const [maxA, maxB] = [rng.int(0, 3), rng.int(0, 3)];
+      const at = sys.at;
+      const k = sys.exports as unknown as Record<string, (...args: number[]) => number>;
+      const code = k.ldlSolveRefinedPair(
+        dim, at.Lp, at.Li, at.Lx, at.Rp, at.Ri, at.Rx, at.Dinv, at.Ap, at.Ai, at.Ax, at.sign, shift, at.perm,
+        rhsA, rhsB, outA, outB, pair, 1e-14, maxA, maxB, info,
+      );
+      expect(code).toBeGreaterThanOrEqual(0);
+      const pairA = new Float64Array(buf, outA, dim).slice();
+      const pairB = new Float64Array(buf, outB, dim).slice();
+      const infoPair = new Float64Array(buf, info, 2).slice();
+      const single = new Float64Array(dim);
+      expect(sys.solveRefined(a, single, shift, 1e-14, maxA)).toBe(true);
+      expect(Array.from(pairA)).toEqual(Array.from(single));
+      expect(code % 1024).toBe(sys.lastRefinementSteps);
+      expect(infoPair[0]).toBe(sys.lastRelativeResidual);
+      expect(sys.solveRefined(b, single, shift, 1e-14, maxB)).toBe(true);
+      expect(Array.from(pairB)).toEqual(Array.from(single));
+      expect(Math.floor(code / 1024)).toBe(sys.lastRefinementSteps);
+    }
+  });
+
   it('replace pivots of the wrong sign the same way (dynamic regularisation)', () => {
     // [[1, 1], [1, 1]] is singular; with expected signs (+, −) the second pivot 0 becomes −δ.
     const M = [[1, 1], [1, 1]];

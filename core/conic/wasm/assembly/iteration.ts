@@ -9,8 +9,8 @@
 // writes the byte offsets of the arrays and the sizes into an i32 header and the scalars into an f64
 // block. The slot numbers below are mirrored there.
 
-import { ldlRefactor, ldlSolveRefined, symmetricMaskedProduct } from '../../../linalg/wasm/assembly/kernels';
-export { ldlRefactor, ldlSolveRefined, symmetricMaskedProduct };
+import { ldlRefactor, ldlSolveRefined, ldlSolveRefinedPair, symmetricMaskedProduct } from '../../../linalg/wasm/assembly/kernels';
+export { ldlRefactor, ldlSolveRefined, ldlSolveRefinedPair, symmetricMaskedProduct };
 
 // i32 header slots.
 const H_N = 0;
@@ -66,6 +66,8 @@ const H_COUPLED = 50;
 const H_REFINE_MAX = 51;
 const H_REFINE_AFFINE = 52;
 const H_RETRIES = 53;
+const H_RHS2 = 54;
+const H_PAIR = 55;
 
 // f64 scalar slots.
 const F_TAU = 0;
@@ -356,6 +358,17 @@ function kktSolve(hdr: usize, fs: usize, rhs: usize, out: usize, maxSteps: i32):
   return r >= 0;
 }
 
+/** Two refined solves on one pass over the factor: K outA = rhsA, K outB = rhsB. */
+function kktSolvePair(hdr: usize, fs: usize, rhsA: usize, rhsB: usize, outA: usize, outB: usize, maxA: i32, maxB: i32): bool {
+  const dim = i32At(hdr, H_N) + i32At(hdr, H_P) + i32At(hdr, H_M);
+  const r = ldlSolveRefinedPair(
+    dim, ptr(hdr, H_LP), ptr(hdr, H_LI), ptr(hdr, H_LX), ptr(hdr, H_RP), ptr(hdr, H_RI), ptr(hdr, H_RX),
+    ptr(hdr, H_DINV), ptr(hdr, H_AP), ptr(hdr, H_AI), ptr(hdr, H_AX), ptr(hdr, H_SIGN), f64At(fs, F_DELTA),
+    ptr(hdr, H_PERM), rhsA, rhsB, outA, outB, ptr(hdr, H_PAIR), f64At(fs, F_REFINE_TOL), maxA, maxB, ptr(hdr, H_INFO),
+  );
+  return r >= 0;
+}
+
 // ---- the iteration ----
 
 /** Residuals of the embedding at the current iterate: r = [Aᵀy + Gᵀz + cτ; Ax − bτ; s + Gx − hτ] and the dots. */
@@ -390,29 +403,38 @@ export function ipmResiduals(hdr: usize, fs: usize): void {
 }
 
 /**
- * A search direction for residual reduction η, complementarity right-hand side `dsTarget` (scaled space)
- * and d_κ: leaves [Δx; Δy; Δz] in sol2, Δs in ds, W⁻¹Δs and WΔz in dsScaled and dzScaled, Δτ and Δκ in
- * the scalar block. False on a numerical failure.
+ * The right-hand side of a search direction for residual reduction η and complementarity right-hand side
+ * `dsTarget` (scaled space): u = W(λ \ d_s) into ds, and −η r − [0; 0; u] into `rhs`.
  */
-function direction(hdr: usize, fs: usize, eta: f64, dsTarget: usize, dKappa: f64, tauPivot: f64, rTau: f64, maxSteps: i32): bool {
+function directionRhs(hdr: usize, eta: f64, dsTarget: usize, rhs: usize): void {
+  const n = i32At(hdr, H_N);
+  const p = i32At(hdr, H_P);
+  const m = i32At(hdr, H_M);
+  const ds = ptr(hdr, H_DS);
+  const tmp2 = ptr(hdr, H_TMP2);
+  const r = ptr(hdr, H_RXYZ);
+  jordanDivide(hdr, ptr(hdr, H_LAMBDA), dsTarget, tmp2);
+  mulW(hdr, tmp2, ds);
+  for (let j = 0; j < n + p; j++) setF64(rhs, j, -eta * f64At(r, j));
+  for (let i = 0; i < m; i++) setF64(rhs, n + p + i, -eta * f64At(r, n + p + i) - f64At(ds, i));
+}
+
+/**
+ * Completes a direction from the solve in sol2 (of directionRhs's system) and d_κ: [Δx; Δy; Δz] in sol2,
+ * Δs in ds, W⁻¹Δs and WΔz in dsScaled and dzScaled, Δτ and Δκ in the scalar block. False when Δτ is not
+ * finite.
+ */
+function directionFinish(hdr: usize, fs: usize, eta: f64, dKappa: f64, tauPivot: f64, rTau: f64): bool {
   const n = i32At(hdr, H_N);
   const p = i32At(hdr, H_P);
   const m = i32At(hdr, H_M);
   const dim = n + p + m;
-  const lambda = ptr(hdr, H_LAMBDA);
   const ds = ptr(hdr, H_DS);
   const tmp2 = ptr(hdr, H_TMP2);
-  const rhs = ptr(hdr, H_RHS);
-  const r = ptr(hdr, H_RXYZ);
   const sol1 = ptr(hdr, H_SOL1);
   const sol2 = ptr(hdr, H_SOL2);
   const tau = f64At(fs, F_TAU);
   const kappa = f64At(fs, F_KAPPA);
-  jordanDivide(hdr, lambda, dsTarget, tmp2);
-  mulW(hdr, tmp2, ds);
-  for (let j = 0; j < n + p; j++) setF64(rhs, j, -eta * f64At(r, j));
-  for (let i = 0; i < m; i++) setF64(rhs, n + p + i, -eta * f64At(r, n + p + i) - f64At(ds, i));
-  if (!kktSolve(hdr, fs, rhs, sol2, maxSteps)) return false;
   const dTau =
     (-eta * rTau - dKappa / tau -
       (dotRange(ptr(hdr, H_C), n, sol2, 0) + dotRange(ptr(hdr, H_B), p, sol2, n) + dotRange(ptr(hdr, H_H), m, sol2, n + p))) /
@@ -457,22 +479,23 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   const rhs = ptr(hdr, H_RHS);
   const sol1 = ptr(hdr, H_SOL1);
 
-  // Solve 1 (direction of τ): K [x1; y1; z1] = [−c; b; h].
+  // Solve 1 (direction of τ), K [x1; y1; z1] = [−c; b; h], together with the affine (predictor) direction,
+  // d_s = −λ∘λ, d_κ = −τκ: two right-hand sides on one pass over the factor.
   for (let j = 0; j < n; j++) setF64(rhs, j, -f64At(c, j));
   memory.copy(rhs + (<usize>n << 3), b, <usize>p << 3);
   memory.copy(rhs + (<usize>(n + p) << 3), h, <usize>m << 3);
-  if (!kktSolve(hdr, fs, rhs, sol1, i32At(hdr, H_REFINE_MAX))) return -1;
-  const tauPivot = dotRange(c, n, sol1, 0) + dotRange(b, p, sol1, n) + dotRange(h, m, sol1, n + p) - kappa / tau;
-  const mu = (f64At(fs, F_SZ) + tau * kappa) / (f64At(fs, F_DEGREE) + 1);
-  const rTau = kappa + f64At(fs, F_CX) + f64At(fs, F_BY) + f64At(fs, F_HZ);
-
-  // Affine (predictor) direction: d_s = −λ∘λ, d_κ = −τκ.
   const lambda = ptr(hdr, H_LAMBDA);
   const tmp = ptr(hdr, H_TMP);
   const tmp2 = ptr(hdr, H_TMP2);
+  const rhs2 = ptr(hdr, H_RHS2);
   jordanProduct(hdr, lambda, lambda, tmp);
   for (let i = 0; i < m; i++) setF64(tmp, i, -f64At(tmp, i));
-  if (!direction(hdr, fs, 1, tmp, -tau * kappa, tauPivot, rTau, i32At(hdr, H_REFINE_AFFINE))) return -1;
+  directionRhs(hdr, 1, tmp, rhs2);
+  if (!kktSolvePair(hdr, fs, rhs, rhs2, sol1, ptr(hdr, H_SOL2), i32At(hdr, H_REFINE_MAX), i32At(hdr, H_REFINE_AFFINE))) return -1;
+  const tauPivot = dotRange(c, n, sol1, 0) + dotRange(b, p, sol1, n) + dotRange(h, m, sol1, n + p) - kappa / tau;
+  const mu = (f64At(fs, F_SZ) + tau * kappa) / (f64At(fs, F_DEGREE) + 1);
+  const rTau = kappa + f64At(fs, F_CX) + f64At(fs, F_BY) + f64At(fs, F_HZ);
+  if (!directionFinish(hdr, fs, 1, -tau * kappa, tauPivot, rTau)) return -1;
   const dTauAff = f64At(fs, F_DTAU);
   const dKappaAff = f64At(fs, F_DKAPPA);
   const alphaAff = Math.min(1, stepToBoundary(hdr, fs, dTauAff, dKappaAff));
@@ -485,7 +508,9 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   const ones = ptr(hdr, H_ONES);
   for (let i = 0; i < m; i++) setF64(tmp, i, -f64At(tmp, i) - f64At(tmp2, i) + sigma * mu * f64At(ones, i));
   const dKappaRhs = -tau * kappa - dTauAff * dKappaAff + sigma * mu;
-  if (!direction(hdr, fs, 1 - sigma, tmp, dKappaRhs, tauPivot, rTau, i32At(hdr, H_REFINE_MAX))) return -1;
+  directionRhs(hdr, 1 - sigma, tmp, rhs);
+  if (!kktSolve(hdr, fs, rhs, ptr(hdr, H_SOL2), i32At(hdr, H_REFINE_MAX))) return -1;
+  if (!directionFinish(hdr, fs, 1 - sigma, dKappaRhs, tauPivot, rTau)) return -1;
   const dTau = f64At(fs, F_DTAU);
   const dKappa = f64At(fs, F_DKAPPA);
   const alphaMax = stepToBoundary(hdr, fs, dTau, dKappa);

@@ -183,3 +183,154 @@ export function symmetricMaskedProduct(
   }
   for (let k = 0; k < n; k++) setF64(y, i32At(perm, k), f64At(yw, k));
 }
+
+// ---- two right-hand sides at once (WebAssembly SIMD: one f64x2 lane per right-hand side) ----
+// Vectors of the pair are interleaved: entry k of the first at 16k, of the second at 16k + 8. Each lane
+// runs exactly the operations of the one-vector kernels above, in the same order, so a pair gives the
+// same bits as two single solves for the price of little more than one pass over the factor.
+
+@inline function pairAt(base: usize, i: i32): v128 {
+  return v128.load(base + (<usize>i << 4));
+}
+@inline function setPair(base: usize, i: i32, v: v128): void {
+  v128.store(base + (<usize>i << 4), v);
+}
+
+/** ldlSolve on an interleaved pair, in place. */
+export function ldlSolvePair(n: i32, Lp: usize, Li: usize, Lx: usize, Rp: usize, Ri: usize, Rx: usize, Dinv: usize, x: usize): void {
+  for (let i = 0; i < n; i++) {
+    let s = pairAt(x, i);
+    const end = i32At(Rp, i + 1);
+    for (let q = i32At(Rp, i); q < end; q++) s = f64x2.sub(s, f64x2.mul(f64x2.splat(f64At(Rx, q)), pairAt(x, i32At(Ri, q))));
+    setPair(x, i, s);
+  }
+  for (let i = 0; i < n; i++) setPair(x, i, f64x2.mul(pairAt(x, i), f64x2.splat(f64At(Dinv, i))));
+  for (let i = n - 1; i >= 0; i--) {
+    let s = pairAt(x, i);
+    const end = i32At(Lp, i + 1);
+    for (let j = i32At(Lp, i); j < end; j++) s = f64x2.sub(s, f64x2.mul(f64x2.splat(f64At(Lx, j)), pairAt(x, i32At(Li, j))));
+    setPair(x, i, s);
+  }
+}
+
+/** symmetricUpperMulShifted on an interleaved pair. */
+export function symmetricUpperMulShiftedPair(n: i32, Ap: usize, Ai: usize, Ax: usize, sign: usize, delta: f64, x: usize, y: usize): void {
+  memory.fill(y, 0, <usize>n << 4);
+  for (let j = 0; j < n; j++) {
+    const xj = pairAt(x, j);
+    const last = i32At(Ap, j + 1) - 1;
+    let s = f64x2.mul(f64x2.splat(f64At(Ax, last) - <f64>load<i8>(sign + <usize>j) * delta), xj);
+    for (let q = i32At(Ap, j); q < last; q++) {
+      const i = i32At(Ai, q);
+      const v = f64x2.splat(f64At(Ax, q));
+      setPair(y, i, f64x2.add(pairAt(y, i), f64x2.mul(v, xj)));
+      s = f64x2.add(s, f64x2.mul(v, pairAt(x, i)));
+    }
+    setPair(y, j, f64x2.add(pairAt(y, j), s));
+  }
+}
+
+/**
+ * ldlSolveRefined for two right-hand sides at once: each runs its own refinement (own tolerance test,
+ * step limit, and taking back of a step that made its residual worse); a side that has stopped rides
+ * along with a zero correction. `pair` is scratch of 5 interleaved vectors (80 n bytes). Writes the
+ * final relative residuals to info[0], info[1]; returns stepsA + 1024 stepsB, negated minus one when
+ * either result is not finite.
+ */
+export function ldlSolveRefinedPair(
+  n: i32, Lp: usize, Li: usize, Lx: usize, Rp: usize, Ri: usize, Rx: usize, Dinv: usize,
+  Ap: usize, Ai: usize, Ax: usize, sign: usize, shift: f64, perm: usize,
+  rhsA: usize, rhsB: usize, outA: usize, outB: usize, pair: usize,
+  tolerance: f64, maxStepsA: i32, maxStepsB: i32, info: usize,
+): i32 {
+  const bytes = <usize>n << 4;
+  const work = pair;
+  const bk = pair + bytes;
+  const correction = pair + 2 * bytes;
+  const product = pair + 3 * bytes;
+  const lastStep = pair + 4 * bytes;
+  let normA: f64 = 0;
+  let normB: f64 = 0;
+  for (let k = 0; k < n; k++) {
+    const o = i32At(perm, k);
+    const a = f64At(rhsA, o);
+    const b = f64At(rhsB, o);
+    const v = f64x2.replace_lane(f64x2.splat(a), 1, b);
+    setPair(work, k, v);
+    setPair(bk, k, v);
+    if (abs(a) > normA) normA = abs(a);
+    if (abs(b) > normB) normB = abs(b);
+  }
+  ldlSolvePair(n, Lp, Li, Lx, Rp, Ri, Rx, Dinv, work);
+  const tolA = tolerance * (1 + normA);
+  const tolB = tolerance * (1 + normB);
+  let stepsA = 0;
+  let stepsB = 0;
+  let prevA: f64 = Infinity;
+  let prevB: f64 = Infinity;
+  let finalA: f64 = 0;
+  let finalB: f64 = 0;
+  let doneA = false;
+  let doneB = false;
+  while (true) {
+    symmetricUpperMulShiftedPair(n, Ap, Ai, Ax, sign, shift, work, product);
+    let rA: f64 = 0;
+    let rB: f64 = 0;
+    for (let k = 0; k < n; k++) {
+      const r = f64x2.sub(pairAt(bk, k), pairAt(product, k));
+      setPair(correction, k, r);
+      const a = abs(f64x2.extract_lane(r, 0));
+      const b = abs(f64x2.extract_lane(r, 1));
+      if (a > rA) rA = a;
+      if (b > rB) rB = b;
+    }
+    // Per side: take back a step that made things worse; stop at the tolerance, the limit, or a poor gain.
+    let keepA = false;
+    let keepB = false;
+    if (!doneA) {
+      if (rA > prevA) {
+        for (let k = 0; k < n; k++) store<f64>(work + (<usize>k << 4), load<f64>(work + (<usize>k << 4)) - load<f64>(lastStep + (<usize>k << 4)));
+        finalA = prevA;
+        doneA = true;
+      } else {
+        finalA = rA;
+        if (!(rA > tolA) || stepsA >= maxStepsA || rA > 0.2 * prevA) doneA = true;
+        else { prevA = rA; keepA = true; }
+      }
+    }
+    if (!doneB) {
+      if (rB > prevB) {
+        for (let k = 0; k < n; k++) store<f64>(work + (<usize>k << 4) + 8, load<f64>(work + (<usize>k << 4) + 8) - load<f64>(lastStep + (<usize>k << 4) + 8));
+        finalB = prevB;
+        doneB = true;
+      } else {
+        finalB = rB;
+        if (!(rB > tolB) || stepsB >= maxStepsB || rB > 0.2 * prevB) doneB = true;
+        else { prevB = rB; keepB = true; }
+      }
+    }
+    if (doneA && doneB) break;
+    // A stopped side's correction is cleared bitwise (+0 whatever it held), so its solution stays put.
+    const keep = i64x2.replace_lane(i64x2.splat(keepA ? -1 : 0), 1, keepB ? -1 : 0);
+    for (let k = 0; k < n; k++) setPair(correction, k, v128.and(pairAt(correction, k), keep));
+    ldlSolvePair(n, Lp, Li, Lx, Rp, Ri, Rx, Dinv, correction);
+    for (let k = 0; k < n; k++) setPair(work, k, f64x2.add(pairAt(work, k), pairAt(correction, k)));
+    memory.copy(lastStep, correction, bytes);
+    if (keepA) stepsA++;
+    if (keepB) stepsB++;
+  }
+  setF64(info, 0, finalA / (1 + normA));
+  setF64(info, 1, finalB / (1 + normB));
+  let finite = true;
+  for (let k = 0; k < n; k++) {
+    const o = i32At(perm, k);
+    const v = pairAt(work, k);
+    const a = f64x2.extract_lane(v, 0);
+    const b = f64x2.extract_lane(v, 1);
+    if (!isFinite(a) || !isFinite(b)) finite = false;
+    setF64(outA, o, a);
+    setF64(outB, o, b);
+  }
+  const steps = stepsA + 1024 * stepsB;
+  return finite ? steps : -1 - steps;
+}
