@@ -145,8 +145,10 @@ export function ldlSolveRefined(
     prevNorm = norm;
     ldlSolve(n, Lp, Li, Lx, Rp, Ri, Rx, Dinv, correction);
     for (let k = 0; k < n; k++) setF64(work, k, f64At(work, k) + f64At(correction, k));
-    memory.copy(lastStep, correction, <usize>n << 3);
     steps++;
+    // The residual after the last allowed step is not measured (see ldlSystem.ts).
+    if (steps >= maxSteps) break;
+    memory.copy(lastStep, correction, <usize>n << 3);
   }
   setF64(info, 0, finalNorm / (1 + rhsNorm));
   let finite = true;
@@ -315,9 +317,11 @@ export function ldlSolveRefinedPair(
     for (let k = 0; k < n; k++) setPair(correction, k, v128.and(pairAt(correction, k), keep));
     ldlSolvePair(n, Lp, Li, Lx, Rp, Ri, Rx, Dinv, correction);
     for (let k = 0; k < n; k++) setPair(work, k, f64x2.add(pairAt(work, k), pairAt(correction, k)));
+    // A side that has taken its last allowed step stops unmeasured (as in ldlSolveRefined).
+    if (keepA && ++stepsA >= maxStepsA) doneA = true;
+    if (keepB && ++stepsB >= maxStepsB) doneB = true;
+    if (doneA && doneB) break;
     memory.copy(lastStep, correction, bytes);
-    if (keepA) stepsA++;
-    if (keepB) stepsB++;
   }
   setF64(info, 0, finalA / (1 + normA));
   setF64(info, 1, finalB / (1 + normB));
