@@ -217,6 +217,16 @@ export class KktSystem {
     return finite;
   }
 
+  /** Two solve()s on one pass over the factor (see LdlSystem.solveRefinedPair). */
+  solvePair(rhsA: Float64Array, rhsB: Float64Array, outA: Float64Array, outB: Float64Array): boolean {
+    const o = this.options;
+    const finite = this.system.solveRefinedPair(rhsA, rhsB, outA, outB, this.delta, o.refinementTolerance,
+      o.refinementMaxIterations, o.refinementMaxIterations);
+    this.lastRefinementSteps = this.system.lastRefinementSteps;
+    this.lastRelativeResidual = this.system.lastRelativeResidual;
+    return finite;
+  }
+
   /**
    * out = [Aᵀy + Gᵀz; Ax; Gx] for v = [x; y; z] (both of length n + p + m, original order), from the A
    * and G values held in the KKT matrix: the products the residuals need, in one pass.

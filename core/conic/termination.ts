@@ -25,6 +25,10 @@ export interface Residuals {
   sz: number;
   tau: number;
   kappa: number;
+  /** ‖Ax − bτ‖∞, ‖s + Gx − hτ‖∞ and ‖Aᵀy + Gᵀz + cτ‖∞ in the problem's own units (rows divided by their scaling). */
+  equalityResidual: number;
+  coneResidual: number;
+  dualResidual: number;
   /** Equilibrated data vectors. */
   c: Float64Array;
   b: Float64Array;
@@ -64,6 +68,23 @@ export function emptyAssessment(): Assessment {
   };
 }
 
+/**
+ * The unscaled residual norms of `r` (its equalityResidual, coneResidual, dualResidual) from its
+ * equilibrated residual vectors; D and E are the column and row scalings.
+ */
+export function unscaledResidualNorms(r: Residuals, D: Float64Array, E: Float64Array): void {
+  const p = r.ry.length;
+  let presEq = 0;
+  for (let i = 0; i < p; i++) presEq = Math.max(presEq, Math.abs(r.ry[i] / E[i]));
+  let presCone = 0;
+  for (let i = 0; i < r.rz.length; i++) presCone = Math.max(presCone, Math.abs(r.rz[i] / E[p + i]));
+  let dres = 0;
+  for (let j = 0; j < r.rx.length; j++) dres = Math.max(dres, Math.abs(r.rx[j] / D[j]));
+  r.equalityResidual = presEq;
+  r.coneResidual = presCone;
+  r.dualResidual = dres;
+}
+
 /** Fills `out` (no allocation) with the measures of the iterate and its status, if it is final. */
 export function assessIterate(
   r: Residuals,
@@ -76,15 +97,9 @@ export function assessIterate(
 ): Assessment {
   const { tau, kappa } = r;
   const p = r.ry.length;
-  let presEq = 0;
-  for (let i = 0; i < p; i++) presEq = Math.max(presEq, Math.abs(r.ry[i] / E[i]));
-  let presCone = 0;
-  for (let i = 0; i < r.rz.length; i++) presCone = Math.max(presCone, Math.abs(r.rz[i] / E[p + i]));
-  let dres = 0;
-  for (let j = 0; j < r.rx.length; j++) dres = Math.max(dres, Math.abs(r.rx[j] / D[j]));
-  presEq /= tau;
-  presCone /= tau;
-  dres /= tau;
+  const presEq = r.equalityResidual / tau;
+  const presCone = r.coneResidual / tau;
+  const dres = r.dualResidual / tau;
   const primalObjective = r.cx / tau;
   const dualObjective = -(r.by + r.hz) / tau;
   const gap = Math.max(Math.abs(primalObjective - dualObjective), r.sz / (tau * tau));

@@ -16,7 +16,7 @@ import { KktSystem } from './kkt.ts';
 import { ruizEquilibrate, validateProblem, type Equilibration } from './problem.ts';
 import { resolveSettings, type SolverSettings } from './settings.ts';
 import type { ConeSpec, ConicProblem, ConicSolution, SolveStatus } from './types.ts';
-import { type Residuals, assessIterate, emptyAssessment, type Assessment } from './termination.ts';
+import { type Residuals, assessIterate, emptyAssessment, type Assessment, unscaledResidualNorms } from './termination.ts';
 import { WasmIteration, iterationBytes, iterationModule } from './wasm/iterationWasm.ts';
 
 /** New values for a problem of the same shape and sparsity pattern. */
@@ -127,8 +127,6 @@ export class ConicWorkspace {
     this.c0 = problem.c.slice();
     this.b0 = problem.b.slice();
     this.h0 = problem.h.slice();
-    this.D = new Float64Array(n);
-    this.E = new Float64Array(p + m);
 
     this.cones = [];
     let offset = 0;
@@ -153,6 +151,8 @@ export class ConicWorkspace {
     this.engine = module ? new WasmIteration(this.kkt, this.coneSpec, this.settings, this.degree) : null;
     const v = this.engine?.vectors;
     const dim = n + p + m;
+    this.D = v?.colScale ?? new Float64Array(n);
+    this.E = v?.rowScale ?? new Float64Array(p + m);
     this.c = v?.c ?? new Float64Array(n);
     this.b = v?.b ?? new Float64Array(p);
     this.h = v?.h ?? new Float64Array(m);
@@ -178,7 +178,7 @@ export class ConicWorkspace {
     this.ones = new Float64Array(m);
     this.res = {
       rx: this.rx, ry: this.ry, rz: this.rz, c: this.c, b: this.b, h: this.h,
-      cx: 0, by: 0, hz: 0, sz: 0, tau: 1, kappa: 1,
+      cx: 0, by: 0, hz: 0, sz: 0, tau: 1, kappa: 1, equalityResidual: NaN, coneResidual: NaN, dualResidual: NaN,
     };
     this.best = { x: new Float64Array(n), y: new Float64Array(p), z: new Float64Array(m), s: new Float64Array(m), tau: 1, kappa: 1 };
     for (const k of this.cones) k.addIdentity(this.ones, 1);
@@ -304,20 +304,19 @@ export class ConicWorkspace {
     for (const k of cones) k.setIdentityScaling();
     this.factorisations++;
     if (!kkt.updateAndFactor()) return false;
-    // Primal: min ‖Gx − h‖² s.t. Ax = b  →  s = h − Gx.
+    // Primal, min ‖Gx − h‖² s.t. Ax = b → s = h − Gx, and dual, min ‖z‖² s.t. Aᵀy + Gᵀz + c = 0: one pair.
+    const { sol2, coupled: rhs2 } = this;
     rhs.fill(0);
     rhs.set(this.b, n);
     rhs.set(this.h, n + p);
-    if (!kkt.solve(rhs, sol1)) return false;
+    rhs2.fill(0);
+    for (let j = 0; j < n; j++) rhs2[j] = -this.c[j];
+    if (!kkt.solvePair(rhs, rhs2, sol1, sol2)) return false;
     this.x.set(sol1.subarray(0, n));
     for (let i = 0; i < m; i++) this.s[i] = -sol1[n + p + i];
     shiftIntoCone(cones, this.s);
-    // Dual: min ‖z‖² s.t. Aᵀy + Gᵀz + c = 0.
-    rhs.fill(0);
-    for (let j = 0; j < n; j++) rhs[j] = -this.c[j];
-    if (!kkt.solve(rhs, sol1)) return false;
-    this.y.set(sol1.subarray(n, n + p));
-    this.z.set(sol1.subarray(n + p));
+    this.y.set(sol2.subarray(n, n + p));
+    this.z.set(sol2.subarray(n + p));
     shiftIntoCone(cones, this.z);
     this.tau = 1;
     this.kappa = 1;
@@ -365,6 +364,7 @@ export class ConicWorkspace {
     res.by = dot(b, y);
     res.hz = dot(h, z);
     res.sz = dot(s, z);
+    unscaledResidualNorms(res, this.D, this.E);
     return res;
   }
 

@@ -32,6 +32,15 @@ export interface LdlSystem {
    */
   solveRefined(b: Float64Array, x: Float64Array, shift: number, tolerance: number, maxSteps: number): boolean;
   /**
+   * Two solveRefined() at once, S xA = bA and S xB = bB, each with its own step limit: the same results
+   * (the WebAssembly kernel runs both on one pass over the factor). lastRelativeResidual and
+   * lastRefinementSteps are the larger of the two. False if either solution is not finite.
+   */
+  solveRefinedPair(
+    bA: Float64Array, bB: Float64Array, xA: Float64Array, xB: Float64Array,
+    shift: number, tolerance: number, maxStepsA: number, maxStepsB: number,
+  ): boolean;
+  /**
    * y = M x, M the symmetric matrix of the stored off-diagonal entries selected by the construction's
    * `productMask` (x and y in the original order). Throws if no mask was given.
    */
@@ -164,6 +173,19 @@ export class JsLdlSystem implements LdlSystem {
       out[perm[k]] = v;
     }
     return finite;
+  }
+
+  solveRefinedPair(
+    bA: Float64Array, bB: Float64Array, xA: Float64Array, xB: Float64Array,
+    shift: number, tolerance: number, maxStepsA: number, maxStepsB: number,
+  ): boolean {
+    const okA = this.solveRefined(bA, xA, shift, tolerance, maxStepsA);
+    const residualA = this.lastRelativeResidual;
+    const stepsA = this.lastRefinementSteps;
+    const okB = this.solveRefined(bB, xB, shift, tolerance, maxStepsB);
+    this.lastRelativeResidual = Math.max(residualA, this.lastRelativeResidual);
+    this.lastRefinementSteps = Math.max(stepsA, this.lastRefinementSteps);
+    return okA && okB;
   }
 
   /** y = S₀ x with S₀ = S − shift·diag(sign), S from its stored upper triangle; two accumulators per column. */

@@ -9,6 +9,7 @@
 import type { LdlSystem } from '../../linalg/ldlSystem.ts';
 import { WasmLdlSystem, type Slot } from '../../linalg/wasm/ldlWasm.ts';
 import type { KktSystem } from '../kkt.ts';
+import type { Residuals } from '../termination.ts';
 import type { ConeSpec } from '../types.ts';
 import { ITERATION_BASE64 } from './iteration.generated.ts';
 
@@ -35,17 +36,17 @@ const H = {
   sign: 24, perm: 25, work: 26, bk: 27, correction: 28, product: 29, lastStep: 30, info: 31, mask: 32,
   c: 34, b: 35, h: 36, xyz: 37, s: 38, lambda: 39, rxyz: 40, rhs: 41, sol1: 42, sol2: 43, ds: 44,
   dsScaled: 45, dzScaled: 46, tmp: 47, tmp2: 48, ones: 49, coupled: 50, refineMax: 51, refineAffine: 52,
-  retries: 53, rhs2: 54, pair: 55,
+  retries: 53, rhs2: 54, pair: 55, colScale: 56, rowScale: 57,
 } as const;
 const HEADER_SLOTS = 64;
 const F = {
   tau: 0, kappa: 1, cx: 2, by: 3, hz: 4, sz: 5, degree: 6, stepFraction: 7, staticReg: 8, dynEps: 9,
-  dynDelta: 10, refineTol: 11, delta: 12,
+  dynDelta: 10, refineTol: 11, delta: 12, presEq: 16, presCone: 17, dres: 18,
 } as const;
-const SCALAR_SLOTS = 16;
+const SCALAR_SLOTS = 24;
 const LDL_SLOTS: ReadonlyArray<Slot & keyof typeof H> = [
   'Ap', 'Ai', 'Ax', 'Lp', 'Li', 'Rp', 'Ri', 'Rpos', 'Lx', 'Rx', 'D', 'Dinv', 'y', 'sign', 'perm', 'work', 'bk',
-  'correction', 'product', 'lastStep', 'info', 'mask',
+  'correction', 'product', 'lastStep', 'info', 'mask', 'pair',
 ];
 
 interface IterationExports {
@@ -64,7 +65,7 @@ export interface IterationSettings {
 }
 
 type VectorName = 'c' | 'b' | 'h' | 'xyz' | 's' | 'lambda' | 'rxyz' | 'rhs' | 'rhs2' | 'sol1' | 'sol2' | 'ds' |
-  'dsScaled' | 'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'coupled' | 'w' | 'pair';
+  'dsScaled' | 'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'coupled' | 'w' | 'colScale' | 'rowScale';
 
 /** The arrays of the iteration and their lengths, in layout order. */
 function vectorLengths(n: number, p: number, m: number): Array<[VectorName, number]> {
@@ -72,9 +73,7 @@ function vectorLengths(n: number, p: number, m: number): Array<[VectorName, numb
   return [
     ['c', n], ['b', p], ['h', m], ['xyz', dim], ['s', m], ['lambda', m], ['rxyz', dim], ['rhs', dim],
     ['sol1', dim], ['sol2', dim], ['ds', m], ['dsScaled', m], ['dzScaled', m], ['tmp', m], ['tmp2', m],
-    ['ones', m], ['coupled', dim], ['w', m], ['rhs2', dim],
-    // Scratch of the two-right-hand-side refined solve: five interleaved pairs.
-    ['pair', 10 * dim],
+    ['ones', m], ['coupled', dim], ['w', m], ['rhs2', dim], ['colScale', n], ['rowScale', p + m],
   ];
 }
 
@@ -175,8 +174,11 @@ export class WasmIteration {
     this.k = system.exports as unknown as IterationExports;
   }
 
-  /** Residuals at τ into `vectors.rxyz`, and the dots cᵀx, bᵀy, hᵀz, sᵀz into `out`. */
-  residuals(tau: number, out: { cx: number; by: number; hz: number; sz: number }): void {
+  /**
+   * Residuals at τ into `vectors.rxyz`; the dots cᵀx, bᵀy, hᵀz, sᵀz and the unscaled residual norms
+   * (see Residuals) into `out`.
+   */
+  residuals(tau: number, out: Residuals): void {
     const f = this.scalars;
     f[F.tau] = tau;
     this.k.ipmResiduals(this.headerAt, this.scalarsAt);
@@ -184,6 +186,9 @@ export class WasmIteration {
     out.by = f[F.by];
     out.hz = f[F.hz];
     out.sz = f[F.sz];
+    out.equalityResidual = f[F.presEq];
+    out.coneResidual = f[F.presCone];
+    out.dualResidual = f[F.dres];
   }
 
   /**

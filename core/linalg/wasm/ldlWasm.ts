@@ -22,6 +22,12 @@ interface KernelExports {
     tolerance: number, maxSteps: number, info: number,
   ): number;
   symmetricMaskedProduct(n: number, Ap: number, Ai: number, Ax: number, mask: number, perm: number, x: number, y: number, xw: number, yw: number): void;
+  ldlSolveRefinedPair(
+    n: number, Lp: number, Li: number, Lx: number, Rp: number, Ri: number, Rx: number, Dinv: number,
+    Ap: number, Ai: number, Ax: number, sign: number, shift: number, perm: number,
+    rhsA: number, rhsB: number, outA: number, outB: number, pair: number,
+    tolerance: number, maxStepsA: number, maxStepsB: number, info: number,
+  ): number;
 }
 
 let compiled: WebAssembly.Module | null | undefined;
@@ -55,7 +61,7 @@ export interface WasmSystemOptions {
 
 export type Slot =
   | 'Ap' | 'Ai' | 'Ax' | 'Lp' | 'Li' | 'Rp' | 'Ri' | 'Rpos' | 'Lx' | 'Rx' | 'D' | 'Dinv' | 'y' | 'sign' | 'perm'
-  | 'rhs' | 'out' | 'work' | 'bk' | 'correction' | 'product' | 'lastStep' | 'info' | 'mask';
+  | 'rhs' | 'out' | 'work' | 'bk' | 'correction' | 'product' | 'lastStep' | 'info' | 'mask' | 'rhs2' | 'out2' | 'pair';
 
 export class WasmLdlSystem implements LdlSystem {
   readonly matrix: CscMatrix;
@@ -75,6 +81,8 @@ export class WasmLdlSystem implements LdlSystem {
   private readonly rhsView: Float64Array;
   private readonly outView: Float64Array;
   private readonly infoView: Float64Array;
+  private readonly rhs2View: Float64Array;
+  private readonly out2View: Float64Array;
 
   private readonly hasMask: boolean;
 
@@ -110,7 +118,9 @@ export class WasmLdlSystem implements LdlSystem {
       Lp: i32(n + 1), Li: i32(nnzL), Rp: i32(n + 1), Ri: i32(nnzL), Rpos: i32(nnzL),
       Lx: f64(nnzL), Rx: f64(nnzL), D: f64(n), Dinv: f64(n), y: f64(n), sign: take(n), perm: i32(n),
       rhs: f64(n), out: f64(n), work: f64(n), bk: f64(n), correction: f64(n), product: f64(n), lastStep: f64(n),
-      info: f64(1), mask: take(nnz),
+      info: f64(2), mask: take(nnz),
+      // The two-right-hand-side solve: a second right-hand side and solution, and five interleaved pairs.
+      rhs2: f64(n), out2: f64(n), pair: f64(10 * n),
     };
     this.reserved = take(options.reserveBytes ?? 0);
     const pages = Math.ceil(size / 65536);
@@ -134,7 +144,9 @@ export class WasmLdlSystem implements LdlSystem {
     new Int32Array(buf, a.perm, n).set(perm.subarray(0, n));
     this.rhsView = new Float64Array(buf, a.rhs, n);
     this.outView = new Float64Array(buf, a.out, n);
-    this.infoView = new Float64Array(buf, a.info, 1);
+    this.infoView = new Float64Array(buf, a.info, 2);
+    this.rhs2View = new Float64Array(buf, a.rhs2, n);
+    this.out2View = new Float64Array(buf, a.out2, n);
     this.hasMask = productMask !== null;
     if (productMask) new Uint8Array(buf, a.mask, nnz).set(productMask.subarray(0, nnz));
     this.symbolic = symbolic;
@@ -169,6 +181,26 @@ export class WasmLdlSystem implements LdlSystem {
     out.set(this.outView);
     this.lastRefinementSteps = r >= 0 ? r : -1 - r;
     this.lastRelativeResidual = this.infoView[0];
+    return r >= 0;
+  }
+
+  solveRefinedPair(
+    bA: Float64Array, bB: Float64Array, xA: Float64Array, xB: Float64Array,
+    shift: number, tolerance: number, maxStepsA: number, maxStepsB: number,
+  ): boolean {
+    const a = this.at;
+    const n = this.symbolic.n;
+    this.rhsView.set(bA.length === n ? bA : bA.subarray(0, n));
+    this.rhs2View.set(bB.length === n ? bB : bB.subarray(0, n));
+    const r = this.k.ldlSolveRefinedPair(
+      n, a.Lp, a.Li, a.Lx, a.Rp, a.Ri, a.Rx, a.Dinv, a.Ap, a.Ai, a.Ax, a.sign, shift, a.perm,
+      a.rhs, a.rhs2, a.out, a.out2, a.pair, tolerance, maxStepsA, maxStepsB, a.info,
+    );
+    xA.set(this.outView);
+    xB.set(this.out2View);
+    const steps = r >= 0 ? r : -1 - r;
+    this.lastRefinementSteps = Math.max(steps % 1024, Math.floor(steps / 1024));
+    this.lastRelativeResidual = Math.max(this.infoView[0], this.infoView[1]);
     return r >= 0;
   }
 }

@@ -68,6 +68,8 @@ const H_REFINE_AFFINE = 52;
 const H_RETRIES = 53;
 const H_RHS2 = 54;
 const H_PAIR = 55;
+const H_DSCALE = 56;
+const H_ESCALE = 57;
 
 // f64 scalar slots.
 const F_TAU = 0;
@@ -85,6 +87,9 @@ const F_REFINE_TOL = 11;
 const F_DELTA = 12;
 const F_DTAU = 14;
 const F_DKAPPA = 15;
+const F_PRES_EQ = 16;
+const F_PRES_CONE = 17;
+const F_DRES = 18;
 
 @inline function f64At(base: usize, i: i32): f64 {
   return load<f64>(base + (<usize>i << 3));
@@ -396,6 +401,18 @@ export function ipmResiduals(hdr: usize, fs: usize): void {
   setF64(fs, F_BY, dotRange(b, p, xyz, n));
   setF64(fs, F_HZ, dotRange(h, m, xyz, n + p));
   setF64(fs, F_SZ, dotRange(s, m, z0(hdr), 0));
+  // The residual norms in the problem's own units (termination.ts: unscaledResidualNorms).
+  const D = ptr(hdr, H_DSCALE);
+  const E = ptr(hdr, H_ESCALE);
+  let presEq: f64 = 0;
+  for (let i = 0; i < p; i++) presEq = Math.max(presEq, Math.abs(f64At(r, n + i) / f64At(E, i)));
+  let presCone: f64 = 0;
+  for (let i = 0; i < m; i++) presCone = Math.max(presCone, Math.abs(f64At(r, n + p + i) / f64At(E, p + i)));
+  let dres: f64 = 0;
+  for (let j = 0; j < n; j++) dres = Math.max(dres, Math.abs(f64At(r, j) / f64At(D, j)));
+  setF64(fs, F_PRES_EQ, presEq);
+  setF64(fs, F_PRES_CONE, presCone);
+  setF64(fs, F_DRES, dres);
 }
 
 @inline function z0(hdr: usize): usize {
