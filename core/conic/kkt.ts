@@ -135,13 +135,10 @@ export class KktSystem {
     this.sign = new Int8Array(dim);
     for (let k = 0; k < dim; k++) this.sign[k] = this.perm[k] < n ? 1 : -1;
     const symbolic = ldlSymbolic(pattern);
-    // The A and G entries: their product with [x; y; z] is [Aᵀy + Gᵀz; Ax; Gx] (couplingProduct).
-    const coupling = new Uint8Array(nnz);
-    for (let t = 0; t < nnz; t++) coupling[t] = srcKind[order[t]] === SRC_A || srcKind[order[t]] === SRC_G ? 1 : 0;
     const useWasm = wasm !== undefined || options.kernels === 'wasm' || (options.kernels === 'auto' && wasmKernelsAvailable());
     this.system = useWasm
-      ? new WasmLdlSystem(pattern, symbolic, this.sign, this.perm, coupling, wasm)
-      : new JsLdlSystem(pattern, symbolic, this.sign, this.perm, coupling);
+      ? new WasmLdlSystem(pattern, symbolic, this.sign, this.perm, wasm)
+      : new JsLdlSystem(pattern, symbolic, this.sign, this.perm);
     this.matrix = this.system.matrix;
 
     this.posA = new Int32Array(A.colPtr[n]);
@@ -225,14 +222,6 @@ export class KktSystem {
     this.lastRefinementSteps = this.system.lastRefinementSteps;
     this.lastRelativeResidual = this.system.lastRelativeResidual;
     return finite;
-  }
-
-  /**
-   * out = [Aᵀy + Gᵀz; Ax; Gx] for v = [x; y; z] (both of length n + p + m, original order), from the A
-   * and G values held in the KKT matrix: the products the residuals need, in one pass.
-   */
-  couplingProduct(v: Float64Array, out: Float64Array): void {
-    this.system.maskedProduct(v, out);
   }
 
   /** Number of stored entries of the factor L (fill-in diagnostic). */

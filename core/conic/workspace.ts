@@ -58,6 +58,7 @@ export class ConicWorkspace {
   private readonly c0: Float64Array;
   private readonly b0: Float64Array;
   private readonly h0: Float64Array;
+  /** Equilibrated A and G (in the WebAssembly memory with the WebAssembly iteration). */
   private readonly As: CscMatrix;
   private readonly Gs: CscMatrix;
   private readonly c: Float64Array;
@@ -82,8 +83,8 @@ export class ConicWorkspace {
   private readonly ry: Float64Array;
   private readonly rz: Float64Array;
   private readonly rhs: Float64Array;
-  /** The product of [x; y; z] with the coupling blocks (residuals). */
-  private readonly coupled: Float64Array;
+  /** A second right-hand side (the cold start's pair of solves). */
+  private readonly rhs2: Float64Array;
   /** The iteration on WebAssembly (null: the TypeScript step below). */
   private readonly engine: WasmIteration | null;
   private readonly sol1: Float64Array;
@@ -122,8 +123,6 @@ export class ConicWorkspace {
     });
     this.A = copy(problem.A);
     this.G = copy(problem.G);
-    this.As = copy(problem.A);
-    this.Gs = copy(problem.G);
     this.c0 = problem.c.slice();
     this.b0 = problem.b.slice();
     this.h0 = problem.h.slice();
@@ -146,9 +145,11 @@ export class ConicWorkspace {
     const module = kernels === 'javascript' ? null : iterationModule();
     if (kernels === 'wasm' && !module) throw new Error('WebAssembly kernels are not available here (set kernels: "javascript")');
     const blockEntries = this.cones.reduce((sum, k) => sum + k.blockEntries, 0);
-    this.kkt = new KktSystem(this.As, this.Gs, this.cones, this.settings,
-      module ? { module, reserveBytes: iterationBytes(n, p, m, this.coneSpec, blockEntries) } : undefined);
-    this.engine = module ? new WasmIteration(this.kkt, this.coneSpec, this.settings, this.degree) : null;
+    this.kkt = new KktSystem(this.A, this.G, this.cones, this.settings,
+      module ? { module, reserveBytes: iterationBytes(this.A, this.G, this.coneSpec, blockEntries) } : undefined);
+    this.engine = module ? new WasmIteration(this.kkt, this.A, this.G, this.coneSpec, this.settings, this.degree) : null;
+    this.As = this.engine?.As ?? copy(problem.A);
+    this.Gs = this.engine?.Gs ?? copy(problem.G);
     const v = this.engine?.vectors;
     const dim = n + p + m;
     this.D = v?.colScale ?? new Float64Array(n);
@@ -167,7 +168,7 @@ export class ConicWorkspace {
     this.ry = r.subarray(n, n + p);
     this.rz = r.subarray(n + p);
     this.rhs = v?.rhs ?? new Float64Array(dim);
-    this.coupled = v?.coupled ?? new Float64Array(dim);
+    this.rhs2 = v?.rhs2 ?? new Float64Array(dim);
     this.sol1 = v?.sol1 ?? new Float64Array(dim);
     this.sol2 = v?.sol2 ?? new Float64Array(dim);
     this.ds = v?.ds ?? new Float64Array(m);
@@ -305,7 +306,7 @@ export class ConicWorkspace {
     this.factorisations++;
     if (!kkt.updateAndFactor()) return false;
     // Primal, min ‖Gx − h‖² s.t. Ax = b → s = h − Gx, and dual, min ‖z‖² s.t. Aᵀy + Gᵀz + c = 0: one pair.
-    const { sol2, coupled: rhs2 } = this;
+    const { sol2, rhs2 } = this;
     rhs.fill(0);
     rhs.set(this.b, n);
     rhs.set(this.h, n + p);
@@ -348,18 +349,35 @@ export class ConicWorkspace {
   }
 
   private residuals(): Residuals {
-    const { c, b, h, x, y, z, s, tau, rx, ry, rz, res, n, p, m, coupled } = this;
+    const { c, b, h, x, y, z, s, tau, rx, ry, rz, res, n, p, m } = this;
     res.tau = tau;
     res.kappa = this.kappa;
     if (this.engine) {
       this.engine.residuals(tau, res);
       return res;
     }
-    // [Aᵀy + Gᵀz; Ax; Gx] in one product with the KKT matrix's A and G entries.
-    this.kkt.couplingProduct(this.xyz, coupled);
-    for (let j = 0; j < n; j++) rx[j] = coupled[j] + c[j] * tau;
-    for (let i = 0; i < p; i++) ry[i] = coupled[n + i] - b[i] * tau;
-    for (let i = 0; i < m; i++) rz[i] = s[i] + coupled[n + p + i] - h[i] * tau;
+    // r_y = Ax − bτ, r_z = s + Gx − hτ, r_x = Aᵀy + Gᵀz + cτ: one pass over the columns of A and G.
+    const As = this.As;
+    const Gs = this.Gs;
+    for (let i = 0; i < p; i++) ry[i] = -b[i] * tau;
+    for (let i = 0; i < m; i++) rz[i] = s[i] - h[i] * tau;
+    for (let j = 0; j < n; j++) {
+      const xj = x[j];
+      let acc = 0;
+      for (let q = As.colPtr[j]; q < As.colPtr[j + 1]; q++) {
+        const i = As.rowIdx[q];
+        const v = As.values[q];
+        ry[i] += v * xj;
+        acc += v * y[i];
+      }
+      for (let q = Gs.colPtr[j]; q < Gs.colPtr[j + 1]; q++) {
+        const i = Gs.rowIdx[q];
+        const v = Gs.values[q];
+        rz[i] += v * xj;
+        acc += v * z[i];
+      }
+      rx[j] = acc + c[j] * tau;
+    }
     res.cx = dot(c, x);
     res.by = dot(b, y);
     res.hz = dot(h, z);

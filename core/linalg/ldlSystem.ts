@@ -40,14 +40,9 @@ export interface LdlSystem {
     bA: Float64Array, bB: Float64Array, xA: Float64Array, xB: Float64Array,
     shift: number, tolerance: number, maxStepsA: number, maxStepsB: number,
   ): boolean;
-  /**
-   * y = M x, M the symmetric matrix of the stored off-diagonal entries selected by the construction's
-   * `productMask` (x and y in the original order). Throws if no mask was given.
-   */
-  maskedProduct(x: Float64Array, y: Float64Array): void;
 }
 
-/** Checks the invariant the shifted product relies on: each column ends with its diagonal entry. */
+/** Checks the invariant the shifted residual relies on: each column ends with its diagonal entry. */
 export function checkUpperPattern(U: CscMatrix): void {
   for (let j = 0; j < U.n; j++) {
     const last = U.colPtr[j + 1] - 1;
@@ -69,15 +64,10 @@ export class JsLdlSystem implements LdlSystem {
   private readonly work: Float64Array;
   private readonly bk: Float64Array;
   private readonly correction: Float64Array;
-  private readonly product: Float64Array;
   private readonly lastStep: Float64Array;
-  private readonly mask: Uint8Array | null;
 
-  /**
-   * `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle;
-   * `productMask[q]` ≠ 0 selects stored entry q for maskedProduct().
-   */
-  constructor(pattern: CscMatrix, symbolic: LdlSymbolic, sign: Int8Array, perm: Int32Array, productMask: Uint8Array | null = null) {
+  /** `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle. */
+  constructor(pattern: CscMatrix, symbolic: LdlSymbolic, sign: Int8Array, perm: Int32Array) {
     checkUpperPattern(pattern);
     const n = pattern.n;
     const nnz = pattern.colPtr[n];
@@ -89,30 +79,7 @@ export class JsLdlSystem implements LdlSystem {
     this.work = new Float64Array(n);
     this.bk = new Float64Array(n);
     this.correction = new Float64Array(n);
-    this.product = new Float64Array(n);
     this.lastStep = new Float64Array(n);
-    this.mask = productMask ? productMask.slice(0, nnz) : null;
-  }
-
-  maskedProduct(x: Float64Array, y: Float64Array): void {
-    const { mask, perm, work, product } = this;
-    if (!mask) throw new Error('internal: maskedProduct needs a productMask at construction');
-    const { colPtr, rowIdx, values, n } = this.matrix;
-    for (let k = 0; k < n; k++) work[k] = x[perm[k]];
-    product.fill(0);
-    for (let j = 0; j < n; j++) {
-      const xj = work[j];
-      let s = 0;
-      for (let q = colPtr[j]; q < colPtr[j + 1]; q++) {
-        if (mask[q] === 0) continue;
-        const i = rowIdx[q];
-        const v = values[q];
-        product[i] += v * xj;
-        s += v * work[i];
-      }
-      product[j] += s;
-    }
-    for (let k = 0; k < n; k++) y[perm[k]] = product[k];
   }
 
   get regularisedPivots(): number {
@@ -124,7 +91,7 @@ export class JsLdlSystem implements LdlSystem {
   }
 
   solveRefined(rhs: Float64Array, out: Float64Array, shift: number, tolerance: number, maxSteps: number): boolean {
-    const { perm, work, bk, correction, product, lastStep } = this;
+    const { perm, work, bk, correction, lastStep } = this;
     const dim = this.matrix.n;
     let rhsNorm = 0;
     for (let k = 0; k < dim; k++) {
@@ -140,12 +107,10 @@ export class JsLdlSystem implements LdlSystem {
     let prevNorm = Infinity;
     let finalNorm: number;
     for (;;) {
-      this.multiplyShifted(shift, work, product);
+      this.residualShifted(shift, bk, work, correction);
       let norm = 0;
       for (let k = 0; k < dim; k++) {
-        const r = bk[k] - product[k];
-        correction[k] = r;
-        const a = Math.abs(r);
+        const a = Math.abs(correction[k]);
         if (a > norm) norm = a;
       }
       if (norm > prevNorm) {
@@ -188,11 +153,11 @@ export class JsLdlSystem implements LdlSystem {
     return okA && okB;
   }
 
-  /** y = S₀ x with S₀ = S − shift·diag(sign), S from its stored upper triangle; two accumulators per column. */
-  private multiplyShifted(shift: number, x: Float64Array, y: Float64Array): void {
+  /** r = b − S₀x with S₀ = S − shift·diag(sign), S from its stored upper triangle; two accumulators per column. */
+  private residualShifted(shift: number, b: Float64Array, x: Float64Array, r: Float64Array): void {
     const { colPtr, rowIdx, values, n } = this.matrix;
     const sign = this.sign;
-    y.fill(0);
+    r.set(b);
     for (let j = 0; j < n; j++) {
       const xj = x[j];
       const last = colPtr[j + 1] - 1;
@@ -204,17 +169,17 @@ export class JsLdlSystem implements LdlSystem {
         const i1 = rowIdx[q + 1];
         const v0 = values[q];
         const v1 = values[q + 1];
-        y[i0] += v0 * xj;
-        y[i1] += v1 * xj;
+        r[i0] -= v0 * xj;
+        r[i1] -= v1 * xj;
         s0 += v0 * x[i0];
         s1 += v1 * x[i1];
       }
       if (q < last) {
         const i0 = rowIdx[q];
-        y[i0] += values[q] * xj;
+        r[i0] -= values[q] * xj;
         s0 += values[q] * x[i0];
       }
-      y[j] += s0 + s1;
+      r[j] -= s0 + s1;
     }
   }
 }

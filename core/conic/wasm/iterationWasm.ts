@@ -6,6 +6,7 @@
  * hands out, so the two sides share the numbers without copies. The TypeScript step in the workspace is
  * the portable reference; the unit tests require both to take the same iterations to the same point.
  */
+import type { CscMatrix } from '../../linalg/csc.ts';
 import type { LdlSystem } from '../../linalg/ldlSystem.ts';
 import { WasmLdlSystem, type Slot } from '../../linalg/wasm/ldlWasm.ts';
 import type { KktSystem } from '../kkt.ts';
@@ -33,10 +34,11 @@ export function iterationModule(): WebAssembly.Module | null {
 const H = {
   n: 0, p: 1, m: 2, l: 3, nsoc: 4, socOff: 5, socDim: 6, eta: 7, w: 8, posDiag: 9, posCone: 10,
   Ap: 11, Ai: 12, Ax: 13, Lp: 14, Li: 15, Rp: 16, Ri: 17, Rpos: 18, Lx: 19, Rx: 20, D: 21, Dinv: 22, y: 23,
-  sign: 24, perm: 25, work: 26, bk: 27, correction: 28, product: 29, lastStep: 30, info: 31, mask: 32,
+  sign: 24, perm: 25, work: 26, bk: 27, correction: 28, lastStep: 30, info: 31,
   c: 34, b: 35, h: 36, xyz: 37, s: 38, lambda: 39, rxyz: 40, rhs: 41, sol1: 42, sol2: 43, ds: 44,
-  dsScaled: 45, dzScaled: 46, tmp: 47, tmp2: 48, ones: 49, coupled: 50, refineMax: 51, refineAffine: 52,
-  retries: 53, rhs2: 54, pair: 55, colScale: 56, rowScale: 57,
+  dsScaled: 45, dzScaled: 46, tmp: 47, tmp2: 48, ones: 49, refineMax: 51, refineAffine: 52,
+  retries: 53, rhs2: 54, pair: 55, colScale: 56, rowScale: 57, aColPtr: 58, aRowIdx: 59, aValues: 60,
+  gColPtr: 61, gRowIdx: 62, gValues: 63,
 } as const;
 const HEADER_SLOTS = 64;
 const F = {
@@ -46,7 +48,7 @@ const F = {
 const SCALAR_SLOTS = 24;
 const LDL_SLOTS: ReadonlyArray<Slot & keyof typeof H> = [
   'Ap', 'Ai', 'Ax', 'Lp', 'Li', 'Rp', 'Ri', 'Rpos', 'Lx', 'Rx', 'D', 'Dinv', 'y', 'sign', 'perm', 'work', 'bk',
-  'correction', 'product', 'lastStep', 'info', 'mask', 'pair',
+  'correction', 'lastStep', 'info', 'pair',
 ];
 
 interface IterationExports {
@@ -65,7 +67,7 @@ export interface IterationSettings {
 }
 
 type VectorName = 'c' | 'b' | 'h' | 'xyz' | 's' | 'lambda' | 'rxyz' | 'rhs' | 'rhs2' | 'sol1' | 'sol2' | 'ds' |
-  'dsScaled' | 'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'coupled' | 'w' | 'colScale' | 'rowScale';
+  'dsScaled' | 'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'w' | 'colScale' | 'rowScale';
 
 /** The arrays of the iteration and their lengths, in layout order. */
 function vectorLengths(n: number, p: number, m: number): Array<[VectorName, number]> {
@@ -73,23 +75,30 @@ function vectorLengths(n: number, p: number, m: number): Array<[VectorName, numb
   return [
     ['c', n], ['b', p], ['h', m], ['xyz', dim], ['s', m], ['lambda', m], ['rxyz', dim], ['rhs', dim],
     ['sol1', dim], ['sol2', dim], ['ds', m], ['dsScaled', m], ['dzScaled', m], ['tmp', m], ['tmp2', m],
-    ['ones', m], ['coupled', dim], ['w', m], ['rhs2', dim], ['colScale', n], ['rowScale', p + m],
+    ['ones', m], ['w', m], ['rhs2', dim], ['colScale', n], ['rowScale', p + m],
   ];
 }
 
 const align = (bytes: number): number => (bytes + 15) & ~15;
 
-/** Bytes the iteration needs beside the LDLᵀ system's own arrays. */
-export function iterationBytes(n: number, p: number, m: number, cones: ConeSpec, coneBlockEntries: number): number {
+/** Bytes the iteration needs beside the LDLᵀ system's own arrays (A, G: the constraint matrices' patterns). */
+export function iterationBytes(A: CscMatrix, G: CscMatrix, cones: ConeSpec, coneBlockEntries: number): number {
+  const n = A.n;
+  const p = A.m;
+  const m = G.m;
   const nsoc = cones.secondOrder.length;
   let bytes = align(4 * HEADER_SLOTS) + align(8 * SCALAR_SLOTS);
   for (const [, len] of vectorLengths(n, p, m)) bytes += align(8 * len);
   bytes += 2 * align(4 * nsoc) + align(8 * nsoc) + align(4 * (n + p)) + align(4 * coneBlockEntries);
+  for (const M of [A, G]) bytes += align(4 * (n + 1)) + align(4 * M.colPtr[n]) + align(8 * M.colPtr[n]);
   return bytes;
 }
 
 export class WasmIteration {
   readonly vectors: Readonly<Record<VectorName, Float64Array>>;
+  /** The equilibrated A and G the iteration multiplies by: the patterns of the constructor's, values to write. */
+  readonly As: CscMatrix;
+  readonly Gs: CscMatrix;
   private readonly header: Int32Array;
   private readonly scalars: Float64Array;
   private readonly headerAt: number;
@@ -97,10 +106,10 @@ export class WasmIteration {
   private readonly k: IterationExports;
 
   /**
-   * `kkt` must have been built on the iteration module with `iterationBytes(…)` reserved; `degree` is the
-   * sum of the cone degrees.
+   * `kkt` must have been built on the iteration module with `iterationBytes(A, G, …)` reserved; `degree` is
+   * the sum of the cone degrees.
    */
-  constructor(kkt: KktSystem, cones: ConeSpec, settings: IterationSettings, degree: number) {
+  constructor(kkt: KktSystem, A: CscMatrix, G: CscMatrix, cones: ConeSpec, settings: IterationSettings, degree: number) {
     const system: LdlSystem = kkt.system;
     if (!(system instanceof WasmLdlSystem)) throw new Error('internal: the WebAssembly iteration needs a WebAssembly KKT system');
     const { n, p, m } = kkt;
@@ -146,7 +155,19 @@ export class WasmIteration {
       cone.set(pos, k);
       k += pos.length;
     }
-    if (at > system.reserved + iterationBytes(n, p, m, cones, blockEntries)) throw new Error('internal: iteration layout overflow');
+    const matrix = (M: CscMatrix, colSlot: 'aColPtr' | 'gColPtr', rowSlot: 'aRowIdx' | 'gRowIdx', valueSlot: 'aValues' | 'gValues'): CscMatrix => {
+      const nnz = M.colPtr[n];
+      const colPtr = new Int32Array(buf, (hdr[H[colSlot]] = take(4 * (n + 1))), n + 1);
+      const rowIdx = new Int32Array(buf, (hdr[H[rowSlot]] = take(4 * nnz)), nnz);
+      const values = new Float64Array(buf, (hdr[H[valueSlot]] = take(8 * nnz)), nnz);
+      colPtr.set(M.colPtr.subarray(0, n + 1));
+      rowIdx.set(M.rowIdx.subarray(0, nnz));
+      values.set(M.values.subarray(0, nnz));
+      return { m: M.m, n, colPtr, rowIdx, values };
+    };
+    this.As = matrix(A, 'aColPtr', 'aRowIdx', 'aValues');
+    this.Gs = matrix(G, 'gColPtr', 'gRowIdx', 'gValues');
+    if (at > system.reserved + iterationBytes(A, G, cones, blockEntries)) throw new Error('internal: iteration layout overflow');
 
     hdr[H.n] = n;
     hdr[H.p] = p;

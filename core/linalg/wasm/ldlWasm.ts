@@ -18,10 +18,9 @@ interface KernelExports {
   ldlSolveRefined(
     n: number, Lp: number, Li: number, Lx: number, Rp: number, Ri: number, Rx: number, Dinv: number,
     Ap: number, Ai: number, Ax: number, sign: number, shift: number, perm: number,
-    rhs: number, out: number, work: number, bk: number, correction: number, product: number, lastStep: number,
+    rhs: number, out: number, work: number, bk: number, correction: number, lastStep: number,
     tolerance: number, maxSteps: number, info: number,
   ): number;
-  symmetricMaskedProduct(n: number, Ap: number, Ai: number, Ax: number, mask: number, perm: number, x: number, y: number, xw: number, yw: number): void;
   ldlSolveRefinedPair(
     n: number, Lp: number, Li: number, Lx: number, Rp: number, Ri: number, Rx: number, Dinv: number,
     Ap: number, Ai: number, Ax: number, sign: number, shift: number, perm: number,
@@ -61,7 +60,7 @@ export interface WasmSystemOptions {
 
 export type Slot =
   | 'Ap' | 'Ai' | 'Ax' | 'Lp' | 'Li' | 'Rp' | 'Ri' | 'Rpos' | 'Lx' | 'Rx' | 'D' | 'Dinv' | 'y' | 'sign' | 'perm'
-  | 'rhs' | 'out' | 'work' | 'bk' | 'correction' | 'product' | 'lastStep' | 'info' | 'mask' | 'rhs2' | 'out2' | 'pair';
+  | 'rhs' | 'out' | 'work' | 'bk' | 'correction' | 'lastStep' | 'info' | 'rhs2' | 'out2' | 'pair';
 
 export class WasmLdlSystem implements LdlSystem {
   readonly matrix: CscMatrix;
@@ -84,18 +83,13 @@ export class WasmLdlSystem implements LdlSystem {
   private readonly rhs2View: Float64Array;
   private readonly out2View: Float64Array;
 
-  private readonly hasMask: boolean;
 
-  /**
-   * `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle;
-   * `productMask[q]` ≠ 0 selects stored entry q for maskedProduct().
-   */
+  /** `perm[k]` is the original index of permuted row k; `pattern` is the permuted upper triangle. */
   constructor(
     pattern: CscMatrix,
     symbolic: LdlSymbolic,
     sign: Int8Array,
     perm: Int32Array,
-    productMask: Uint8Array | null = null,
     options: WasmSystemOptions = {},
   ) {
     const module = options.module ?? kernelModule();
@@ -117,10 +111,10 @@ export class WasmLdlSystem implements LdlSystem {
       Ap: i32(n + 1), Ai: i32(nnz), Ax: f64(nnz),
       Lp: i32(n + 1), Li: i32(nnzL), Rp: i32(n + 1), Ri: i32(nnzL), Rpos: i32(nnzL),
       Lx: f64(nnzL), Rx: f64(nnzL), D: f64(n), Dinv: f64(n), y: f64(n), sign: take(n), perm: i32(n),
-      rhs: f64(n), out: f64(n), work: f64(n), bk: f64(n), correction: f64(n), product: f64(n), lastStep: f64(n),
-      info: f64(2), mask: take(nnz),
-      // The two-right-hand-side solve: a second right-hand side and solution, and five interleaved pairs.
-      rhs2: f64(n), out2: f64(n), pair: f64(10 * n),
+      rhs: f64(n), out: f64(n), work: f64(n), bk: f64(n), correction: f64(n), lastStep: f64(n),
+      info: f64(2),
+      // The two-right-hand-side solve: a second right-hand side and solution, and four interleaved pairs.
+      rhs2: f64(n), out2: f64(n), pair: f64(8 * n),
     };
     this.reserved = take(options.reserveBytes ?? 0);
     const pages = Math.ceil(size / 65536);
@@ -147,8 +141,6 @@ export class WasmLdlSystem implements LdlSystem {
     this.infoView = new Float64Array(buf, a.info, 2);
     this.rhs2View = new Float64Array(buf, a.rhs2, n);
     this.out2View = new Float64Array(buf, a.out2, n);
-    this.hasMask = productMask !== null;
-    if (productMask) new Uint8Array(buf, a.mask, nnz).set(productMask.subarray(0, nnz));
     this.symbolic = symbolic;
   }
 
@@ -161,22 +153,13 @@ export class WasmLdlSystem implements LdlSystem {
     return r >= 0;
   }
 
-  maskedProduct(x: Float64Array, y: Float64Array): void {
-    if (!this.hasMask) throw new Error('internal: maskedProduct needs a productMask at construction');
-    const a = this.at;
-    const n = this.symbolic.n;
-    this.rhsView.set(x.length === n ? x : x.subarray(0, n));
-    this.k.symmetricMaskedProduct(n, a.Ap, a.Ai, a.Ax, a.mask, a.perm, a.rhs, a.out, a.work, a.product);
-    y.set(this.outView);
-  }
-
   solveRefined(rhs: Float64Array, out: Float64Array, shift: number, tolerance: number, maxSteps: number): boolean {
     const a = this.at;
     const n = this.symbolic.n;
     this.rhsView.set(rhs.length === n ? rhs : rhs.subarray(0, n));
     const r = this.k.ldlSolveRefined(
       n, a.Lp, a.Li, a.Lx, a.Rp, a.Ri, a.Rx, a.Dinv, a.Ap, a.Ai, a.Ax, a.sign, shift, a.perm,
-      a.rhs, a.out, a.work, a.bk, a.correction, a.product, a.lastStep, tolerance, maxSteps, a.info,
+      a.rhs, a.out, a.work, a.bk, a.correction, a.lastStep, tolerance, maxSteps, a.info,
     );
     out.set(this.outView);
     this.lastRefinementSteps = r >= 0 ? r : -1 - r;

@@ -9,8 +9,8 @@
 // writes the byte offsets of the arrays and the sizes into an i32 header and the scalars into an f64
 // block. The slot numbers below are mirrored there.
 
-import { ldlRefactor, ldlSolveRefined, ldlSolveRefinedPair, symmetricMaskedProduct } from '../../../linalg/wasm/assembly/kernels';
-export { ldlRefactor, ldlSolveRefined, ldlSolveRefinedPair, symmetricMaskedProduct };
+import { ldlRefactor, ldlSolveRefined, ldlSolveRefinedPair } from '../../../linalg/wasm/assembly/kernels';
+export { ldlRefactor, ldlSolveRefined, ldlSolveRefinedPair };
 
 // i32 header slots.
 const H_N = 0;
@@ -42,10 +42,8 @@ const H_PERM = 25;
 const H_WORK = 26;
 const H_BK = 27;
 const H_CORRECTION = 28;
-const H_PRODUCT = 29;
 const H_LAST_STEP = 30;
 const H_INFO = 31;
-const H_MASK = 32;
 const H_C = 34;
 const H_B = 35;
 const H_H = 36;
@@ -62,7 +60,6 @@ const H_DZ_SCALED = 46;
 const H_TMP = 47;
 const H_TMP2 = 48;
 const H_ONES = 49;
-const H_COUPLED = 50;
 const H_REFINE_MAX = 51;
 const H_REFINE_AFFINE = 52;
 const H_RETRIES = 53;
@@ -70,6 +67,12 @@ const H_RHS2 = 54;
 const H_PAIR = 55;
 const H_DSCALE = 56;
 const H_ESCALE = 57;
+const H_A_COLPTR = 58;
+const H_A_ROWIDX = 59;
+const H_A_VALUES = 60;
+const H_G_COLPTR = 61;
+const H_G_ROWIDX = 62;
+const H_G_VALUES = 63;
 
 // f64 scalar slots.
 const F_TAU = 0;
@@ -357,8 +360,8 @@ function kktSolve(hdr: usize, fs: usize, rhs: usize, out: usize, maxSteps: i32):
   const r = ldlSolveRefined(
     dim, ptr(hdr, H_LP), ptr(hdr, H_LI), ptr(hdr, H_LX), ptr(hdr, H_RP), ptr(hdr, H_RI), ptr(hdr, H_RX),
     ptr(hdr, H_DINV), ptr(hdr, H_AP), ptr(hdr, H_AI), ptr(hdr, H_AX), ptr(hdr, H_SIGN), f64At(fs, F_DELTA),
-    ptr(hdr, H_PERM), rhs, out, ptr(hdr, H_WORK), ptr(hdr, H_BK), ptr(hdr, H_CORRECTION), ptr(hdr, H_PRODUCT),
-    ptr(hdr, H_LAST_STEP), f64At(fs, F_REFINE_TOL), maxSteps, ptr(hdr, H_INFO),
+    ptr(hdr, H_PERM), rhs, out, ptr(hdr, H_WORK), ptr(hdr, H_BK), ptr(hdr, H_CORRECTION), ptr(hdr, H_LAST_STEP),
+    f64At(fs, F_REFINE_TOL), maxSteps, ptr(hdr, H_INFO),
   );
   return r >= 0;
 }
@@ -381,22 +384,45 @@ export function ipmResiduals(hdr: usize, fs: usize): void {
   const n = i32At(hdr, H_N);
   const p = i32At(hdr, H_P);
   const m = i32At(hdr, H_M);
-  const dim = n + p + m;
   const xyz = ptr(hdr, H_XYZ);
-  const coupled = ptr(hdr, H_COUPLED);
-  symmetricMaskedProduct(
-    dim, ptr(hdr, H_AP), ptr(hdr, H_AI), ptr(hdr, H_AX), ptr(hdr, H_MASK), ptr(hdr, H_PERM), xyz, coupled,
-    ptr(hdr, H_WORK), ptr(hdr, H_PRODUCT),
-  );
   const c = ptr(hdr, H_C);
   const b = ptr(hdr, H_B);
   const h = ptr(hdr, H_H);
   const s = ptr(hdr, H_S);
   const r = ptr(hdr, H_RXYZ);
   const tau = f64At(fs, F_TAU);
-  for (let j = 0; j < n; j++) setF64(r, j, f64At(coupled, j) + f64At(c, j) * tau);
-  for (let i = 0; i < p; i++) setF64(r, n + i, f64At(coupled, n + i) - f64At(b, i) * tau);
-  for (let i = 0; i < m; i++) setF64(r, n + p + i, f64At(s, i) + f64At(coupled, n + p + i) - f64At(h, i) * tau);
+  // One pass over the columns of A and G, as in the workspace's residuals().
+  const ry = r + (<usize>n << 3);
+  const rz = r + (<usize>(n + p) << 3);
+  const y = xyz + (<usize>n << 3);
+  const z = xyz + (<usize>(n + p) << 3);
+  for (let i = 0; i < p; i++) setF64(ry, i, -f64At(b, i) * tau);
+  for (let i = 0; i < m; i++) setF64(rz, i, f64At(s, i) - f64At(h, i) * tau);
+  const Ap = ptr(hdr, H_A_COLPTR);
+  const Ai = ptr(hdr, H_A_ROWIDX);
+  const Ax = ptr(hdr, H_A_VALUES);
+  const Gp = ptr(hdr, H_G_COLPTR);
+  const Gi = ptr(hdr, H_G_ROWIDX);
+  const Gx = ptr(hdr, H_G_VALUES);
+  for (let j = 0; j < n; j++) {
+    const xj = f64At(xyz, j);
+    let acc: f64 = 0;
+    const aEnd = i32At(Ap, j + 1);
+    for (let q = i32At(Ap, j); q < aEnd; q++) {
+      const i = i32At(Ai, q);
+      const v = f64At(Ax, q);
+      setF64(ry, i, f64At(ry, i) + v * xj);
+      acc += v * f64At(y, i);
+    }
+    const gEnd = i32At(Gp, j + 1);
+    for (let q = i32At(Gp, j); q < gEnd; q++) {
+      const i = i32At(Gi, q);
+      const v = f64At(Gx, q);
+      setF64(rz, i, f64At(rz, i) + v * xj);
+      acc += v * f64At(z, i);
+    }
+    setF64(r, j, acc + f64At(c, j) * tau);
+  }
   setF64(fs, F_CX, dotRange(c, n, xyz, 0));
   setF64(fs, F_BY, dotRange(b, p, xyz, n));
   setF64(fs, F_HZ, dotRange(h, m, xyz, n + p));

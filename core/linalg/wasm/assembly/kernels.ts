@@ -82,12 +82,12 @@ export function ldlSolve(n: i32, Lp: usize, Li: usize, Lx: usize, Rp: usize, Ri:
 }
 
 /**
- * y = (S − δ·diag(sign)) x for a symmetric S stored as its upper triangle (CSC, rows sorted, so each
- * column's diagonal is its last entry). With δ the static regularisation this is the product with the
+ * r = b − (S − δ·diag(sign)) x for a symmetric S stored as its upper triangle (CSC, rows sorted, so each
+ * column's diagonal is its last entry). With δ the static regularisation this is the residual against the
  * unregularised KKT matrix that iterative refinement needs.
  */
-export function symmetricUpperMulShifted(n: i32, Ap: usize, Ai: usize, Ax: usize, sign: usize, delta: f64, x: usize, y: usize): void {
-  memory.fill(y, 0, <usize>n << 3);
+export function symmetricResidualShifted(n: i32, Ap: usize, Ai: usize, Ax: usize, sign: usize, delta: f64, b: usize, x: usize, r: usize): void {
+  memory.copy(r, b, <usize>n << 3);
   for (let j = 0; j < n; j++) {
     const xj = f64At(x, j);
     const last = i32At(Ap, j + 1) - 1;
@@ -95,10 +95,10 @@ export function symmetricUpperMulShifted(n: i32, Ap: usize, Ai: usize, Ax: usize
     for (let q = i32At(Ap, j); q < last; q++) {
       const i = i32At(Ai, q);
       const v = f64At(Ax, q);
-      setF64(y, i, f64At(y, i) + v * xj);
+      setF64(r, i, f64At(r, i) - v * xj);
       s += v * f64At(x, i);
     }
-    setF64(y, j, f64At(y, j) + s);
+    setF64(r, j, f64At(r, j) - s);
   }
 }
 
@@ -110,7 +110,7 @@ export function symmetricUpperMulShifted(n: i32, Ap: usize, Ai: usize, Ax: usize
 export function ldlSolveRefined(
   n: i32, Lp: usize, Li: usize, Lx: usize, Rp: usize, Ri: usize, Rx: usize, Dinv: usize,
   Ap: usize, Ai: usize, Ax: usize, sign: usize, shift: f64, perm: usize,
-  rhs: usize, out: usize, work: usize, bk: usize, correction: usize, product: usize, lastStep: usize,
+  rhs: usize, out: usize, work: usize, bk: usize, correction: usize, lastStep: usize,
   tolerance: f64, maxSteps: i32, info: usize,
 ): i32 {
   let rhsNorm: f64 = 0;
@@ -127,12 +127,10 @@ export function ldlSolveRefined(
   let prevNorm: f64 = Infinity;
   let finalNorm: f64 = 0;
   while (true) {
-    symmetricUpperMulShifted(n, Ap, Ai, Ax, sign, shift, work, product);
+    symmetricResidualShifted(n, Ap, Ai, Ax, sign, shift, bk, work, correction);
     let norm: f64 = 0;
     for (let k = 0; k < n; k++) {
-      const r = f64At(bk, k) - f64At(product, k);
-      setF64(correction, k, r);
-      const a = abs(r);
+      const a = abs(f64At(correction, k));
       if (a > norm) norm = a;
     }
     if (norm > prevNorm) {
@@ -158,32 +156,6 @@ export function ldlSolveRefined(
     setF64(out, i32At(perm, k), v);
   }
   return finite ? steps : -1 - steps;
-}
-
-/**
- * y = M x for the symmetric matrix made of the stored entries with mask[q] ≠ 0 only (off-diagonal
- * entries), x and y in the original order (perm as in ldlSolveRefined). For the KKT matrix with the A and
- * G entries masked this is [Aᵀy + Gᵀz; Ax; Gx], the products the interior-point residuals need.
- */
-export function symmetricMaskedProduct(
-  n: i32, Ap: usize, Ai: usize, Ax: usize, mask: usize, perm: usize, x: usize, y: usize, xw: usize, yw: usize,
-): void {
-  for (let k = 0; k < n; k++) setF64(xw, k, f64At(x, i32At(perm, k)));
-  memory.fill(yw, 0, <usize>n << 3);
-  for (let j = 0; j < n; j++) {
-    const xj = f64At(xw, j);
-    let s: f64 = 0;
-    const end = i32At(Ap, j + 1);
-    for (let q = i32At(Ap, j); q < end; q++) {
-      if (load<u8>(mask + <usize>q) == 0) continue;
-      const i = i32At(Ai, q);
-      const v = f64At(Ax, q);
-      setF64(yw, i, f64At(yw, i) + v * xj);
-      s += v * f64At(xw, i);
-    }
-    setF64(yw, j, f64At(yw, j) + s);
-  }
-  for (let k = 0; k < n; k++) setF64(y, i32At(perm, k), f64At(yw, k));
 }
 
 // ---- two right-hand sides at once (WebAssembly SIMD: one f64x2 lane per right-hand side) ----
@@ -215,9 +187,9 @@ export function ldlSolvePair(n: i32, Lp: usize, Li: usize, Lx: usize, Rp: usize,
   }
 }
 
-/** symmetricUpperMulShifted on an interleaved pair. */
-export function symmetricUpperMulShiftedPair(n: i32, Ap: usize, Ai: usize, Ax: usize, sign: usize, delta: f64, x: usize, y: usize): void {
-  memory.fill(y, 0, <usize>n << 4);
+/** symmetricResidualShifted on an interleaved pair. */
+export function symmetricResidualShiftedPair(n: i32, Ap: usize, Ai: usize, Ax: usize, sign: usize, delta: f64, b: usize, x: usize, r: usize): void {
+  memory.copy(r, b, <usize>n << 4);
   for (let j = 0; j < n; j++) {
     const xj = pairAt(x, j);
     const last = i32At(Ap, j + 1) - 1;
@@ -225,17 +197,17 @@ export function symmetricUpperMulShiftedPair(n: i32, Ap: usize, Ai: usize, Ax: u
     for (let q = i32At(Ap, j); q < last; q++) {
       const i = i32At(Ai, q);
       const v = f64x2.splat(f64At(Ax, q));
-      setPair(y, i, f64x2.add(pairAt(y, i), f64x2.mul(v, xj)));
+      setPair(r, i, f64x2.sub(pairAt(r, i), f64x2.mul(v, xj)));
       s = f64x2.add(s, f64x2.mul(v, pairAt(x, i)));
     }
-    setPair(y, j, f64x2.add(pairAt(y, j), s));
+    setPair(r, j, f64x2.sub(pairAt(r, j), s));
   }
 }
 
 /**
  * ldlSolveRefined for two right-hand sides at once: each runs its own refinement (own tolerance test,
  * step limit, and taking back of a step that made its residual worse); a side that has stopped rides
- * along with a zero correction. `pair` is scratch of 5 interleaved vectors (80 n bytes). Writes the
+ * along with a zero correction. `pair` is scratch of 4 interleaved vectors (64 n bytes). Writes the
  * final relative residuals to info[0], info[1]; returns stepsA + 1024 stepsB, negated minus one when
  * either result is not finite.
  */
@@ -249,8 +221,7 @@ export function ldlSolveRefinedPair(
   const work = pair;
   const bk = pair + bytes;
   const correction = pair + 2 * bytes;
-  const product = pair + 3 * bytes;
-  const lastStep = pair + 4 * bytes;
+  const lastStep = pair + 3 * bytes;
   let normA: f64 = 0;
   let normB: f64 = 0;
   for (let k = 0; k < n; k++) {
@@ -275,12 +246,11 @@ export function ldlSolveRefinedPair(
   let doneA = false;
   let doneB = false;
   while (true) {
-    symmetricUpperMulShiftedPair(n, Ap, Ai, Ax, sign, shift, work, product);
+    symmetricResidualShiftedPair(n, Ap, Ai, Ax, sign, shift, bk, work, correction);
     let rA: f64 = 0;
     let rB: f64 = 0;
     for (let k = 0; k < n; k++) {
-      const r = f64x2.sub(pairAt(bk, k), pairAt(product, k));
-      setPair(correction, k, r);
+      const r = pairAt(correction, k);
       const a = abs(f64x2.extract_lane(r, 0));
       const b = abs(f64x2.extract_lane(r, 1));
       if (a > rA) rA = a;
@@ -313,8 +283,10 @@ export function ldlSolveRefinedPair(
     }
     if (doneA && doneB) break;
     // A stopped side's correction is cleared bitwise (+0 whatever it held), so its solution stays put.
-    const keep = i64x2.replace_lane(i64x2.splat(keepA ? -1 : 0), 1, keepB ? -1 : 0);
-    for (let k = 0; k < n; k++) setPair(correction, k, v128.and(pairAt(correction, k), keep));
+    if (!keepA || !keepB) {
+      const keep = i64x2.replace_lane(i64x2.splat(keepA ? -1 : 0), 1, keepB ? -1 : 0);
+      for (let k = 0; k < n; k++) setPair(correction, k, v128.and(pairAt(correction, k), keep));
+    }
     ldlSolvePair(n, Lp, Li, Lx, Rp, Ri, Rx, Dinv, correction);
     for (let k = 0; k < n; k++) setPair(work, k, f64x2.add(pairAt(work, k), pairAt(correction, k)));
     // A side that has taken its last allowed step stops unmeasured (as in ldlSolveRefined).
