@@ -70,16 +70,16 @@ export function emptyAssessment(): Assessment {
 
 /**
  * The unscaled residual norms of `r` (its equalityResidual, coneResidual, dualResidual) from its
- * equilibrated residual vectors; D and E are the column and row scalings.
+ * equilibrated residual vectors; Dinv and Einv are the reciprocals of the column and row scalings.
  */
-export function unscaledResidualNorms(r: Residuals, D: Float64Array, E: Float64Array): void {
+export function unscaledResidualNorms(r: Residuals, Dinv: Float64Array, Einv: Float64Array): void {
   const p = r.ry.length;
   let presEq = 0;
-  for (let i = 0; i < p; i++) presEq = Math.max(presEq, Math.abs(r.ry[i] / E[i]));
+  for (let i = 0; i < p; i++) presEq = Math.max(presEq, Math.abs(r.ry[i] * Einv[i]));
   let presCone = 0;
-  for (let i = 0; i < r.rz.length; i++) presCone = Math.max(presCone, Math.abs(r.rz[i] / E[p + i]));
+  for (let i = 0; i < r.rz.length; i++) presCone = Math.max(presCone, Math.abs(r.rz[i] * Einv[p + i]));
   let dres = 0;
-  for (let j = 0; j < r.rx.length; j++) dres = Math.max(dres, Math.abs(r.rx[j] / D[j]));
+  for (let j = 0; j < r.rx.length; j++) dres = Math.max(dres, Math.abs(r.rx[j] * Dinv[j]));
   r.equalityResidual = presEq;
   r.coneResidual = presCone;
   r.dualResidual = dres;

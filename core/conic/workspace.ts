@@ -61,9 +61,14 @@ export class ConicWorkspace {
   /** Equilibrated A and G (in the WebAssembly memory with the WebAssembly iteration). */
   private readonly As: CscMatrix;
   private readonly Gs: CscMatrix;
+  /** [c; b; h] (equilibrated), and its parts. */
+  private readonly cbh: Float64Array;
   private readonly c: Float64Array;
   private readonly b: Float64Array;
   private readonly h: Float64Array;
+  /** 1/D and 1/E (the residual norms in problem units multiply by them). */
+  private readonly Dinv: Float64Array;
+  private readonly Einv: Float64Array;
   private readonly D: Float64Array;
   private readonly E: Float64Array;
   private readonly coneSpec: ConeSpec;
@@ -154,9 +159,12 @@ export class ConicWorkspace {
     const dim = n + p + m;
     this.D = v?.colScale ?? new Float64Array(n);
     this.E = v?.rowScale ?? new Float64Array(p + m);
-    this.c = v?.c ?? new Float64Array(n);
-    this.b = v?.b ?? new Float64Array(p);
-    this.h = v?.h ?? new Float64Array(m);
+    this.cbh = v?.cbh ?? new Float64Array(dim);
+    this.c = this.cbh.subarray(0, n);
+    this.b = this.cbh.subarray(n, n + p);
+    this.h = this.cbh.subarray(n + p);
+    this.Dinv = v?.colScaleInv ?? new Float64Array(n);
+    this.Einv = v?.rowScaleInv ?? new Float64Array(p + m);
     this.xyz = v?.xyz ?? new Float64Array(dim);
     this.x = this.xyz.subarray(0, n);
     this.y = this.xyz.subarray(n, n + p);
@@ -228,6 +236,8 @@ export class ConicWorkspace {
     for (let j = 0; j < this.n; j++) this.c[j] = this.c0[j] * D[j];
     for (let i = 0; i < p; i++) this.b[i] = this.b0[i] * E[i];
     for (let i = 0; i < this.m; i++) this.h[i] = this.h0[i] * E[p + i];
+    for (let j = 0; j < this.n; j++) this.Dinv[j] = 1 / D[j];
+    for (let i = 0; i < p + this.m; i++) this.Einv[i] = 1 / E[i];
     this.norms.b = infNorm(this.b0);
     this.norms.h = infNorm(this.h0);
     this.norms.c = infNorm(this.c0);
@@ -382,7 +392,7 @@ export class ConicWorkspace {
     res.by = dot(b, y);
     res.hz = dot(h, z);
     res.sz = dot(s, z);
-    unscaledResidualNorms(res, this.D, this.E);
+    unscaledResidualNorms(res, this.Dinv, this.Einv);
     return res;
   }
 
@@ -407,7 +417,7 @@ export class ConicWorkspace {
     rhs.set(this.h, n + p);
     if (!kkt.solve(rhs, sol1)) return null;
     // cᵀx1 + bᵀy1 + hᵀz1 = −‖W z1‖² ≤ 0, so the τ pivot below is negative.
-    const tauPivot = dotRange(this.c, sol1, 0) + dotRange(this.b, sol1, n) + dotRange(this.h, sol1, n + p) - kappa / tau;
+    const tauPivot = dot(this.cbh, sol1) - kappa / tau;
     const mu = (res.sz + tau * kappa) / (this.degree + 1);
     const rTau = kappa + res.cx + res.by + res.hz;
 
@@ -425,11 +435,9 @@ export class ConicWorkspace {
     // Centring σ = (1 − α_aff)³ (Mehrotra's heuristic as in ECOS) and the second-order correction.
     const oneMinus = 1 - alphaAff;
     const sigma = Math.min(1, Math.max(1e-4, oneMinus * oneMinus * oneMinus));
-    for (const k of cones) {
-      k.jordanProduct(lambda, lambda, tmpM);
-      k.jordanProduct(dsScaled, dzScaled, tmpM2);
-    }
-    for (let i = 0; i < m; i++) tmpM[i] = -tmpM[i] - tmpM2[i] + sigma * mu * this.ones[i];
+    // tmpM still holds −λ∘λ (the affine target).
+    for (const k of cones) k.jordanProduct(dsScaled, dzScaled, tmpM2);
+    for (let i = 0; i < m; i++) tmpM[i] = tmpM[i] - tmpM2[i] + sigma * mu * this.ones[i];
     const dKappaRhs = -tau * kappa - dTauAff * dKappaAff + sigma * mu;
     if (!this.direction(1 - sigma, tmpM, dKappaRhs, tauPivot, rTau, res, this.settings.refinementMaxIterations)) {
       return null;
@@ -473,7 +481,7 @@ export class ConicWorkspace {
     for (let i = 0; i < m; i++) rhs[n + p + i] = -eta * res.rz[i] - ds[i];
     if (!kkt.solve(rhs, sol2, maxRefinement)) return false;
     const dTau =
-      (-eta * rTau - dKappa / tau - (dotRange(this.c, sol2, 0) + dotRange(this.b, sol2, n) + dotRange(this.h, sol2, n + p))) /
+      (-eta * rTau - dKappa / tau - dot(this.cbh, sol2)) /
       tauPivot;
     if (!Number.isFinite(dTau)) return false;
     for (let i = 0; i < n + p + m; i++) sol2[i] += dTau * sol1[i];
@@ -596,8 +604,3 @@ function dot(a: Float64Array, b: Float64Array): number {
   return r;
 }
 
-function dotRange(a: Float64Array, b: Float64Array, offset: number): number {
-  let r = 0;
-  for (let i = 0; i < a.length; i++) r += a[i] * b[offset + i];
-  return r;
-}

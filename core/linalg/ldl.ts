@@ -198,9 +198,8 @@ export class LdlFactor {
       if (q < end) s0 -= Rx[q] * x[Ri[q]];
       x[i] = s0 + s1;
     }
-    for (let i = 0; i < n; i++) x[i] *= Dinv[i];
     for (let i = n - 1; i >= 0; i--) {
-      let s0 = x[i];
+      let s0 = x[i] * Dinv[i];
       let s1 = 0;
       const end = Lp[i + 1];
       let j = Lp[i];

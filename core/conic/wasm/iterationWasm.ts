@@ -38,7 +38,7 @@ const H = {
   c: 34, b: 35, h: 36, xyz: 37, s: 38, lambda: 39, rxyz: 40, rhs: 41, sol1: 42, sol2: 43, ds: 44,
   dsScaled: 45, dzScaled: 46, tmp: 47, tmp2: 48, ones: 49, refineMax: 51, refineAffine: 52,
   retries: 53, rhs2: 54, pair: 55, colScale: 56, rowScale: 57, aColPtr: 58, aRowIdx: 59, aValues: 60,
-  gColPtr: 61, gRowIdx: 62, gValues: 63,
+  gColPtr: 61, gRowIdx: 62, gValues: 63, cbh: 33, colScaleInv: 50, rowScaleInv: 32,
 } as const;
 const HEADER_SLOTS = 64;
 const F = {
@@ -66,16 +66,16 @@ export interface IterationSettings {
   refinementMaxIterations: number;
 }
 
-type VectorName = 'c' | 'b' | 'h' | 'xyz' | 's' | 'lambda' | 'rxyz' | 'rhs' | 'rhs2' | 'sol1' | 'sol2' | 'ds' |
-  'dsScaled' | 'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'w' | 'colScale' | 'rowScale';
+type VectorName = 'cbh' | 'xyz' | 's' | 'lambda' | 'rxyz' | 'rhs' | 'rhs2' | 'sol1' | 'sol2' | 'ds' |
+  'dsScaled' | 'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'w' | 'colScale' | 'rowScale' | 'colScaleInv' | 'rowScaleInv';
 
 /** The arrays of the iteration and their lengths, in layout order. */
 function vectorLengths(n: number, p: number, m: number): Array<[VectorName, number]> {
   const dim = n + p + m;
   return [
-    ['c', n], ['b', p], ['h', m], ['xyz', dim], ['s', m], ['lambda', m], ['rxyz', dim], ['rhs', dim],
+    ['cbh', dim], ['xyz', dim], ['s', m], ['lambda', m], ['rxyz', dim], ['rhs', dim],
     ['sol1', dim], ['sol2', dim], ['ds', m], ['dsScaled', m], ['dzScaled', m], ['tmp', m], ['tmp2', m],
-    ['ones', m], ['w', m], ['rhs2', dim], ['colScale', n], ['rowScale', p + m],
+    ['ones', m], ['w', m], ['rhs2', dim], ['colScale', n], ['rowScale', p + m], ['colScaleInv', n], ['rowScaleInv', p + m],
   ];
 }
 
@@ -131,6 +131,10 @@ export class WasmIteration {
       vectors[name] = new Float64Array(buf, offset, len);
       hdr[H[name]] = offset;
     }
+    // c, b and h are consecutive parts of cbh (the iteration takes cᵀx + bᵀy + hᵀz as one dot product).
+    hdr[H.c] = hdr[H.cbh];
+    hdr[H.b] = hdr[H.cbh] + 8 * n;
+    hdr[H.h] = hdr[H.cbh] + 8 * (n + p);
     this.vectors = vectors;
 
     const nsoc = cones.secondOrder.length;

@@ -44,6 +44,8 @@ const H_BK = 27;
 const H_CORRECTION = 28;
 const H_LAST_STEP = 30;
 const H_INFO = 31;
+const H_ESCALE_INV = 32;
+const H_CBH = 33;
 const H_C = 34;
 const H_B = 35;
 const H_H = 36;
@@ -60,13 +62,12 @@ const H_DZ_SCALED = 46;
 const H_TMP = 47;
 const H_TMP2 = 48;
 const H_ONES = 49;
+const H_DSCALE_INV = 50;
 const H_REFINE_MAX = 51;
 const H_REFINE_AFFINE = 52;
 const H_RETRIES = 53;
 const H_RHS2 = 54;
 const H_PAIR = 55;
-const H_DSCALE = 56;
-const H_ESCALE = 57;
 const H_A_COLPTR = 58;
 const H_A_ROWIDX = 59;
 const H_A_VALUES = 60;
@@ -428,14 +429,14 @@ export function ipmResiduals(hdr: usize, fs: usize): void {
   setF64(fs, F_HZ, dotRange(h, m, xyz, n + p));
   setF64(fs, F_SZ, dotRange(s, m, z0(hdr), 0));
   // The residual norms in the problem's own units (termination.ts: unscaledResidualNorms).
-  const D = ptr(hdr, H_DSCALE);
-  const E = ptr(hdr, H_ESCALE);
+  const Dinv = ptr(hdr, H_DSCALE_INV);
+  const Einv = ptr(hdr, H_ESCALE_INV);
   let presEq: f64 = 0;
-  for (let i = 0; i < p; i++) presEq = Math.max(presEq, Math.abs(f64At(r, n + i) / f64At(E, i)));
+  for (let i = 0; i < p; i++) presEq = Math.max(presEq, Math.abs(f64At(r, n + i) * f64At(Einv, i)));
   let presCone: f64 = 0;
-  for (let i = 0; i < m; i++) presCone = Math.max(presCone, Math.abs(f64At(r, n + p + i) / f64At(E, p + i)));
+  for (let i = 0; i < m; i++) presCone = Math.max(presCone, Math.abs(f64At(r, n + p + i) * f64At(Einv, p + i)));
   let dres: f64 = 0;
-  for (let j = 0; j < n; j++) dres = Math.max(dres, Math.abs(f64At(r, j) / f64At(D, j)));
+  for (let j = 0; j < n; j++) dres = Math.max(dres, Math.abs(f64At(r, j) * f64At(Dinv, j)));
   setF64(fs, F_PRES_EQ, presEq);
   setF64(fs, F_PRES_CONE, presCone);
   setF64(fs, F_DRES, dres);
@@ -478,10 +479,7 @@ function directionFinish(hdr: usize, fs: usize, eta: f64, dKappa: f64, tauPivot:
   const sol2 = ptr(hdr, H_SOL2);
   const tau = f64At(fs, F_TAU);
   const kappa = f64At(fs, F_KAPPA);
-  const dTau =
-    (-eta * rTau - dKappa / tau -
-      (dotRange(ptr(hdr, H_C), n, sol2, 0) + dotRange(ptr(hdr, H_B), p, sol2, n) + dotRange(ptr(hdr, H_H), m, sol2, n + p))) /
-    tauPivot;
+  const dTau = (-eta * rTau - dKappa / tau - dotRange(ptr(hdr, H_CBH), dim, sol2, 0)) / tauPivot;
   if (!isFinite(dTau)) return false;
   for (let i = 0; i < dim; i++) setF64(sol2, i, f64At(sol2, i) + dTau * f64At(sol1, i));
   for (let i = 0; i < m; i++) setF64(tmp2, i, f64At(sol2, n + p + i));
@@ -535,7 +533,7 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   for (let i = 0; i < m; i++) setF64(tmp, i, -f64At(tmp, i));
   directionRhs(hdr, 1, tmp, rhs2);
   if (!kktSolvePair(hdr, fs, rhs, rhs2, sol1, ptr(hdr, H_SOL2), i32At(hdr, H_REFINE_MAX), i32At(hdr, H_REFINE_AFFINE))) return -1;
-  const tauPivot = dotRange(c, n, sol1, 0) + dotRange(b, p, sol1, n) + dotRange(h, m, sol1, n + p) - kappa / tau;
+  const tauPivot = dotRange(ptr(hdr, H_CBH), n + p + m, sol1, 0) - kappa / tau;
   const mu = (f64At(fs, F_SZ) + tau * kappa) / (f64At(fs, F_DEGREE) + 1);
   const rTau = kappa + f64At(fs, F_CX) + f64At(fs, F_BY) + f64At(fs, F_HZ);
   if (!directionFinish(hdr, fs, 1, -tau * kappa, tauPivot, rTau)) return -1;
@@ -546,10 +544,10 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   // Centring σ = (1 − α_aff)³ and the second-order correction.
   const oneMinus = 1 - alphaAff;
   const sigma = Math.min(1, Math.max(1e-4, oneMinus * oneMinus * oneMinus));
-  jordanProduct(hdr, lambda, lambda, tmp);
+  // tmp still holds −λ∘λ (the affine target).
   jordanProduct(hdr, ptr(hdr, H_DS_SCALED), ptr(hdr, H_DZ_SCALED), tmp2);
   const ones = ptr(hdr, H_ONES);
-  for (let i = 0; i < m; i++) setF64(tmp, i, -f64At(tmp, i) - f64At(tmp2, i) + sigma * mu * f64At(ones, i));
+  for (let i = 0; i < m; i++) setF64(tmp, i, f64At(tmp, i) - f64At(tmp2, i) + sigma * mu * f64At(ones, i));
   const dKappaRhs = -tau * kappa - dTauAff * dKappaAff + sigma * mu;
   directionRhs(hdr, 1 - sigma, tmp, rhs);
   if (!kktSolve(hdr, fs, rhs, ptr(hdr, H_SOL2), i32At(hdr, H_REFINE_MAX))) return -1;

@@ -15,8 +15,9 @@
 }
 
 /**
- * Numeric up-looking LDLᵀ on precomputed row patterns (see ldl.ts). Returns the number of pivots replaced
- * by dynamic regularisation, or −1 when a pivot is zero or not finite and no sign is given (sign = 0).
+ * Numeric up-looking LDLᵀ on precomputed row patterns (see ldl.ts), for an upper triangle whose columns
+ * end with their diagonal entries. Returns the number of pivots replaced by dynamic regularisation, or −1
+ * when a pivot is zero or not finite and no sign is given (sign = 0).
  */
 export function ldlRefactor(
   n: i32, Ap: usize, Ai: usize, Ax: usize,
@@ -27,13 +28,10 @@ export function ldlRefactor(
   let regularised = 0;
   memory.fill(y, 0, <usize>n << 3);
   for (let k = 0; k < n; k++) {
-    let dk: f64 = 0;
-    const colEnd = i32At(Ap, k + 1);
-    for (let p = i32At(Ap, k); p < colEnd; p++) {
-      const i = i32At(Ai, p);
-      if (i == k) dk = f64At(Ax, p);
-      else setF64(y, i, f64At(Ax, p));
-    }
+    // Column k of the upper triangle ends with its diagonal entry (checked by the systems that call this).
+    const last = i32At(Ap, k + 1) - 1;
+    for (let p = i32At(Ap, k); p < last; p++) setF64(y, i32At(Ai, p), f64At(Ax, p));
+    let dk = f64At(Ax, last);
     const rowEnd = i32At(Rp, k + 1);
     for (let t = i32At(Rp, k); t < rowEnd; t++) {
       const c = i32At(Ri, t);
@@ -64,7 +62,7 @@ export function ldlRefactor(
   return regularised;
 }
 
-/** Solves L D Lᵀ x = b in place: forward substitution by rows (gather), diagonal, backward by columns. */
+/** Solves L D Lᵀ x = b in place: forward substitution by rows (gather), then diagonal and backward by columns. */
 export function ldlSolve(n: i32, Lp: usize, Li: usize, Lx: usize, Rp: usize, Ri: usize, Rx: usize, Dinv: usize, x: usize): void {
   for (let i = 0; i < n; i++) {
     let s = f64At(x, i);
@@ -72,9 +70,9 @@ export function ldlSolve(n: i32, Lp: usize, Li: usize, Lx: usize, Rp: usize, Ri:
     for (let q = i32At(Rp, i); q < end; q++) s -= f64At(Rx, q) * f64At(x, i32At(Ri, q));
     setF64(x, i, s);
   }
-  for (let i = 0; i < n; i++) setF64(x, i, f64At(x, i) * f64At(Dinv, i));
+  // Backward, each row scaled by its D⁻¹ as it is reached (rows below it are final by then).
   for (let i = n - 1; i >= 0; i--) {
-    let s = f64At(x, i);
+    let s = f64At(x, i) * f64At(Dinv, i);
     const end = i32At(Lp, i + 1);
     for (let j = i32At(Lp, i); j < end; j++) s -= f64At(Lx, j) * f64At(x, i32At(Li, j));
     setF64(x, i, s);
@@ -178,9 +176,8 @@ export function ldlSolvePair(n: i32, Lp: usize, Li: usize, Lx: usize, Rp: usize,
     for (let q = i32At(Rp, i); q < end; q++) s = f64x2.sub(s, f64x2.mul(f64x2.splat(f64At(Rx, q)), pairAt(x, i32At(Ri, q))));
     setPair(x, i, s);
   }
-  for (let i = 0; i < n; i++) setPair(x, i, f64x2.mul(pairAt(x, i), f64x2.splat(f64At(Dinv, i))));
   for (let i = n - 1; i >= 0; i--) {
-    let s = pairAt(x, i);
+    let s = f64x2.mul(pairAt(x, i), f64x2.splat(f64At(Dinv, i)));
     const end = i32At(Lp, i + 1);
     for (let j = i32At(Lp, i); j < end; j++) s = f64x2.sub(s, f64x2.mul(f64x2.splat(f64At(Lx, j)), pairAt(x, i32At(Li, j))));
     setPair(x, i, s);
