@@ -246,17 +246,46 @@ function jordanDivide(hdr: usize, lambda: usize, v: usize, out: usize): void {
   }
 }
 
-/** Largest α with x + α d in every cone (x interior); see SecondOrderCone.stepLength. */
-function coneStepLength(hdr: usize, x: usize, d: usize): f64 {
+/** Largest α with x + α d in one second-order cone at offset o (x interior; x₀, ‖x₁‖² and x₀² − ‖x₁‖² given); see SecondOrderCone.stepLength. */
+@inline function socStepLength(x0: f64, x1n: f64, cc: f64, d: usize, x: usize, o: i32, q: i32): f64 {
+  const d0 = f64At(d, o);
+  let a = d0 * d0;
+  let b = x0 * d0;
+  for (let i = 1; i < q; i++) {
+    const di = f64At(d, o + i);
+    a -= di * di;
+    b -= f64At(x, o + i) * di;
+  }
+  if (!(cc > 0)) return 0;
+  const tLimit: f64 = d0 < 0 ? -x0 / d0 : Infinity;
+  if (a > 0 && b >= 0) return tLimit;
+  const disc = b * b - a * cc;
+  if (disc < 0) return tLimit;
+  const denom = -b + Math.sqrt(disc);
+  return Math.min(tLimit, denom > 0 ? cc / denom : Infinity);
+}
+
+/** The smaller of the largest α with x + α d1 and with x + α d2 in every cone (x interior), in one pass. */
+function coneStepLength2(hdr: usize, x: usize, d1: usize, d2: usize): f64 {
   let alpha: f64 = Infinity;
   const l = i32At(hdr, H_L);
+  // The orthant as NonnegativeCone.stepLength: a ratio that is not a number is passed over.
+  let alpha1: f64 = Infinity;
+  let alpha2: f64 = Infinity;
   for (let i = 0; i < l; i++) {
-    const di = f64At(d, i);
-    if (di < 0) {
-      const a = -f64At(x, i) / di;
-      if (a < alpha) alpha = a;
+    const xi = f64At(x, i);
+    const a1 = f64At(d1, i);
+    const a2 = f64At(d2, i);
+    if (a1 < 0) {
+      const a = -xi / a1;
+      if (a < alpha1) alpha1 = a;
+    }
+    if (a2 < 0) {
+      const a = -xi / a2;
+      if (a < alpha2) alpha2 = a;
     }
   }
+  if (l > 0) alpha = Math.min(alpha, Math.min(alpha1, alpha2));
   const nsoc = i32At(hdr, H_NSOC);
   const offs = ptr(hdr, H_SOC_OFF);
   const dims = ptr(hdr, H_SOC_DIM);
@@ -264,36 +293,13 @@ function coneStepLength(hdr: usize, x: usize, d: usize): f64 {
     const o = i32At(offs, c);
     const q = i32At(dims, c);
     const x0 = f64At(x, o);
-    const d0 = f64At(d, o);
-    let a = d0 * d0;
-    let b = x0 * d0;
     let x1n: f64 = 0;
     for (let i = 1; i < q; i++) {
       const xi = f64At(x, o + i);
-      const di = f64At(d, o + i);
-      a -= di * di;
-      b -= xi * di;
       x1n += xi * xi;
     }
     const cc = (x0 - Math.sqrt(x1n)) * (x0 + Math.sqrt(x1n));
-    let step: f64;
-    if (!(cc > 0)) {
-      step = 0;
-    } else {
-      const tLimit: f64 = d0 < 0 ? -x0 / d0 : Infinity;
-      if (a > 0 && b >= 0) {
-        step = tLimit;
-      } else {
-        const disc = b * b - a * cc;
-        if (disc < 0) {
-          step = tLimit;
-        } else {
-          const denom = -b + Math.sqrt(disc);
-          step = Math.min(tLimit, denom > 0 ? cc / denom : Infinity);
-        }
-      }
-    }
-    alpha = Math.min(alpha, step);
+    alpha = Math.min(alpha, Math.min(socStepLength(x0, x1n, cc, d1, x, o, q), socStepLength(x0, x1n, cc, d2, x, o, q)));
   }
   return alpha;
 }
@@ -405,6 +411,11 @@ export function ipmResiduals(hdr: usize, fs: usize): void {
   const Gp = ptr(hdr, H_G_COLPTR);
   const Gi = ptr(hdr, H_G_ROWIDX);
   const Gx = ptr(hdr, H_G_VALUES);
+  // Each reduction runs in index order, as the workspace's separate loops do, so the sums are the same.
+  const Dinv = ptr(hdr, H_DSCALE_INV);
+  const Einv = ptr(hdr, H_ESCALE_INV);
+  let cx: f64 = 0;
+  let dres: f64 = 0;
   for (let j = 0; j < n; j++) {
     const xj = f64At(xyz, j);
     let acc: f64 = 0;
@@ -422,29 +433,37 @@ export function ipmResiduals(hdr: usize, fs: usize): void {
       setF64(rz, i, f64At(rz, i) + v * xj);
       acc += v * f64At(z, i);
     }
-    setF64(r, j, acc + f64At(c, j) * tau);
+    const cj = f64At(c, j);
+    const rj = acc + cj * tau;
+    setF64(r, j, rj);
+    cx += cj * xj;
+    dres = Math.max(dres, Math.abs(rj * f64At(Dinv, j)));
   }
-  setF64(fs, F_CX, dotRange(c, n, xyz, 0));
-  setF64(fs, F_BY, dotRange(b, p, xyz, n));
-  setF64(fs, F_HZ, dotRange(h, m, xyz, n + p));
-  setF64(fs, F_SZ, dotRange(s, m, z0(hdr), 0));
-  // The residual norms in the problem's own units (termination.ts: unscaledResidualNorms).
-  const Dinv = ptr(hdr, H_DSCALE_INV);
-  const Einv = ptr(hdr, H_ESCALE_INV);
+  // The residual norms in the problem's own units (termination.ts: unscaledResidualNorms) and the dots.
+  let by: f64 = 0;
   let presEq: f64 = 0;
-  for (let i = 0; i < p; i++) presEq = Math.max(presEq, Math.abs(f64At(r, n + i) * f64At(Einv, i)));
+  for (let i = 0; i < p; i++) {
+    by += f64At(b, i) * f64At(y, i);
+    presEq = Math.max(presEq, Math.abs(f64At(ry, i) * f64At(Einv, i)));
+  }
+  let hz: f64 = 0;
+  let sz: f64 = 0;
   let presCone: f64 = 0;
-  for (let i = 0; i < m; i++) presCone = Math.max(presCone, Math.abs(f64At(r, n + p + i) * f64At(Einv, p + i)));
-  let dres: f64 = 0;
-  for (let j = 0; j < n; j++) dres = Math.max(dres, Math.abs(f64At(r, j) * f64At(Dinv, j)));
+  for (let i = 0; i < m; i++) {
+    const zi = f64At(z, i);
+    hz += f64At(h, i) * zi;
+    sz += f64At(s, i) * zi;
+    presCone = Math.max(presCone, Math.abs(f64At(rz, i) * f64At(Einv, p + i)));
+  }
+  setF64(fs, F_CX, cx);
+  setF64(fs, F_BY, by);
+  setF64(fs, F_HZ, hz);
+  setF64(fs, F_SZ, sz);
   setF64(fs, F_PRES_EQ, presEq);
   setF64(fs, F_PRES_CONE, presCone);
   setF64(fs, F_DRES, dres);
 }
 
-@inline function z0(hdr: usize): usize {
-  return ptr(hdr, H_XYZ) + (<usize>(i32At(hdr, H_N) + i32At(hdr, H_P)) << 3);
-}
 
 /**
  * The right-hand side of a search direction for residual reduction η and complementarity right-hand side
@@ -482,12 +501,33 @@ function directionFinish(hdr: usize, fs: usize, eta: f64, dKappa: f64, tauPivot:
   const dTau = (-eta * rTau - dKappa / tau - dotRange(ptr(hdr, H_CBH), dim, sol2, 0)) / tauPivot;
   if (!isFinite(dTau)) return false;
   for (let i = 0; i < dim; i++) setF64(sol2, i, f64At(sol2, i) + dTau * f64At(sol1, i));
-  for (let i = 0; i < m; i++) setF64(tmp2, i, f64At(sol2, n + p + i));
+  // Per cone: WΔz, then Δs = W(λ \ d_s) − W(WΔz), then W⁻¹Δs (the workspace's mulW / mulWinv passes).
+  const dz = sol2 + (<usize>(n + p) << 3);
   const dzScaled = ptr(hdr, H_DZ_SCALED);
-  mulW(hdr, tmp2, dzScaled);
-  mulW(hdr, dzScaled, tmp2);
-  for (let i = 0; i < m; i++) setF64(ds, i, f64At(ds, i) - f64At(tmp2, i));
-  mulWinv(hdr, ds, ptr(hdr, H_DS_SCALED));
+  const dsScaled = ptr(hdr, H_DS_SCALED);
+  const w = ptr(hdr, H_W);
+  const l = i32At(hdr, H_L);
+  for (let i = 0; i < l; i++) {
+    const wi = f64At(w, i);
+    const dzs = wi * f64At(dz, i);
+    setF64(dzScaled, i, dzs);
+    const dsi = f64At(ds, i) - wi * dzs;
+    setF64(ds, i, dsi);
+    setF64(dsScaled, i, dsi / wi);
+  }
+  const nsoc = i32At(hdr, H_NSOC);
+  const offs = ptr(hdr, H_SOC_OFF);
+  const dims = ptr(hdr, H_SOC_DIM);
+  const etas = ptr(hdr, H_ETA);
+  for (let c = 0; c < nsoc; c++) {
+    const o = i32At(offs, c);
+    const q = i32At(dims, c);
+    const eta = f64At(etas, c);
+    applySocScaling(w, o, q, dz, dzScaled, eta, 1);
+    applySocScaling(w, o, q, dzScaled, tmp2, eta, 1);
+    for (let i = o; i < o + q; i++) setF64(ds, i, f64At(ds, i) - f64At(tmp2, i));
+    applySocScaling(w, o, q, ds, dsScaled, 1 / eta, -1);
+  }
   setF64(fs, F_DTAU, dTau);
   setF64(fs, F_DKAPPA, (dKappa - kappa * dTau) / tau);
   return true;
@@ -496,7 +536,7 @@ function directionFinish(hdr: usize, fs: usize, eta: f64, dKappa: f64, tauPivot:
 /** Largest α with λ + α W⁻¹Δs, λ + α WΔz ∈ K and τ, κ ≥ 0. */
 function stepToBoundary(hdr: usize, fs: usize, dTau: f64, dKappa: f64): f64 {
   const lambda = ptr(hdr, H_LAMBDA);
-  let alpha = Math.min(coneStepLength(hdr, lambda, ptr(hdr, H_DS_SCALED)), coneStepLength(hdr, lambda, ptr(hdr, H_DZ_SCALED)));
+  let alpha = coneStepLength2(hdr, lambda, ptr(hdr, H_DS_SCALED), ptr(hdr, H_DZ_SCALED));
   if (dTau < 0) alpha = Math.min(alpha, -f64At(fs, F_TAU) / dTau);
   if (dKappa < 0) alpha = Math.min(alpha, -f64At(fs, F_KAPPA) / dKappa);
   return alpha;
