@@ -178,28 +178,27 @@ function updateScaling(hdr: usize): bool {
   for (let i = 1; i < q; i++) setF64(out, o + i, factor * (f64At(v, o + i) + c * f64At(w, o + i)));
 }
 
-/** out = W v (v and out of length m, distinct). */
-function mulW(hdr: usize, v: usize, out: usize): void {
-  const l = i32At(hdr, H_L);
-  const w = ptr(hdr, H_W);
-  for (let i = 0; i < l; i++) setF64(out, i, f64At(w, i) * f64At(v, i));
-  const nsoc = i32At(hdr, H_NSOC);
-  const offs = ptr(hdr, H_SOC_OFF);
-  const dims = ptr(hdr, H_SOC_DIM);
-  const eta = ptr(hdr, H_ETA);
-  for (let c = 0; c < nsoc; c++) applySocScaling(w, i32At(offs, c), i32At(dims, c), v, out, f64At(eta, c), 1);
-}
 
-/** out = W⁻¹ v. */
-function mulWinv(hdr: usize, v: usize, out: usize): void {
+
+/** out = −(λ ∘ λ). */
+function negatedJordanSquare(hdr: usize, lambda: usize, out: usize): void {
   const l = i32At(hdr, H_L);
-  const w = ptr(hdr, H_W);
-  for (let i = 0; i < l; i++) setF64(out, i, f64At(v, i) / f64At(w, i));
+  for (let i = 0; i < l; i++) {
+    const li = f64At(lambda, i);
+    setF64(out, i, -(li * li));
+  }
   const nsoc = i32At(hdr, H_NSOC);
   const offs = ptr(hdr, H_SOC_OFF);
   const dims = ptr(hdr, H_SOC_DIM);
-  const eta = ptr(hdr, H_ETA);
-  for (let c = 0; c < nsoc; c++) applySocScaling(w, i32At(offs, c), i32At(dims, c), v, out, 1 / f64At(eta, c), -1);
+  for (let c = 0; c < nsoc; c++) {
+    const o = i32At(offs, c);
+    const q = i32At(dims, c);
+    const l0 = f64At(lambda, o);
+    let dot = l0 * l0;
+    for (let i = 1; i < q; i++) dot += f64At(lambda, o + i) * f64At(lambda, o + i);
+    for (let i = 1; i < q; i++) setF64(out, o + i, -(l0 * f64At(lambda, o + i) + l0 * f64At(lambda, o + i)));
+    setF64(out, o, -dot);
+  }
 }
 
 /** out = u ∘ v (Jordan product). */
@@ -221,29 +220,20 @@ function jordanProduct(hdr: usize, u: usize, v: usize, out: usize): void {
   }
 }
 
-/** out = λ \ v. */
-function jordanDivide(hdr: usize, lambda: usize, v: usize, out: usize): void {
-  const l = i32At(hdr, H_L);
-  for (let i = 0; i < l; i++) setF64(out, i, f64At(v, i) / f64At(lambda, i));
-  const nsoc = i32At(hdr, H_NSOC);
-  const offs = ptr(hdr, H_SOC_OFF);
-  const dims = ptr(hdr, H_SOC_DIM);
-  for (let c = 0; c < nsoc; c++) {
-    const o = i32At(offs, c);
-    const q = i32At(dims, c);
-    const l0 = f64At(lambda, o);
-    let l1n: f64 = 0;
-    let l1v1: f64 = 0;
-    for (let i = 1; i < q; i++) {
-      const li = f64At(lambda, o + i);
-      l1n += li * li;
-      l1v1 += li * f64At(v, o + i);
-    }
-    const det = (l0 - Math.sqrt(l1n)) * (l0 + Math.sqrt(l1n));
-    const u0 = (l0 * f64At(v, o) - l1v1) / det;
-    for (let i = 1; i < q; i++) setF64(out, o + i, (f64At(v, o + i) - u0 * f64At(lambda, o + i)) / l0);
-    setF64(out, o, u0);
+/** out = λ \ v on one second-order cone at offset o. */
+@inline function socJordanDivide(lambda: usize, v: usize, out: usize, o: i32, q: i32): void {
+  const l0 = f64At(lambda, o);
+  let l1n: f64 = 0;
+  let l1v1: f64 = 0;
+  for (let i = 1; i < q; i++) {
+    const li = f64At(lambda, o + i);
+    l1n += li * li;
+    l1v1 += li * f64At(v, o + i);
   }
+  const det = (l0 - Math.sqrt(l1n)) * (l0 + Math.sqrt(l1n));
+  const u0 = (l0 * f64At(v, o) - l1v1) / det;
+  for (let i = 1; i < q; i++) setF64(out, o + i, (f64At(v, o + i) - u0 * f64At(lambda, o + i)) / l0);
+  setF64(out, o, u0);
 }
 
 /** Largest α with x + α d in one second-order cone at offset o (x interior; x₀, ‖x₁‖² and x₀² − ‖x₁‖² given); see SecondOrderCone.stepLength. */
@@ -472,14 +462,32 @@ export function ipmResiduals(hdr: usize, fs: usize): void {
 function directionRhs(hdr: usize, eta: f64, dsTarget: usize, rhs: usize): void {
   const n = i32At(hdr, H_N);
   const p = i32At(hdr, H_P);
-  const m = i32At(hdr, H_M);
   const ds = ptr(hdr, H_DS);
   const tmp2 = ptr(hdr, H_TMP2);
   const r = ptr(hdr, H_RXYZ);
-  jordanDivide(hdr, ptr(hdr, H_LAMBDA), dsTarget, tmp2);
-  mulW(hdr, tmp2, ds);
+  const lambda = ptr(hdr, H_LAMBDA);
+  const w = ptr(hdr, H_W);
   for (let j = 0; j < n + p; j++) setF64(rhs, j, -eta * f64At(r, j));
-  for (let i = 0; i < m; i++) setF64(rhs, n + p + i, -eta * f64At(r, n + p + i) - f64At(ds, i));
+  // Per cone: λ \ d_s, then W(λ \ d_s), then the z rows of the right-hand side.
+  const rz = r + (<usize>(n + p) << 3);
+  const rhsZ = rhs + (<usize>(n + p) << 3);
+  const l = i32At(hdr, H_L);
+  for (let i = 0; i < l; i++) {
+    const u = f64At(w, i) * (f64At(dsTarget, i) / f64At(lambda, i));
+    setF64(ds, i, u);
+    setF64(rhsZ, i, -eta * f64At(rz, i) - u);
+  }
+  const nsoc = i32At(hdr, H_NSOC);
+  const offs = ptr(hdr, H_SOC_OFF);
+  const dims = ptr(hdr, H_SOC_DIM);
+  const etas = ptr(hdr, H_ETA);
+  for (let c = 0; c < nsoc; c++) {
+    const o = i32At(offs, c);
+    const q = i32At(dims, c);
+    socJordanDivide(lambda, dsTarget, tmp2, o, q);
+    applySocScaling(w, o, q, tmp2, ds, f64At(etas, c), 1);
+    for (let i = o; i < o + q; i++) setF64(rhsZ, i, -eta * f64At(rz, i) - f64At(ds, i));
+  }
 }
 
 /**
@@ -569,8 +577,7 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   const tmp = ptr(hdr, H_TMP);
   const tmp2 = ptr(hdr, H_TMP2);
   const rhs2 = ptr(hdr, H_RHS2);
-  jordanProduct(hdr, lambda, lambda, tmp);
-  for (let i = 0; i < m; i++) setF64(tmp, i, -f64At(tmp, i));
+  negatedJordanSquare(hdr, lambda, tmp);
   directionRhs(hdr, 1, tmp, rhs2);
   if (!kktSolvePair(hdr, fs, rhs, rhs2, sol1, ptr(hdr, H_SOL2), i32At(hdr, H_REFINE_MAX), i32At(hdr, H_REFINE_AFFINE))) return -1;
   const tauPivot = dotRange(ptr(hdr, H_CBH), n + p + m, sol1, 0) - kappa / tau;
