@@ -149,7 +149,7 @@ export class LdlFactor {
         if (i === k) dk = Ax[p];
         else yVals[i] = Ax[p];
       }
-      let dk2 = 0; // a second accumulator halves the dependency chain of the pivot update
+      // One accumulator for the pivot, in the order of the WebAssembly kernel, so that both give the same bits.
       const rowEnd = Rp[k + 1];
       for (let t = Rp[k]; t < rowEnd; t++) {
         const c = Ri[t];
@@ -160,10 +160,8 @@ export class LdlFactor {
         const l = yc * Dinv[c];
         Lx[pos] = l;
         Rx[t] = l;
-        if (t & 1) dk2 -= yc * l;
-        else dk -= yc * l;
+        dk -= yc * l;
       }
-      dk += dk2;
       if (sign) {
         if (!(sign[k] * dk >= eps)) {
           dk = sign[k] * delta;
@@ -184,33 +182,21 @@ export class LdlFactor {
    * accumulators: the sums are latency-bound, and two independent chains run about twice as fast.
    */
   solveInPlace(x: Float64Array): void {
+    // One accumulator per row, in the order of the WebAssembly kernel, so that both give the same bits.
     const { n, Lp, Li, Rp, Ri } = this.symbolic;
     const { Lx, Dinv, Rx } = this;
     for (let i = 0; i < n; i++) {
-      let s0 = x[i];
-      let s1 = 0;
-      const end = Rp[i + 1];
-      let q = Rp[i];
-      for (; q + 1 < end; q += 2) {
-        s0 -= Rx[q] * x[Ri[q]];
-        s1 -= Rx[q + 1] * x[Ri[q + 1]];
-      }
-      if (q < end) s0 -= Rx[q] * x[Ri[q]];
-      x[i] = s0 + s1;
+      let s = x[i];
+      for (let q = Rp[i]; q < Rp[i + 1]; q++) s -= Rx[q] * x[Ri[q]];
+      x[i] = s;
     }
     for (let i = n - 1; i >= 0; i--) {
-      let s0 = x[i] * Dinv[i];
-      let s1 = 0;
-      const end = Lp[i + 1];
-      let j = Lp[i];
-      for (; j + 1 < end; j += 2) {
-        s0 -= Lx[j] * x[Li[j]];
-        s1 -= Lx[j + 1] * x[Li[j + 1]];
-      }
-      if (j < end) s0 -= Lx[j] * x[Li[j]];
-      x[i] = s0 + s1;
+      let s = x[i] * Dinv[i];
+      for (let j = Lp[i]; j < Lp[i + 1]; j++) s -= Lx[j] * x[Li[j]];
+      x[i] = s;
     }
   }
+
 }
 
 /** y = S x for a symmetric S stored as its upper triangle U (CSC). */

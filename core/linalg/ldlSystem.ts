@@ -28,7 +28,8 @@ export interface LdlSystem {
    * S₀ = S − shift·diag(sign) (the matrix without its static regularisation): refinement stops once the
    * residual is below tolerance·(1 + ‖b‖∞), after maxSteps, when a step gains less than a factor 5, or —
    * taking that step back — when a step makes the residual worse (checked only for steps that another
-   * could follow: the residual after the last allowed step is not measured). False if x is not finite.
+   * could follow: the residual after the last allowed step is not measured, and with maxSteps = 0 none
+   * is, lastRelativeResidual then being NaN). False if x is not finite.
    */
   solveRefined(b: Float64Array, x: Float64Array, shift: number, tolerance: number, maxSteps: number): boolean;
   /**
@@ -105,8 +106,9 @@ export class JsLdlSystem implements LdlSystem {
     const tol = tolerance * (1 + rhsNorm);
     let steps = 0;
     let prevNorm = Infinity;
-    let finalNorm: number;
-    for (;;) {
+    // With no step allowed the residual is not measured.
+    let finalNorm = NaN;
+    while (maxSteps > 0) {
       this.residualShifted(shift, bk, work, correction);
       let norm = 0;
       for (let k = 0; k < dim; k++) {
@@ -153,7 +155,10 @@ export class JsLdlSystem implements LdlSystem {
     return okA && okB;
   }
 
-  /** r = b − S₀x with S₀ = S − shift·diag(sign), S from its stored upper triangle; two accumulators per column. */
+  /**
+   * r = b − S₀x with S₀ = S − shift·diag(sign), S from its stored upper triangle; one accumulator per
+   * column, in the order of the WebAssembly kernel, so that both give the same bits.
+   */
   private residualShifted(shift: number, b: Float64Array, x: Float64Array, r: Float64Array): void {
     const { colPtr, rowIdx, values, n } = this.matrix;
     const sign = this.sign;
@@ -161,25 +166,15 @@ export class JsLdlSystem implements LdlSystem {
     for (let j = 0; j < n; j++) {
       const xj = x[j];
       const last = colPtr[j + 1] - 1;
-      let s0 = (values[last] - sign[j] * shift) * xj;
-      let s1 = 0;
-      let q = colPtr[j];
-      for (; q + 1 < last; q += 2) {
-        const i0 = rowIdx[q];
-        const i1 = rowIdx[q + 1];
-        const v0 = values[q];
-        const v1 = values[q + 1];
-        r[i0] -= v0 * xj;
-        r[i1] -= v1 * xj;
-        s0 += v0 * x[i0];
-        s1 += v1 * x[i1];
+      let s = (values[last] - sign[j] * shift) * xj;
+      for (let q = colPtr[j]; q < last; q++) {
+        const i = rowIdx[q];
+        const v = values[q];
+        r[i] -= v * xj;
+        s += v * x[i];
       }
-      if (q < last) {
-        const i0 = rowIdx[q];
-        r[i0] -= values[q] * xj;
-        s0 += values[q] * x[i0];
-      }
-      r[j] -= s0 + s1;
+      r[j] -= s;
     }
   }
+
 }

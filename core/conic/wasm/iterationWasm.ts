@@ -38,7 +38,7 @@ const H = {
   c: 34, b: 35, h: 36, xyz: 37, s: 38, lambda: 39, rxyz: 40, rhs: 41, sol1: 42, sol2: 43, ds: 44,
   dsScaled: 45, dzScaled: 46, tmp: 47, tmp2: 48, ones: 49, refineMax: 51, refineAffine: 52,
   retries: 53, rhs2: 54, pair: 55, colScale: 56, rowScale: 57, aColPtr: 58, aRowIdx: 59, aValues: 60,
-  gColPtr: 61, gRowIdx: 62, gValues: 63, cbh: 33, colScaleInv: 50, rowScaleInv: 32,
+  gColPtr: 61, gRowIdx: 62, gValues: 63, cbh: 33, colScaleInv: 50, rowScaleInv: 32, predictorSolution: 29,
 } as const;
 const HEADER_SLOTS = 64;
 const F = {
@@ -67,7 +67,7 @@ export interface IterationSettings {
 }
 
 type VectorName = 'cbh' | 'xyz' | 's' | 'lambda' | 'rxyz' | 'rhs' | 'rhs2' | 'sol1' | 'sol2' | 'ds' |
-  'dsScaled' | 'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'w' | 'colScale' | 'rowScale' | 'colScaleInv' | 'rowScaleInv';
+  'dsScaled' | 'dzScaled' | 'tmp' | 'tmp2' | 'ones' | 'w' | 'colScale' | 'rowScale' | 'colScaleInv' | 'rowScaleInv' | 'predictorSolution';
 
 /** The arrays of the iteration and their lengths, in layout order. */
 function vectorLengths(n: number, p: number, m: number): Array<[VectorName, number]> {
@@ -75,7 +75,7 @@ function vectorLengths(n: number, p: number, m: number): Array<[VectorName, numb
   return [
     ['cbh', dim], ['xyz', dim], ['s', m], ['lambda', m], ['rxyz', dim], ['rhs', dim],
     ['sol1', dim], ['sol2', dim], ['ds', m], ['dsScaled', m], ['dzScaled', m], ['tmp', m], ['tmp2', m],
-    ['ones', m], ['w', m], ['rhs2', dim], ['colScale', n], ['rowScale', p + m], ['colScaleInv', n], ['rowScaleInv', p + m],
+    ['ones', m], ['w', m], ['rhs2', dim], ['colScale', n], ['rowScale', p + m], ['colScaleInv', n], ['rowScaleInv', p + m], ['predictorSolution', dim],
   ];
 }
 

@@ -42,6 +42,7 @@ const H_PERM = 25;
 const H_WORK = 26;
 const H_BK = 27;
 const H_CORRECTION = 28;
+const H_PREDICTOR_SOLUTION = 29;
 const H_LAST_STEP = 30;
 const H_INFO = 31;
 const H_ESCALE_INV = 32;
@@ -580,6 +581,8 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   negatedJordanSquare(hdr, lambda, tmp);
   directionRhs(hdr, 1, tmp, rhs2);
   if (!kktSolvePair(hdr, fs, rhs, rhs2, sol1, ptr(hdr, H_SOL2), i32At(hdr, H_REFINE_MAX), i32At(hdr, H_REFINE_AFFINE))) return -1;
+  // Kept for the corrector (see the workspace's direction()): the predictor's right-hand side stays in rhs2.
+  memory.copy(ptr(hdr, H_PREDICTOR_SOLUTION), ptr(hdr, H_SOL2), <usize>(n + p + m) << 3);
   const tauPivot = dotRange(ptr(hdr, H_CBH), n + p + m, sol1, 0) - kappa / tau;
   const mu = (f64At(fs, F_SZ) + tau * kappa) / (f64At(fs, F_DEGREE) + 1);
   const rTau = kappa + f64At(fs, F_CX) + f64At(fs, F_BY) + f64At(fs, F_HZ);
@@ -596,8 +599,14 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   const ones = ptr(hdr, H_ONES);
   for (let i = 0; i < m; i++) setF64(tmp, i, f64At(tmp, i) - f64At(tmp2, i) + sigma * mu * f64At(ones, i));
   const dKappaRhs = -tau * kappa - dTauAff * dKappaAff + sigma * mu;
+  // The corrector: the predictor's refined solution plus an unrefined solve of the difference.
   directionRhs(hdr, 1 - sigma, tmp, rhs);
-  if (!kktSolve(hdr, fs, rhs, ptr(hdr, H_SOL2), i32At(hdr, H_REFINE_MAX))) return -1;
+  const dim = n + p + m;
+  for (let i = 0; i < dim; i++) setF64(rhs, i, f64At(rhs, i) - f64At(rhs2, i));
+  const sol2 = ptr(hdr, H_SOL2);
+  if (!kktSolve(hdr, fs, rhs, sol2, 0)) return -1;
+  const predictorSolution = ptr(hdr, H_PREDICTOR_SOLUTION);
+  for (let i = 0; i < dim; i++) setF64(sol2, i, f64At(sol2, i) + f64At(predictorSolution, i));
   if (!directionFinish(hdr, fs, 1 - sigma, dKappaRhs, tauPivot, rTau)) return -1;
   const dTau = f64At(fs, F_DTAU);
   const dKappa = f64At(fs, F_DKAPPA);
@@ -606,10 +615,8 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
 
   // Update the iterate.
   const xyz = ptr(hdr, H_XYZ);
-  const sol2 = ptr(hdr, H_SOL2);
   const s = ptr(hdr, H_S);
   const ds = ptr(hdr, H_DS);
-  const dim = n + p + m;
   for (let i = 0; i < dim; i++) setF64(xyz, i, f64At(xyz, i) + alpha * f64At(sol2, i));
   for (let i = 0; i < m; i++) setF64(s, i, f64At(s, i) + alpha * f64At(ds, i));
   setF64(fs, F_TAU, tau + alpha * dTau);

@@ -123,8 +123,9 @@ export function ldlSolveRefined(
   const tol = tolerance * (1 + rhsNorm);
   let steps = 0;
   let prevNorm: f64 = Infinity;
-  let finalNorm: f64 = 0;
-  while (true) {
+  // With no step allowed the residual is not measured (see ldlSystem.ts).
+  let finalNorm: f64 = NaN;
+  while (maxSteps > 0) {
     symmetricResidualShifted(n, Ap, Ai, Ax, sign, shift, bk, work, correction);
     let norm: f64 = 0;
     for (let k = 0; k < n; k++) {
@@ -238,11 +239,12 @@ export function ldlSolveRefinedPair(
   let stepsB = 0;
   let prevA: f64 = Infinity;
   let prevB: f64 = Infinity;
-  let finalA: f64 = 0;
-  let finalB: f64 = 0;
-  let doneA = false;
-  let doneB = false;
-  while (true) {
+  // A side allowed no step is not measured (see ldlSystem.ts).
+  let finalA: f64 = NaN;
+  let finalB: f64 = NaN;
+  let doneA = maxStepsA <= 0;
+  let doneB = maxStepsB <= 0;
+  while (!doneA || !doneB) {
     symmetricResidualShiftedPair(n, Ap, Ai, Ax, sign, shift, bk, work, correction);
     let rA: f64 = 0;
     let rB: f64 = 0;
