@@ -90,8 +90,9 @@ export class ConicWorkspace {
   private readonly rhs: Float64Array;
   /** A second right-hand side: the cold start's pair of solves, then the predictor's (kept for the corrector). */
   private readonly rhs2: Float64Array;
-  /** The predictor's KKT solution (before its τ part), from which the corrector's starts. */
+  /** The predictor's KKT solution (before its τ part), from which the corrector's starts, and its dot with [c; b; h]. */
   private readonly predictorSolution: Float64Array;
+  private predictorDot = 0;
   /** The iteration on WebAssembly (null: the TypeScript step below). */
   private readonly engine: WasmIteration | null;
   private readonly sol1: Float64Array;
@@ -485,20 +486,21 @@ export class ConicWorkspace {
     for (let i = 0; i < p; i++) rhs[n + i] = -eta * res.ry[i];
     for (let i = 0; i < m; i++) rhs[n + p + i] = -eta * res.rz[i] - ds[i];
     const dim = n + p + m;
+    let solutionDot: number;
     if (predictor) {
-      if (!kkt.solve(rhs, sol2, Math.min(AFFINE_REFINEMENT, this.settings.refinementMaxIterations))) return false;
+      if (!kkt.solve(rhs, predictorSolution, Math.min(AFFINE_REFINEMENT, this.settings.refinementMaxIterations))) return false;
       predictorRhs.set(rhs);
-      predictorSolution.set(sol2);
+      solutionDot = dot(this.cbh, predictorSolution);
+      this.predictorDot = solutionDot;
     } else {
       for (let i = 0; i < dim; i++) rhs[i] -= predictorRhs[i];
       if (!kkt.solve(rhs, sol2, 0)) return false;
-      for (let i = 0; i < dim; i++) sol2[i] += predictorSolution[i];
+      solutionDot = dot(this.cbh, sol2) + this.predictorDot;
     }
-    const dTau =
-      (-eta * rTau - dKappa / tau - dot(this.cbh, sol2)) /
-      tauPivot;
+    const dTau = (-eta * rTau - dKappa / tau - solutionDot) / tauPivot;
     if (!Number.isFinite(dTau)) return false;
-    for (let i = 0; i < n + p + m; i++) sol2[i] += dTau * sol1[i];
+    if (predictor) for (let i = 0; i < dim; i++) sol2[i] = predictorSolution[i] + dTau * sol1[i];
+    else for (let i = 0; i < dim; i++) sol2[i] = sol2[i] + predictorSolution[i] + dTau * sol1[i];
     // Δs = W(λ \ d_s) − W²Δz; scaled directions for the step length and the corrector.
     for (let i = 0; i < m; i++) tmpM2[i] = sol2[n + p + i];
     for (const k of cones) k.mulW(tmpM2, dzScaled);

@@ -95,6 +95,7 @@ const F_DKAPPA = 15;
 const F_PRES_EQ = 16;
 const F_PRES_CONE = 17;
 const F_DRES = 18;
+const F_PREDICTOR_DOT = 19;
 
 @inline function f64At(base: usize, i: i32): f64 {
   return load<f64>(base + (<usize>i << 3));
@@ -458,9 +459,9 @@ export function ipmResiduals(hdr: usize, fs: usize): void {
 
 /**
  * The right-hand side of a search direction for residual reduction η and complementarity right-hand side
- * `dsTarget` (scaled space): u = W(λ \ d_s) into ds, and −η r − [0; 0; u] into `rhs`.
+ * `dsTarget` (scaled space): u = W(λ \ d_s) into ds, and −η r − [0; 0; u] (less `minus` unless 0) into `rhs`.
  */
-function directionRhs(hdr: usize, eta: f64, dsTarget: usize, rhs: usize): void {
+function directionRhs(hdr: usize, eta: f64, dsTarget: usize, rhs: usize, minus: usize): void {
   const n = i32At(hdr, H_N);
   const p = i32At(hdr, H_P);
   const ds = ptr(hdr, H_DS);
@@ -468,7 +469,9 @@ function directionRhs(hdr: usize, eta: f64, dsTarget: usize, rhs: usize): void {
   const r = ptr(hdr, H_RXYZ);
   const lambda = ptr(hdr, H_LAMBDA);
   const w = ptr(hdr, H_W);
-  for (let j = 0; j < n + p; j++) setF64(rhs, j, -eta * f64At(r, j));
+  if (minus == 0) for (let j = 0; j < n + p; j++) setF64(rhs, j, -eta * f64At(r, j));
+  else for (let j = 0; j < n + p; j++) setF64(rhs, j, -eta * f64At(r, j) - f64At(minus, j));
+  const minusZ = minus + (<usize>(n + p) << 3);
   // Per cone: λ \ d_s, then W(λ \ d_s), then the z rows of the right-hand side.
   const rz = r + (<usize>(n + p) << 3);
   const rhsZ = rhs + (<usize>(n + p) << 3);
@@ -476,7 +479,8 @@ function directionRhs(hdr: usize, eta: f64, dsTarget: usize, rhs: usize): void {
   for (let i = 0; i < l; i++) {
     const u = f64At(w, i) * (f64At(dsTarget, i) / f64At(lambda, i));
     setF64(ds, i, u);
-    setF64(rhsZ, i, -eta * f64At(rz, i) - u);
+    const v = -eta * f64At(rz, i) - u;
+    setF64(rhsZ, i, minus == 0 ? v : v - f64At(minusZ, i));
   }
   const nsoc = i32At(hdr, H_NSOC);
   const offs = ptr(hdr, H_SOC_OFF);
@@ -487,16 +491,19 @@ function directionRhs(hdr: usize, eta: f64, dsTarget: usize, rhs: usize): void {
     const q = i32At(dims, c);
     socJordanDivide(lambda, dsTarget, tmp2, o, q);
     applySocScaling(w, o, q, tmp2, ds, f64At(etas, c), 1);
-    for (let i = o; i < o + q; i++) setF64(rhsZ, i, -eta * f64At(rz, i) - f64At(ds, i));
+    for (let i = o; i < o + q; i++) {
+      const v = -eta * f64At(rz, i) - f64At(ds, i);
+      setF64(rhsZ, i, minus == 0 ? v : v - f64At(minusZ, i));
+    }
   }
 }
 
 /**
- * Completes a direction from the solve in sol2 (of directionRhs's system) and d_κ: [Δx; Δy; Δz] in sol2,
- * Δs in ds, W⁻¹Δs and WΔz in dsScaled and dzScaled, Δτ and Δκ in the scalar block. False when Δτ is not
- * finite.
+ * Completes a direction from the solve in `src` (of directionRhs's system; plus `base` and its dot with
+ * [c; b; h] from the predictor, unless 0) and d_κ: [Δx; Δy; Δz] in sol2, Δs in ds, W⁻¹Δs and WΔz in
+ * dsScaled and dzScaled, Δτ and Δκ in the scalar block. False when Δτ is not finite.
  */
-function directionFinish(hdr: usize, fs: usize, eta: f64, dKappa: f64, tauPivot: f64, rTau: f64): bool {
+function directionFinish(hdr: usize, fs: usize, eta: f64, dKappa: f64, tauPivot: f64, rTau: f64, src: usize, base: usize): bool {
   const n = i32At(hdr, H_N);
   const p = i32At(hdr, H_P);
   const m = i32At(hdr, H_M);
@@ -507,9 +514,13 @@ function directionFinish(hdr: usize, fs: usize, eta: f64, dKappa: f64, tauPivot:
   const sol2 = ptr(hdr, H_SOL2);
   const tau = f64At(fs, F_TAU);
   const kappa = f64At(fs, F_KAPPA);
-  const dTau = (-eta * rTau - dKappa / tau - dotRange(ptr(hdr, H_CBH), dim, sol2, 0)) / tauPivot;
+  let solDot = dotRange(ptr(hdr, H_CBH), dim, src, 0);
+  if (base == 0) setF64(fs, F_PREDICTOR_DOT, solDot);
+  else solDot += f64At(fs, F_PREDICTOR_DOT);
+  const dTau = (-eta * rTau - dKappa / tau - solDot) / tauPivot;
   if (!isFinite(dTau)) return false;
-  for (let i = 0; i < dim; i++) setF64(sol2, i, f64At(sol2, i) + dTau * f64At(sol1, i));
+  if (base == 0) for (let i = 0; i < dim; i++) setF64(sol2, i, f64At(src, i) + dTau * f64At(sol1, i));
+  else for (let i = 0; i < dim; i++) setF64(sol2, i, f64At(src, i) + f64At(base, i) + dTau * f64At(sol1, i));
   // Per cone: WΔz, then Δs = W(λ \ d_s) − W(WΔz), then W⁻¹Δs (the workspace's mulW / mulWinv passes).
   const dz = sol2 + (<usize>(n + p) << 3);
   const dzScaled = ptr(hdr, H_DZ_SCALED);
@@ -559,6 +570,7 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   const n = i32At(hdr, H_N);
   const p = i32At(hdr, H_P);
   const m = i32At(hdr, H_M);
+  const dim = n + p + m;
   const tau = f64At(fs, F_TAU);
   const kappa = f64At(fs, F_KAPPA);
   if (!updateScaling(hdr)) return -1;
@@ -579,14 +591,14 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   const tmp2 = ptr(hdr, H_TMP2);
   const rhs2 = ptr(hdr, H_RHS2);
   negatedJordanSquare(hdr, lambda, tmp);
-  directionRhs(hdr, 1, tmp, rhs2);
-  if (!kktSolvePair(hdr, fs, rhs, rhs2, sol1, ptr(hdr, H_SOL2), i32At(hdr, H_REFINE_MAX), i32At(hdr, H_REFINE_AFFINE))) return -1;
-  // Kept for the corrector (see the workspace's direction()): the predictor's right-hand side stays in rhs2.
-  memory.copy(ptr(hdr, H_PREDICTOR_SOLUTION), ptr(hdr, H_SOL2), <usize>(n + p + m) << 3);
+  directionRhs(hdr, 1, tmp, rhs2, 0);
+  // The predictor's right-hand side (rhs2) and solution stay for the corrector (see the workspace's direction()).
+  const predictorSolution = ptr(hdr, H_PREDICTOR_SOLUTION);
+  if (!kktSolvePair(hdr, fs, rhs, rhs2, sol1, predictorSolution, i32At(hdr, H_REFINE_MAX), i32At(hdr, H_REFINE_AFFINE))) return -1;
   const tauPivot = dotRange(ptr(hdr, H_CBH), n + p + m, sol1, 0) - kappa / tau;
   const mu = (f64At(fs, F_SZ) + tau * kappa) / (f64At(fs, F_DEGREE) + 1);
   const rTau = kappa + f64At(fs, F_CX) + f64At(fs, F_BY) + f64At(fs, F_HZ);
-  if (!directionFinish(hdr, fs, 1, -tau * kappa, tauPivot, rTau)) return -1;
+  if (!directionFinish(hdr, fs, 1, -tau * kappa, tauPivot, rTau, predictorSolution, 0)) return -1;
   const dTauAff = f64At(fs, F_DTAU);
   const dKappaAff = f64At(fs, F_DKAPPA);
   const alphaAff = Math.min(1, stepToBoundary(hdr, fs, dTauAff, dKappaAff));
@@ -600,14 +612,10 @@ export function ipmStep(hdr: usize, fs: usize): f64 {
   for (let i = 0; i < m; i++) setF64(tmp, i, f64At(tmp, i) - f64At(tmp2, i) + sigma * mu * f64At(ones, i));
   const dKappaRhs = -tau * kappa - dTauAff * dKappaAff + sigma * mu;
   // The corrector: the predictor's refined solution plus an unrefined solve of the difference.
-  directionRhs(hdr, 1 - sigma, tmp, rhs);
-  const dim = n + p + m;
-  for (let i = 0; i < dim; i++) setF64(rhs, i, f64At(rhs, i) - f64At(rhs2, i));
+  directionRhs(hdr, 1 - sigma, tmp, rhs, rhs2);
   const sol2 = ptr(hdr, H_SOL2);
   if (!kktSolve(hdr, fs, rhs, sol2, 0)) return -1;
-  const predictorSolution = ptr(hdr, H_PREDICTOR_SOLUTION);
-  for (let i = 0; i < dim; i++) setF64(sol2, i, f64At(sol2, i) + f64At(predictorSolution, i));
-  if (!directionFinish(hdr, fs, 1 - sigma, dKappaRhs, tauPivot, rTau)) return -1;
+  if (!directionFinish(hdr, fs, 1 - sigma, dKappaRhs, tauPivot, rTau, sol2, predictorSolution)) return -1;
   const dTau = f64At(fs, F_DTAU);
   const dKappa = f64At(fs, F_DKAPPA);
   const alphaMax = stepToBoundary(hdr, fs, dTau, dKappa);
