@@ -26,8 +26,10 @@ export interface SolverSettings {
   /** Default 2e-7. */
   dynamicRegularisationDelta: number;
   /**
-   * Iterative-refinement steps per KKT solve (at most). Default 1: on the control and descent problems
-   * of the benchmarks a second step changed neither the iterations nor the optimum (DEVELOPERS.md).
+   * Iterative-refinement steps (at most) of the τ-direction and predictor solves; the corrector is the
+   * refined predictor plus an unrefined solve of the difference. Default 1: on the control and descent
+   * problems of the benchmarks a second step changed neither the iterations nor the optimum, none cost
+   * iterations (DEVELOPERS.md).
    */
   refinementMaxIterations: number;
   /** Refinement stops once the residual is below this, relative to 1 + ‖rhs‖∞. Default 1e-14 (the value ECOS uses; looser values were measured to cost more iterations than they save). */

@@ -7,6 +7,11 @@
  *   Aᵀy + Gᵀz + cτ = 0,   Ax − bτ = 0,   s + Gx − hτ = 0,   κ + cᵀx + bᵀy + hᵀz = 0,
  *   s, z ∈ K,  τ, κ ≥ 0.
  * τ → 0 with κ > 0 exposes infeasibility; the iterates then converge to a certificate.
+ *
+ * Per iteration: one factorisation, the τ-direction and predictor systems solved together (one refinement
+ * step each), the corrector from the predictor's solution plus an unrefined solve (see direction()). With
+ * WebAssembly available the step runs in wasm/iterationWasm.ts, with the same operations in the same order
+ * as step() below, which stays as the portable path.
  */
 import type { CscMatrix } from '../linalg/csc.ts';
 import type { Cone } from './cones/cone.ts';
