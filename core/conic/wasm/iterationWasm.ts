@@ -8,7 +8,7 @@
  */
 import type { CscMatrix } from '../../linalg/csc.ts';
 import type { LdlSystem } from '../../linalg/ldlSystem.ts';
-import { WasmLdlSystem, type Slot } from '../../linalg/wasm/ldlWasm.ts';
+import { WasmLdlSystem, compileEmbeddedModule, type Slot } from '../../linalg/wasm/ldlWasm.ts';
 import type { KktSystem } from '../kkt.ts';
 import type { Residuals } from '../termination.ts';
 import type { ConeSpec } from '../types.ts';
@@ -18,15 +18,7 @@ let compiled: WebAssembly.Module | null | undefined;
 
 /** The compiled iteration module, or null where WebAssembly is unavailable (compiled once per thread). */
 export function iterationModule(): WebAssembly.Module | null {
-  if (compiled !== undefined) return compiled;
-  try {
-    const text = atob(ITERATION_BASE64);
-    const bytes = new Uint8Array(text.length);
-    for (let i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
-    compiled = new WebAssembly.Module(bytes);
-  } catch {
-    compiled = null;
-  }
+  if (compiled === undefined) compiled = compileEmbeddedModule(ITERATION_BASE64);
   return compiled;
 }
 

@@ -29,19 +29,23 @@ interface KernelExports {
   ): number;
 }
 
+/** Compiles a module embedded as base64 (the generated files), or null where WebAssembly (with SIMD) is unavailable. */
+export function compileEmbeddedModule(base64: string): WebAssembly.Module | null {
+  try {
+    const text = atob(base64);
+    const bytes = new Uint8Array(text.length);
+    for (let i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
+    return new WebAssembly.Module(bytes);
+  } catch {
+    return null;
+  }
+}
+
 let compiled: WebAssembly.Module | null | undefined;
 
 /** The compiled kernel module, or null where WebAssembly is unavailable (compiled once per thread). */
 export function kernelModule(): WebAssembly.Module | null {
-  if (compiled !== undefined) return compiled;
-  try {
-    const text = atob(KERNELS_BASE64);
-    const bytes = new Uint8Array(text.length);
-    for (let i = 0; i < text.length; i++) bytes[i] = text.charCodeAt(i);
-    compiled = new WebAssembly.Module(bytes);
-  } catch {
-    compiled = null;
-  }
+  if (compiled === undefined) compiled = compileEmbeddedModule(KERNELS_BASE64);
   return compiled;
 }
 

@@ -10,6 +10,7 @@
 // block. The slot numbers below are mirrored there.
 
 import { ldlRefactor, ldlSolveRefined, ldlSolveRefinedPair } from '../../../linalg/wasm/assembly/kernels';
+import { f64At, i32At, setF64, setI32 } from '../../../linalg/wasm/assembly/memory';
 export { ldlRefactor, ldlSolveRefined, ldlSolveRefinedPair };
 
 // i32 header slots.
@@ -97,18 +98,6 @@ const F_PRES_CONE = 17;
 const F_DRES = 18;
 const F_PREDICTOR_DOT = 19;
 
-@inline function f64At(base: usize, i: i32): f64 {
-  return load<f64>(base + (<usize>i << 3));
-}
-@inline function setF64(base: usize, i: i32, v: f64): void {
-  store<f64>(base + (<usize>i << 3), v);
-}
-@inline function i32At(base: usize, i: i32): i32 {
-  return load<i32>(base + (<usize>i << 2));
-}
-@inline function setI32(base: usize, i: i32, v: i32): void {
-  store<i32>(base + (<usize>i << 2), v);
-}
 @inline function ptr(hdr: usize, slot: i32): usize {
   return <usize>i32At(hdr, slot);
 }

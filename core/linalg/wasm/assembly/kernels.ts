@@ -4,15 +4,7 @@
 // those of core/linalg/ldl.ts, which stays as the portable reference implementation: the unit tests
 // require both to agree.
 
-@inline function f64At(base: usize, i: i32): f64 {
-  return load<f64>(base + (<usize>i << 3));
-}
-@inline function setF64(base: usize, i: i32, v: f64): void {
-  store<f64>(base + (<usize>i << 3), v);
-}
-@inline function i32At(base: usize, i: i32): i32 {
-  return load<i32>(base + (<usize>i << 2));
-}
+import { f64At, i32At, setF64 } from './memory';
 
 /**
  * Numeric up-looking LDLᵀ on precomputed row patterns (see ldl.ts), for an upper triangle whose columns
