@@ -13,7 +13,7 @@ import { WasmLdlSystem, wasmKernelsAvailable } from '../../../core/linalg/wasm/l
 import { ConicWorkspace } from '../../../core/conic/index.ts';
 import { denseSolve, quasiDefinite } from '../../support/dense.ts';
 import { Rng } from '../../support/random.ts';
-import { controlInstance } from '../../support/socp-instances.ts';
+import { controlInstance, dualInfeasibleInstance, feasibleInstance, primalInfeasibleInstance } from '../../support/socp-instances.ts';
 
 /** Upper triangle of P M Pᵀ (perm[k] = original row of permuted row k), rows sorted, as CSC. */
 function permutedUpper(M: number[][], perm: Int32Array): CscMatrix {
@@ -159,6 +159,20 @@ describe.runIf(wasmKernelsAvailable())('WebAssembly LDLᵀ kernels', () => {
         expect(a.info.iterations).toBe(r.info.iterations);
         for (const part of ['x', 'y', 'z', 's'] as const) expect(Array.from(a[part])).toEqual(Array.from(r[part]));
       }
+    }
+  });
+
+  it('give the same bits as the TypeScript path on random solved, primal-infeasible and dual-infeasible programs', () => {
+    // The seeded generators of the CVXOPT comparison (test/support/socp-instances.ts), cold solves.
+    const cases = [0, 1, 2, 3, 4, 5].flatMap((k) => [
+      feasibleInstance(500 + k), primalInfeasibleInstance(600 + k), dualInfeasibleInstance(700 + k),
+    ]);
+    for (const { problem, name } of cases) {
+      const a = new ConicWorkspace(problem, { kernels: 'wasm' }).solve();
+      const r = new ConicWorkspace(problem, { kernels: 'javascript' }).solve();
+      expect(a.status, name).toBe(r.status);
+      expect(a.info.iterations, name).toBe(r.info.iterations);
+      for (const part of ['x', 'y', 'z', 's'] as const) expect(Array.from(a[part]), `${name} ${part}`).toEqual(Array.from(r[part]));
     }
   });
 
