@@ -4,7 +4,8 @@
  * WebAssembly memory. The workspace (../workspace.ts) keeps initialisation, termination and the
  * reduced-accuracy endings, and reads and writes the iterate through the typed-array views this class
  * hands out, so the two sides share the numbers without copies. The TypeScript step in the workspace is
- * the portable reference; the unit tests require both to take the same iterations to the same point.
+ * the portable reference, with the same operations in the same order: the unit tests require both to give
+ * the same bits.
  */
 import type { CscMatrix } from '../../linalg/csc.ts';
 import type { LdlSystem } from '../../linalg/ldlSystem.ts';
@@ -35,7 +36,8 @@ const H = {
 const HEADER_SLOTS = 64;
 const F = {
   tau: 0, kappa: 1, cx: 2, by: 3, hz: 4, sz: 5, degree: 6, stepFraction: 7, staticReg: 8, dynEps: 9,
-  dynDelta: 10, refineTol: 11, delta: 12, presEq: 16, presCone: 17, dres: 18,
+  dynDelta: 10, refineTol: 11, delta: 12, dTau: 14, dKappa: 15, presEq: 16, presCone: 17, dres: 18,
+  predictorDot: 19,
 } as const;
 const SCALAR_SLOTS = 24;
 const LDL_SLOTS: ReadonlyArray<Slot & keyof typeof H> = [
@@ -67,7 +69,8 @@ function vectorLengths(n: number, p: number, m: number): Array<[VectorName, numb
   return [
     ['cbh', dim], ['xyz', dim], ['s', m], ['lambda', m], ['rxyz', dim], ['rhs', dim],
     ['sol1', dim], ['sol2', dim], ['ds', m], ['dsScaled', m], ['dzScaled', m], ['tmp', m], ['tmp2', m],
-    ['ones', m], ['w', m], ['rhs2', dim], ['colScale', n], ['rowScale', p + m], ['colScaleInv', n], ['rowScaleInv', p + m], ['predictorSolution', dim],
+    ['ones', m], ['w', m], ['rhs2', dim], ['colScale', n], ['rowScale', p + m], ['colScaleInv', n],
+    ['rowScaleInv', p + m], ['predictorSolution', dim],
   ];
 }
 
