@@ -1,6 +1,7 @@
 /** The second-order cone program solver: public entry points. */
 export { ConicWorkspace, solveConic, type ProblemUpdate, type WarmStart } from './workspace.ts';
 export { DEFAULT_SETTINGS, resolveSettings, type SolverSettings } from './settings.ts';
+export { iterationModule } from './wasm/iterationWasm.ts';
 export {
   isDualInfeasible,
   isInfeasible,

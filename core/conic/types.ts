@@ -67,7 +67,7 @@ export interface SolveInfo {
   primalObjective: number;
   /** −bᵀy − hᵀz at the returned point (NaN for infeasible outcomes). */
   dualObjective: number;
-  /** sᵀz at the returned point. */
+  /** max(|cᵀx + bᵀy + hᵀz|, sᵀz) at the returned point, scaled to τ = 1 (the measure the termination tests use). */
   gap: number;
   /** max(‖Ax − b‖∞, ‖Gx + s − h‖∞), in the problem's own units. */
   primalResidual: number;
@@ -77,6 +77,11 @@ export interface SolveInfo {
   factorisations: number;
   /** Wall time of the solve in milliseconds (0 where no clock is available). */
   solveTimeMs: number;
+  /**
+   * Which implementation of this solver ran the iterations: WebAssembly, or the portable TypeScript (same
+   * bits, slower). Absent in solutions adapted from other solvers (test references).
+   */
+  kernels?: 'wasm' | 'javascript';
 }
 
 export interface ConicSolution {

@@ -571,6 +571,7 @@ export class ConicWorkspace {
         dualResidual: a ? a.dualResidual : NaN,
         factorisations: this.factorisations,
         solveTimeMs: now() - t0,
+        kernels: this.engine ? 'wasm' : 'javascript',
       },
     };
   }

@@ -20,6 +20,7 @@ import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 import { footprintCsv, footprintGeoJson, footprintReport } from '../../study/footprintExport.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
+import { iterationModule } from '../../conic/index.ts';
 import { DescentSolver } from '../../descent/solver.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { reachBoundary } from '../../descent/reach.ts';
@@ -264,6 +265,7 @@ export const footprintCommand: CliCommand = {
         `divert:      ${radius.radius_m.toFixed(0)} m guaranteed in every direction${radius.limitedByGrid ? ' (limited by the grid: widen --extent-m)' : ''}`,
         `propellant:  ${summary.minPropellant_kg} … ${summary.maxPropellant_kg} kg over reachable targets`,
         `time:        ${run.progress.elapsed_s.toFixed(1)} s, ${solves} cone-program solves (${(solves / Math.max(1, run.progress.targetsDone)).toFixed(1)} per target)`,
+        `solver:      ${solverKernelsLine()}`,
         `wrote:       ${files.map((f) => f.path).join(', ')}`,
         '',
         CAUTION,
@@ -273,3 +275,13 @@ export const footprintCommand: CliCommand = {
     return counts.failed > 0 && counts.reachable === 0 ? 1 : 0;
   },
 };
+
+/**
+ * Which implementation of the cone solver the workers run (worker threads share this process's
+ * WebAssembly support): the WebAssembly iteration, or the portable TypeScript fallback.
+ */
+export function solverKernelsLine(): string {
+  return iterationModule()
+    ? 'WebAssembly iteration (the portable TypeScript path gives the same results)'
+    : 'portable TypeScript (WebAssembly with SIMD unavailable here: same results, about 5× slower)';
+}

@@ -35,6 +35,8 @@ describe('landreach footprint', () => {
     expect(report.summary.targets).toBe(25);
     expect(report.summary.reachable + report.summary.unreachable + report.summary.failed).toBe(25);
     expect(h.out.join('')).toMatch(/targets: +\d+ reachable/);
+    // Node 20 has WebAssembly with SIMD: the summary says the workers ran the WebAssembly iteration.
+    expect(h.out.join('')).toMatch(/solver: +WebAssembly iteration/);
     // Independent check: three targets re-solved alone with the bracketing search, same nodes and dry mass.
     const study = parseStudyText(readFileSync(DEMO, 'utf8'));
     const d = studyToDescent(study);

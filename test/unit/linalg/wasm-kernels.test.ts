@@ -157,6 +157,7 @@ describe.runIf(wasmKernelsAvailable())('WebAssembly LDLᵀ kernels', () => {
         expect(a.status).toBe(expected);
         expect(r.status).toBe(expected);
         expect(a.info.iterations).toBe(r.info.iterations);
+        expect([a.info.kernels, r.info.kernels]).toEqual(['wasm', 'javascript']);
         for (const part of ['x', 'y', 'z', 's'] as const) expect(Array.from(a[part])).toEqual(Array.from(r[part]));
       }
     }
