@@ -61,15 +61,20 @@ describe.runIf(wasmKernelsAvailable())('WebAssembly LDLᵀ kernels', () => {
       const b = Float64Array.from(M, () => rng.normal());
       const xj = new Float64Array(b.length);
       const xw = new Float64Array(b.length);
-      for (const steps of [0, 3]) {
-        expect(js.solveRefined(b, xj, 0, 1e-14, steps)).toBe(true);
-        expect(wasm.solveRefined(b, xw, 0, 1e-14, steps)).toBe(true);
+      // Same operations in the same order: the same bits, for every step limit and shift.
+      for (const [steps, shift] of [[0, 0], [1, 1e-3], [3, 1e-3], [3, 0]]) {
+        expect(js.solveRefined(b, xj, shift, 1e-14, steps)).toBe(true);
+        expect(wasm.solveRefined(b, xw, shift, 1e-14, steps)).toBe(true);
         expect(wasm.lastRefinementSteps).toBe(js.lastRefinementSteps);
-        const scale = Math.max(...xj.map(Math.abs));
-        xj.forEach((v, i) => expect(Math.abs(xw[i] - v)).toBeLessThanOrEqual(1e-12 * scale));
+        expect(Object.is(wasm.lastRelativeResidual, js.lastRelativeResidual)).toBe(true);
+        expect(Array.from(xw)).toEqual(Array.from(xj));
+        // With no step allowed the residual is not measured; otherwise it is, before the last step.
+        if (steps === 0) expect(js.lastRelativeResidual).toBeNaN();
+        else expect(js.lastRelativeResidual).toBeGreaterThanOrEqual(0);
       }
+      expect(js.solveRefined(b, xj, 0, 1e-14, 3)).toBe(true);
       const ref = denseSolve(M, Array.from(b));
-      ref.forEach((v, i) => expect(xw[i]).toBeCloseTo(v, 9));
+      ref.forEach((v, i) => expect(xj[i]).toBeCloseTo(v, 9));
     }
   });
 
