@@ -266,7 +266,14 @@ export class ConicWorkspace {
     const t0 = now();
     this.factorisations = 0;
     const st = this.settings;
-    if (!this.initialise()) return this.finish('numerical-error', null, 0, t0);
+    // A complete starting point needs no cold start (its factorisation and two solves would be overwritten).
+    const complete = start !== undefined && start.x !== undefined && start.y !== undefined && start.z !== undefined && start.s !== undefined;
+    if (complete) {
+      this.tau = 1;
+      this.kappa = 1;
+    } else if (!this.initialise()) {
+      return this.finish('numerical-error', null, 0, t0);
+    }
     if (start) this.applyWarmStart(start);
     this.bestMerit = Infinity;
     for (let iter = 0; ; iter++) {
