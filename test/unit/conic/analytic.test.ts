@@ -156,6 +156,23 @@ describe('warm start', () => {
     expect(warm.info.primalObjective).toBeCloseTo(cold.info.primalObjective, 7);
   });
 
+  it('skips the cold start only when the start is complete, with the same optimum either way', () => {
+    const ws = new ConicWorkspace(projectionProblem([1, 3, -4]));
+    const near = ws.solve();
+    ws.update({ h: projectionProblem([1.2, 2.7, -4.3]).h });
+    const cold = ws.solve();
+    const complete = ws.solve({ x: near.x, y: near.y, z: near.z, s: near.s });
+    const partial = ws.solve({ x: near.x, s: near.s });
+    // One factorisation per step, plus the cold start's own when any part of the point is missing.
+    expect(complete.info.factorisations).toBe(complete.info.iterations);
+    expect(partial.info.factorisations).toBe(partial.info.iterations + 1);
+    expect(cold.info.factorisations).toBe(cold.info.iterations + 1);
+    for (const r of [complete, partial]) {
+      expect(r.status).toBe('solved');
+      expect(r.info.primalObjective).toBeCloseTo(cold.info.primalObjective, 7);
+    }
+  });
+
   it('rejects a start of the wrong size, naming the part', () => {
     const ws = new ConicWorkspace(projectionProblem([1, 3, -4]));
     expect(() => ws.solve({ x: new Float64Array(2) })).toThrow(/invalid start.x: expected a finite Float64Array of length 4/);
