@@ -75,6 +75,11 @@ export interface SolveInfo {
   dualResidual: number;
   /** Number of numeric KKT factorisations. */
   factorisations: number;
+  /**
+   * Factorisations that met a pivot of the wrong sign and were retried with a 100× (then 10⁴×) larger
+   * static regularisation (see kkt.ts). Absent in solutions adapted from other solvers.
+   */
+  regularisationRetries?: number;
   /** Wall time of the solve in milliseconds (0 where no clock is available). */
   solveTimeMs: number;
   /**

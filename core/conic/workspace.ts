@@ -109,6 +109,8 @@ export class ConicWorkspace {
   private readonly tmpM2: Float64Array;
   private readonly ones: Float64Array;
   private factorisations = 0;
+  /** Regularisation retries counted before this solve (both paths keep running totals). */
+  private retriesAtStart = 0;
   private bestMerit = Infinity;
   private readonly res: Residuals;
   private readonly assessment: Assessment = emptyAssessment();
@@ -265,6 +267,7 @@ export class ConicWorkspace {
   solve(start?: WarmStart): ConicSolution {
     const t0 = now();
     this.factorisations = 0;
+    this.retriesAtStart = this.regularisationRetries();
     const st = this.settings;
     // A complete starting point needs no cold start (its factorisation and two solves would be overwritten).
     const complete = start !== undefined && start.x !== undefined && start.y !== undefined && start.z !== undefined && start.s !== undefined;
@@ -577,10 +580,16 @@ export class ConicWorkspace {
         primalResidual: a ? a.primalResidual : NaN,
         dualResidual: a ? a.dualResidual : NaN,
         factorisations: this.factorisations,
+        regularisationRetries: this.regularisationRetries() - this.retriesAtStart,
         solveTimeMs: now() - t0,
         kernels: this.engine ? 'wasm' : 'javascript',
       },
     };
+  }
+
+  /** Factorisations retried with a larger static regularisation so far (the cold start's and the steps'). */
+  private regularisationRetries(): number {
+    return this.kkt.regularisationRetries + (this.engine ? this.engine.regularisationRetries : 0);
   }
 
   private log(iter: number, res: Residuals, a: Assessment): void {

@@ -170,16 +170,21 @@ describe.runIf(wasmKernelsAvailable())('WebAssembly LDLᵀ kernels', () => {
 
   it('give the same bits as the TypeScript path on random solved, primal-infeasible and dual-infeasible programs', () => {
     // The seeded generators of the CVXOPT comparison (test/support/socp-instances.ts), cold solves.
-    const cases = [0, 1, 2, 3, 4, 5].flatMap((k) => [
-      feasibleInstance(500 + k), primalInfeasibleInstance(600 + k), dualInfeasibleInstance(700 + k),
-    ]);
+    const cases = Array.from({ length: 20 }, (_, k) => [
+      feasibleInstance(1000 + k, 60), primalInfeasibleInstance(1000 + k, 60), dualInfeasibleInstance(1000 + k, 60),
+    ]).flat();
+    let retries = 0;
     for (const { problem, name } of cases) {
       const a = new ConicWorkspace(problem, { kernels: 'wasm' }).solve();
       const r = new ConicWorkspace(problem, { kernels: 'javascript' }).solve();
       expect(a.status, name).toBe(r.status);
       expect(a.info.iterations, name).toBe(r.info.iterations);
+      expect(a.info.regularisationRetries, name).toBe(r.info.regularisationRetries);
+      retries += a.info.regularisationRetries ?? 0;
       for (const part of ['x', 'y', 'z', 's'] as const) expect(Array.from(a[part]), `${name} ${part}`).toEqual(Array.from(r[part]));
     }
+    // The factorisation's retry with a larger regularisation is among the paths compared.
+    expect(retries).toBeGreaterThan(0);
   });
 
   it.each(['kernels', 'iteration'] as const)(
