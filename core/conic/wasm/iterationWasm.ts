@@ -76,17 +76,28 @@ function vectorLengths(n: number, p: number, m: number): Array<[VectorName, numb
 
 const align = (bytes: number): number => (bytes + 15) & ~15;
 
+type LayoutName = VectorName | 'header' | 'scalars' | 'socOff' | 'socDim' | 'eta' | 'posDiag' | 'posCone' |
+  'aColPtr' | 'aRowIdx' | 'aValues' | 'gColPtr' | 'gRowIdx' | 'gValues';
+
+/**
+ * Every array the iteration lays out beside the LDLᵀ system's own, with its length in bytes, in layout
+ * order: the one description both the reservation (iterationBytes) and the views (WasmIteration) use.
+ */
+function iterationLayout(A: CscMatrix, G: CscMatrix, cones: ConeSpec, coneBlockEntries: number): Array<[LayoutName, number]> {
+  const n = A.n;
+  const nsoc = cones.secondOrder.length;
+  return [
+    ['header', 4 * HEADER_SLOTS], ['scalars', 8 * SCALAR_SLOTS],
+    ...vectorLengths(n, A.m, G.m).map(([name, len]): [LayoutName, number] => [name, 8 * len]),
+    ['socOff', 4 * nsoc], ['socDim', 4 * nsoc], ['eta', 8 * nsoc], ['posDiag', 4 * (n + A.m)], ['posCone', 4 * coneBlockEntries],
+    ['aColPtr', 4 * (n + 1)], ['aRowIdx', 4 * A.colPtr[n]], ['aValues', 8 * A.colPtr[n]],
+    ['gColPtr', 4 * (n + 1)], ['gRowIdx', 4 * G.colPtr[n]], ['gValues', 8 * G.colPtr[n]],
+  ];
+}
+
 /** Bytes the iteration needs beside the LDLᵀ system's own arrays (A, G: the constraint matrices' patterns). */
 export function iterationBytes(A: CscMatrix, G: CscMatrix, cones: ConeSpec, coneBlockEntries: number): number {
-  const n = A.n;
-  const p = A.m;
-  const m = G.m;
-  const nsoc = cones.secondOrder.length;
-  let bytes = align(4 * HEADER_SLOTS) + align(8 * SCALAR_SLOTS);
-  for (const [, len] of vectorLengths(n, p, m)) bytes += align(8 * len);
-  bytes += 2 * align(4 * nsoc) + align(8 * nsoc) + align(4 * (n + p)) + align(4 * coneBlockEntries);
-  for (const M of [A, G]) bytes += align(4 * (n + 1)) + align(4 * M.colPtr[n]) + align(8 * M.colPtr[n]);
-  return bytes;
+  return iterationLayout(A, G, cones, coneBlockEntries).reduce((sum, [, bytes]) => sum + align(bytes), 0);
 }
 
 export class WasmIteration {
@@ -109,56 +120,51 @@ export class WasmIteration {
     if (!(system instanceof WasmLdlSystem)) throw new Error('internal: the WebAssembly iteration needs a WebAssembly KKT system');
     const { n, p, m } = kkt;
     const buf = system.memory.buffer;
-    let at = system.reserved;
-    const take = (bytes: number): number => {
-      const offset = at;
-      at += align(bytes);
-      return offset;
-    };
-    this.headerAt = take(4 * HEADER_SLOTS);
-    this.scalarsAt = take(8 * SCALAR_SLOTS);
-    this.header = new Int32Array(buf, this.headerAt, HEADER_SLOTS);
-    this.scalars = new Float64Array(buf, this.scalarsAt, SCALAR_SLOTS);
-    const vectors = {} as Record<VectorName, Float64Array>;
+    const blockEntries = kkt.posCone.reduce((sum, pos) => sum + pos.length, 0);
+    const at = {} as Record<LayoutName, number>;
+    let next = system.reserved;
+    for (const [name, bytes] of iterationLayout(A, G, cones, blockEntries)) {
+      at[name] = next;
+      next += align(bytes);
+    }
+    if (next > system.reserved + system.reservedBytes) throw new Error('internal: iteration layout larger than its reservation');
+    this.headerAt = at.header;
+    this.scalarsAt = at.scalars;
+    this.header = new Int32Array(buf, at.header, HEADER_SLOTS);
+    this.scalars = new Float64Array(buf, at.scalars, SCALAR_SLOTS);
     const hdr = this.header;
+    const vectors = {} as Record<VectorName, Float64Array>;
     for (const [name, len] of vectorLengths(n, p, m)) {
-      const offset = take(8 * len);
-      vectors[name] = new Float64Array(buf, offset, len);
-      hdr[H[name]] = offset;
+      vectors[name] = new Float64Array(buf, at[name], len);
+      hdr[H[name]] = at[name];
     }
     // c, b and h are consecutive parts of cbh (the iteration takes cᵀx + bᵀy + hᵀz as one dot product).
-    hdr[H.c] = hdr[H.cbh];
-    hdr[H.b] = hdr[H.cbh] + 8 * n;
-    hdr[H.h] = hdr[H.cbh] + 8 * (n + p);
+    hdr[H.c] = at.cbh;
+    hdr[H.b] = at.cbh + 8 * n;
+    hdr[H.h] = at.cbh + 8 * (n + p);
     this.vectors = vectors;
 
     const nsoc = cones.secondOrder.length;
-    const socOff = take(4 * nsoc);
-    const socDim = take(4 * nsoc);
-    hdr[H.eta] = take(8 * nsoc);
-    const offsets = new Int32Array(buf, socOff, nsoc);
-    const dims = new Int32Array(buf, socDim, nsoc);
+    const offsets = new Int32Array(buf, at.socOff, nsoc);
+    const dims = new Int32Array(buf, at.socDim, nsoc);
     let offset = cones.nonnegative;
     cones.secondOrder.forEach((q, i) => {
       offsets[i] = offset;
       dims[i] = q;
       offset += q;
     });
-    const posDiag = take(4 * (n + p));
-    new Int32Array(buf, posDiag, n + p).set(kkt.posDiagXY);
-    const blockEntries = kkt.posCone.reduce((sum, pos) => sum + pos.length, 0);
-    const posCone = take(4 * blockEntries);
-    const cone = new Int32Array(buf, posCone, blockEntries);
+    new Int32Array(buf, at.posDiag, n + p).set(kkt.posDiagXY);
+    const cone = new Int32Array(buf, at.posCone, blockEntries);
     let k = 0;
     for (const pos of kkt.posCone) {
       cone.set(pos, k);
       k += pos.length;
     }
-    const matrix = (M: CscMatrix, colSlot: 'aColPtr' | 'gColPtr', rowSlot: 'aRowIdx' | 'gRowIdx', valueSlot: 'aValues' | 'gValues'): CscMatrix => {
+    const matrix = (M: CscMatrix, col: 'aColPtr' | 'gColPtr', row: 'aRowIdx' | 'gRowIdx', value: 'aValues' | 'gValues'): CscMatrix => {
       const nnz = M.colPtr[n];
-      const colPtr = new Int32Array(buf, (hdr[H[colSlot]] = take(4 * (n + 1))), n + 1);
-      const rowIdx = new Int32Array(buf, (hdr[H[rowSlot]] = take(4 * nnz)), nnz);
-      const values = new Float64Array(buf, (hdr[H[valueSlot]] = take(8 * nnz)), nnz);
+      const colPtr = new Int32Array(buf, at[col], n + 1);
+      const rowIdx = new Int32Array(buf, at[row], nnz);
+      const values = new Float64Array(buf, at[value], nnz);
       colPtr.set(M.colPtr.subarray(0, n + 1));
       rowIdx.set(M.rowIdx.subarray(0, nnz));
       values.set(M.values.subarray(0, nnz));
@@ -166,17 +172,15 @@ export class WasmIteration {
     };
     this.As = matrix(A, 'aColPtr', 'aRowIdx', 'aValues');
     this.Gs = matrix(G, 'gColPtr', 'gRowIdx', 'gValues');
-    if (at > system.reserved + iterationBytes(A, G, cones, blockEntries)) throw new Error('internal: iteration layout overflow');
+    for (const name of ['eta', 'socOff', 'socDim', 'posDiag', 'posCone', 'aColPtr', 'aRowIdx', 'aValues', 'gColPtr', 'gRowIdx', 'gValues'] as const) {
+      hdr[H[name]] = at[name];
+    }
 
     hdr[H.n] = n;
     hdr[H.p] = p;
     hdr[H.m] = m;
     hdr[H.l] = cones.nonnegative;
     hdr[H.nsoc] = nsoc;
-    hdr[H.socOff] = socOff;
-    hdr[H.socDim] = socDim;
-    hdr[H.posDiag] = posDiag;
-    hdr[H.posCone] = posCone;
     for (const slot of LDL_SLOTS) hdr[H[slot]] = system.at[slot];
     hdr[H.refineMax] = settings.refinementMaxIterations;
     hdr[H.refineAffine] = Math.min(1, settings.refinementMaxIterations);

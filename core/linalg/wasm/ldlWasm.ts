@@ -80,6 +80,8 @@ export class WasmLdlSystem implements LdlSystem {
   readonly at: Readonly<Record<Slot, number>>;
   /** Byte offset of the reserved region (`options.reserveBytes` long, 16-byte aligned). */
   readonly reserved: number;
+  /** Length of the reserved region, bytes. */
+  readonly reservedBytes: number;
   private readonly k: KernelExports;
   private readonly rhsView: Float64Array;
   private readonly outView: Float64Array;
@@ -120,7 +122,8 @@ export class WasmLdlSystem implements LdlSystem {
       // The two-right-hand-side solve: a second right-hand side and solution, and four interleaved pairs.
       rhs2: f64(n), out2: f64(n), pair: f64(8 * n),
     };
-    this.reserved = take(options.reserveBytes ?? 0);
+    this.reservedBytes = options.reserveBytes ?? 0;
+    this.reserved = take(this.reservedBytes);
     const pages = Math.ceil(size / 65536);
     const memory = new WebAssembly.Memory({ initial: pages, maximum: pages });
     this.memory = memory;
