@@ -41,32 +41,31 @@ function framePoints(grid: ElevationGrid) {
   }));
 }
 
+/**
+ * Reads the GeoTIFF, maps its frame points to lon/lat with our conversion and with GDAL's gdaltransform
+ * (pixel/line → EPSG:4326), and requires them to agree within `tolerance_deg`. Returns our conversion.
+ */
+async function expectFrameMatchesGdal(tif: string, tolerance_deg: number) {
+  const grid = await readGeoTiff(new Uint8Array(readFileSync(tif)));
+  const ref = terrainLonLat(grid.georeference)!;
+  const pts = framePoints(grid);
+  const gdalLonLat = transform(['-t_srs', 'EPSG:4326', tif], pts.map((p) => p.pixel));
+  pts.forEach((p, i) => {
+    const [lon, lat] = ref.toLonLat(...p.local);
+    expect(Math.abs(lon - gdalLonLat[i][0])).toBeLessThan(tolerance_deg);
+    expect(Math.abs(lat - gdalLonLat[i][1])).toBeLessThan(tolerance_deg);
+  });
+  return ref;
+}
+
 describe.skipIf(!gdalAvailable())('terrain frame → lon/lat against GDAL/PROJ', () => {
   it('EPSG:4326 DEM: frame points come back at GDAL\'s pixel/line → lon/lat (exact map, < 1e-9°)', async () => {
-    const tif = gdalTif('geo', 'EPSG:4326', [7, 45.015, 7.04, 44.985]);
-    const grid = await readGeoTiff(new Uint8Array(readFileSync(tif)));
-    const ref = terrainLonLat(grid.georeference)!;
-    const pts = framePoints(grid);
-    const gdalLonLat = transform(['-t_srs', 'EPSG:4326', tif], pts.map((p) => p.pixel));
-    pts.forEach((p, i) => {
-      const [lon, lat] = ref.toLonLat(...p.local);
-      // Same affine map from the geotransform on both sides: only rounding differs.
-      expect(Math.abs(lon - gdalLonLat[i][0])).toBeLessThan(1e-9);
-      expect(Math.abs(lat - gdalLonLat[i][1])).toBeLessThan(1e-9);
-    });
+    // Same affine map from the geotransform on both sides: only rounding differs.
+    await expectFrameMatchesGdal(gdalTif('geo', 'EPSG:4326', [7, 45.015, 7.04, 44.985]), 1e-9);
   });
 
   it('UTM 33N DEM: frame points against GDAL, and UTM points across the zone against PROJ (< 1e-8° ≈ 1 mm)', async () => {
-    const tif = gdalTif('utm', 'EPSG:32633', [350000, 4800000, 350000 + 25 * W, 4800000 - 25 * H]);
-    const grid = await readGeoTiff(new Uint8Array(readFileSync(tif)));
-    const ref = terrainLonLat(grid.georeference)!;
-    const pts = framePoints(grid);
-    const gdalLonLat = transform(['-t_srs', 'EPSG:4326', tif], pts.map((p) => p.pixel));
-    pts.forEach((p, i) => {
-      const [lon, lat] = ref.toLonLat(...p.local);
-      expect(Math.abs(lon - gdalLonLat[i][0])).toBeLessThan(1e-8);
-      expect(Math.abs(lat - gdalLonLat[i][1])).toBeLessThan(1e-8);
-    });
+    const ref = await expectFrameMatchesGdal(gdalTif('utm', 'EPSG:32633', [350000, 4800000, 350000 + 25 * W, 4800000 - 25 * H]), 1e-8);
     // Across the zone (± 3° and beyond at the equator) and from the equator to 80° N. Our series is good to
     // ≈ 0.07 mm (third order in n, test/unit/terrain/georeference.test.ts); PROJ's to nanometres.
     const utm = [];
