@@ -21,7 +21,12 @@ export interface TimeBracket {
   upperIsBound: boolean;
 }
 
-export function timeOfFlightBracket(setup: DescentSetup, ignition: IgnitionState, target: Vec3): TimeBracket {
+/**
+ * `landingFree`: the bracket of a landing anywhere on the target's plane (the minimum-landing-error problem):
+ * the horizontal position condition is dropped, so a target far out of reach still gets the times of
+ * flight at which the vehicle can land at all.
+ */
+export function timeOfFlightBracket(setup: DescentSetup, ignition: IgnitionState, target: Vec3, landingFree = false): TimeBracket {
   const veh = setup.vehicle;
   const { alpha, rho1, rho2 } = deriveVehicle(veh);
   const m0 = ignition.mass;
@@ -46,7 +51,7 @@ export function timeOfFlightBracket(setup: DescentSetup, ignition: IgnitionState
     const dv = [vf[0] - ignition.velocity[0] - g[0] * t, vf[1] - ignition.velocity[1] - g[1] * t, vf[2] - ignition.velocity[2] - g[2] * t];
     if (Math.hypot(dv[0], dv[1], dv[2]) > a * t) return false;
     const dr = [0, 1, 2].map((i) => rf[i] - ignition.position[i] - ignition.velocity[i] * t - 0.5 * g[i] * t * t);
-    return Math.hypot(dr[0], dr[1], dr[2]) <= 0.5 * a * t * t;
+    return (landingFree ? Math.abs(dr[2]) : Math.hypot(dr[0], dr[1], dr[2])) <= 0.5 * a * t * t;
   };
   const steps = 4000;
   let lower = upper;

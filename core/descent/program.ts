@@ -16,6 +16,7 @@
  *   speed       ‖v_k‖ ≤ V_max;  altitude  r_z,k ≥ r_z,target + h_min
  *   boundary    r_0, v_0, z_0 = ln m0 fixed; r_{N−1} = target + gate height, v_{N−1} = (0, 0, −gate rate)
  *   ZOH only    (u, σ)_{N−1} = (u, σ)_{N−2}: the last node reports the hold value of the last interval
+ *   flyable     (min-propellant-flyable only) d_kᵀu_k ≥ σ_k at nodes given a direction d_k (see ProgramData)
  * Minimum propellant: maximise z_{N−1}. Minimum landing error (Blackmore 2010): the horizontal
  * landing position is free and ‖(r_{N−1} − target)_xy‖ ≤ e is minimised (with a tiny propellant tie-break).
  *
@@ -35,7 +36,12 @@ import { deriveVehicle } from './vehicle.ts';
  * as the vehicle can (Blackmore et al. 2010). max-divert: land as far along a horizontal direction as a
  * propellant budget allows (the reach boundary of the footprint, one direction at a time).
  */
-export type ProgramKind = 'min-propellant' | 'min-landing-error' | 'max-divert';
+export type ProgramKind = 'min-propellant' | 'min-landing-error' | 'max-divert' | 'min-propellant-flyable';
+
+/** Kinds that land exactly on the target (the landing point is data). */
+export function landsOnTarget(kind: ProgramKind): boolean {
+  return kind === 'min-propellant' || kind === 'min-propellant-flyable';
+}
 
 /** Per-solve data: only values depend on it. */
 export interface ProgramData {
@@ -46,6 +52,12 @@ export interface ProgramData {
   readonly direction?: readonly [number, number];
   /** max-divert: propellant that may be used, kg. */
   readonly propellantBudget?: number;
+  /**
+   * min-propellant-flyable: per node a unit thrust direction d_k (3 N entries) or zeros. Where d_k is set,
+   * the half-space d_kᵀu_k ≥ σ_k replaces the relaxed ‖u_k‖ ≥ … : with ‖u_k‖ ≤ σ_k it forces ‖u_k‖ = σ_k
+   * along d_k, so the node's thrust is flyable (a convex restriction of the non-convex thrust set).
+   */
+  readonly thrustDirections?: Float64Array;
 }
 
 /** Field offsets inside one node's block of variables. */
@@ -208,7 +220,7 @@ export class DescentProgram {
       }
     }
     const gateTop: Vec3 = [d.target[0], d.target[1], d.target[2] + con.gateHeight];
-    for (let i = kind === 'min-propellant' ? 0 : 2; i < 3; i++) {
+    for (let i = landsOnTarget(kind) ? 0 : 2; i < 3; i++) {
       const r = e.eqRow(1 / S.length);
       e.a(r, idx(last, NODE.r + i), 1);
       e.b(r, gateTop[i]);
@@ -265,6 +277,20 @@ export class DescentProgram {
       e.g(r, idx(last, NODE.z), -1);
       e.h(r, -Math.log(m0 - budget));
     }
+    if (kind === 'min-propellant-flyable') {
+      // σ_k − d_kᵀu_k ≤ 0 where a direction is given; elsewhere d_k = 0 and the row reads σ_k ≤ 2 μ2,k,
+      // which the upper thrust bound already implies (σ_k ≤ μ2,k(1 − δ) with δ ≥ 0): inactive.
+      const dirs = d.thrustDirections;
+      if (dirs !== undefined && dirs.length !== 3 * N) throw new RangeError(`thrustDirections: ${dirs.length} entries (must be 3 × nodes = ${3 * N})`);
+      for (let k = 0; k < N; k++) {
+        const dk = dirs ? [dirs[3 * k], dirs[3 * k + 1], dirs[3 * k + 2]] : [0, 0, 0];
+        const set = dk[0] !== 0 || dk[1] !== 0 || dk[2] !== 0;
+        const r = e.orthRow(1 / S.accel);
+        e.g(r, idx(k, NODE.sigma), 1);
+        for (let i = 0; i < 3; i++) e.g(r, idx(k, NODE.u + i), -dk[i]);
+        e.h(r, set ? 0 : 2 * rho2 * Math.exp(-zRef[k]));
+      }
+    }
     if (con.minAltitude !== null) {
       for (let k = 1; k < last; k++) {
         const r = e.orthRow(1 / S.length);
@@ -297,7 +323,7 @@ export class DescentProgram {
       const cot = 1 / Math.tan(con.glideSlope);
       // Minimum propellant lands on the target itself: the cone's apex is data, not a variable, which
       // keeps every node's cone off the last node's columns (a sparser KKT factor).
-      const apexFixed = kind === 'min-propellant';
+      const apexFixed = landsOnTarget(kind);
       for (let k = 1; k < last; k++) {
         const t0 = e.soc(3, 1 / S.length);
         e.g(t0, idx(k, NODE.r + 2), -cot);

@@ -19,7 +19,10 @@ export interface DescentConstraints {
   readonly gateHeight: number;
   /** Downward speed at the gate, m/s (≥ 0). Default 0. */
   readonly gateDescentRate: number;
-  /** Lowest altitude above the target's height while descending (nodes between ignition and gate), m; null: none. */
+  /**
+   * Lowest altitude above the target's height while descending (nodes between ignition and gate), m; null:
+   * none. The study file's default is 0, the landing plane (core/study `altitudeFloor_m`).
+   */
   readonly minAltitude: number | null;
 }
 
@@ -42,20 +45,24 @@ export interface DescentSetup {
   readonly hold: ControlHold;
 }
 
+/** Most time nodes a descent may have (the study file's limit too). */
+export const MAX_NODES = 2000;
+
 export const DEFAULT_CONSTRAINTS: DescentConstraints = Object.freeze({
   glideSlope: null,
   maxSpeed: null,
   gateHeight: 0,
   gateDescentRate: 0,
-  minAltitude: null,
+  // The landing plane: a trajectory through the ground is not an answer (switch off with null, knowingly).
+  minAltitude: 0,
 });
 
 /** Checks a whole setup; throws RangeError naming the field, the value and the fix. */
 export function validateSetup(s: DescentSetup): void {
   validatePlanet(s.planet);
   validateVehicle(s.vehicle);
-  if (!Number.isInteger(s.nodes) || s.nodes < 5 || s.nodes > 2000) {
-    throw new RangeError(`nodes: ${s.nodes} (must be a whole number from 5 to 2000)`);
+  if (!Number.isInteger(s.nodes) || s.nodes < 5 || s.nodes > MAX_NODES) {
+    throw new RangeError(`nodes: ${s.nodes} (must be a whole number from 5 to ${MAX_NODES})`);
   }
   if (s.hold !== 'zoh' && s.hold !== 'foh') throw new RangeError(`hold: ${String(s.hold)} (must be 'zoh' or 'foh')`);
   const c = s.constraints;

@@ -7,7 +7,7 @@ import { isInfeasible, isSolved } from '../conic/types.ts';
 import type { ConicBackend, ConicSession } from './backend.ts';
 import type { Vec3 } from './constants.ts';
 import type { ProgramData, ProgramKind, ProgramScales } from './program.ts';
-import { DescentProgram, chooseScales, NODE } from './program.ts';
+import { DescentProgram, chooseScales, landsOnTarget, NODE } from './program.ts';
 import type { DescentSetup, IgnitionState } from './setup.ts';
 import { validateIgnition, validateSetup } from './setup.ts';
 
@@ -71,7 +71,7 @@ export class DescentSolver {
     timeOfFlight: number,
     target: Vec3,
     ignition: IgnitionState,
-    extra: Pick<ProgramData, 'direction' | 'propellantBudget'> = {},
+    extra: Pick<ProgramData, 'direction' | 'propellantBudget' | 'thrustDirections'> = {},
   ): FixedTimeSolve {
     const data: ProgramData = { timeOfFlight, target, ignition, ...extra };
     const e = this.entry(kind, data);
@@ -134,7 +134,7 @@ export class DescentSolver {
    * NaN unless `r` is a solved minimum-propellant result.
    */
   timeDerivative(r: FixedTimeSolve, target: Vec3, ignition: IgnitionState): number {
-    if (r.kind !== 'min-propellant') return NaN;
+    if (!landsOnTarget(r.kind)) return NaN;
     return (ignition.mass - r.propellant) * this.objectiveSlope(r, target, ignition);
   }
 }

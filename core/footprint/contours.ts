@@ -4,7 +4,7 @@
  */
 import { contours } from 'd3-contour';
 import type { MultiPolygon, Position } from 'geojson';
-import { TARGET, type FootprintField } from './field.ts';
+import { hasFlyableCost, type FootprintField } from './field.ts';
 
 /** Region where the minimum propellant is at most `level_kg`, with its area. */
 export interface PropellantRegion {
@@ -31,9 +31,9 @@ export function propellantRegions(field: FootprintField, levels_kg: readonly num
   for (let j = 0; j < ny; j++) {
     for (let i = 0; i < nx; i++) {
       const k = j * nx + i;
-      // Over-budget targets carry an upper bound on their cost: contours through them err on the safe side.
-      const st = field.status[k];
-      if (st === TARGET.reachable || st === TARGET.overBudget) values[(j + 1) * px + i + 1] = -field.propellant_kg[k];
+      // Over-budget and relaxation-gap targets carry an upper bound on their cost (a flyable trajectory):
+      // contours through them err on the safe side.
+      if (hasFlyableCost(field, k)) values[(j + 1) * px + i + 1] = -field.propellant_kg[k];
     }
   }
   const generator = contours().size([px, py]).smooth(true);

@@ -25,8 +25,24 @@ export const TARGET = {
    * the budget contour drawn through such targets errs on the small (safe) side.
    */
   overBudget: 4,
+  /**
+   * The convex relaxation is not lossless at this target and the best flyable trajectory found costs more
+   * than the search's tolerance above the certified lower bound (or none was found): `propellant_kg` holds
+   * the flyable trajectory's cost (an upper bound; NaN when none), so contours through such targets err on
+   * the small (safe) side. Never merged with `reachable`: footprints, exports and the app show it apart.
+   */
+  relaxationGap: 5,
 } as const;
 export type TargetCode = (typeof TARGET)[keyof typeof TARGET];
+
+/**
+ * Whether the target's `propellant_kg` is the cost of a flyable trajectory found (exact for reachable
+ * targets, an upper bound for over-budget and relaxation-gap ones).
+ */
+export function hasFlyableCost(field: { status: Uint8Array; propellant_kg: Float32Array | Float64Array }, k: number): boolean {
+  const st = field.status[k];
+  return (st === TARGET.reachable || st === TARGET.overBudget || st === TARGET.relaxationGap) && Number.isFinite(field.propellant_kg[k]);
+}
 
 /** The outcome of one target, as the footprint engine needs it from the descent search. */
 export interface TargetOutcome {
@@ -119,7 +135,7 @@ export function rowBuffers(r: FieldRow): ArrayBuffer[] {
 }
 
 export function countByStatus(field: FootprintField): Record<keyof typeof TARGET, number> {
-  const out = { pending: 0, reachable: 0, unreachable: 0, failed: 0, overBudget: 0 };
+  const out = { pending: 0, reachable: 0, unreachable: 0, failed: 0, overBudget: 0, relaxationGap: 0 };
   const names = Object.keys(TARGET) as (keyof typeof TARGET)[];
   for (const code of field.status) out[names[code]]++;
   return out;

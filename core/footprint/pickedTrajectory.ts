@@ -2,6 +2,7 @@
  * One picked target's optimal trajectory (minimum propellant, free final time), as plain data a worker can
  * send back: the decoded time series and the search outcome.
  */
+import { verifyBetweenNodes } from '../descent/verify.ts';
 import { polynomialGuidance } from '../descent/baselines/polynomial.ts';
 import { landreachConicBackend } from '../descent/conicBackend.ts';
 import type { Vec3 } from '../descent/constants.ts';
@@ -33,11 +34,13 @@ export interface PickedTrajectory {
   /** Time series at the nodes (null on solver failure). */
   series: TrajectorySeries | null;
   warnings: string[];
+  /** Certified lower bound on the minimum propellant, kg (NaN when unknown); below `propellant_kg` for relaxation-gap picks. */
+  propellantLowerBound_kg: number;
   /** The polynomial-guidance baseline to the same target ("what does optimal guidance buy us?"); null if not computed. */
   baseline: PickedBaseline | null;
 }
 
-/** Polynomial (Apollo-style) guidance flown to the target (core/descent/baselines/polynomial.ts). */
+/** Polynomial guidance flown to the target (core/descent/baselines/polynomial.ts). */
 export interface PickedBaseline {
   method: 'polynomial guidance';
   propellant_kg: number;
@@ -62,10 +65,15 @@ export function solvePickedTrajectory(job: PickedTrajectoryJob): PickedTrajector
   const target: Vec3 = [job.east_m, job.north_m, d.target[2]];
   const guess = job.tfGuess_s !== undefined && Number.isFinite(job.tfGuess_s) && job.tfGuess_s > 0 ? job.tfGuess_s : undefined;
   const r = searchFreeFinalTime(solver, target, d.ignition, { decode: true, tfGuess: guess });
+  // Dense re-simulation between the nodes: a constraint missed there is a warning the user sees.
+  if (r.trajectory && r.kind !== 'min-landing-error') {
+    for (const v of verifyBetweenNodes(d.setup, r.trajectory, target).violations) r.warnings.push(`re-simulation: ${v}`);
+  }
   return {
     status: r.status,
     target_m: target,
     propellant_kg: r.propellant,
+    propellantLowerBound_kg: r.propellantLowerBound,
     timeOfFlight_s: r.timeOfFlight,
     miss_m: r.status === 'solved' ? 0 : r.miss,
     nodes: d.setup.nodes,

@@ -7,13 +7,14 @@ import { APP_VERSION, CAUTION } from './provenance.ts';
 
 export { footprintGeoJson, rightHandRule, type FootprintGeoJsonInput, type FootprintLonLat, type GeoJsonSite, type LocalToLonLat } from './footprintGeoJson.ts';
 
-const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget'] as const;
+const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget', 'relaxation-gap'] as const;
 
 const num = (v: number, digits: number) => (Number.isFinite(v) ? Number(v.toFixed(digits)).toString() : '');
 
 /**
  * One row per target. `within_budget` is 1 where the minimum propellant is at most `budget_kg` (the usable
- * propellant less the reserve), 0 where it is certainly above it or unreachable, empty where not computed.
+ * propellant less the reserve), 0 where it is certainly above it or unreachable, empty where not computed or
+ * not established (a relaxation-gap target whose best flyable trajectory is above the budget).
  */
 export function footprintCsv(field: FootprintField, budget_kg: number): string {
   const lines = [
@@ -26,7 +27,9 @@ export function footprintCsv(field: FootprintField, budget_kg: number): string {
       const st = field.status[k];
       const within = st === TARGET.reachable
         ? (field.propellant_kg[k] <= budget_kg ? '1' : '0')
-        : st === TARGET.unreachable || st === TARGET.overBudget ? '0' : '';
+        : st === TARGET.unreachable || st === TARGET.overBudget ? '0'
+          // A flyable trajectory within the budget proves it; above it, only the (unstored) lower bound could.
+          : st === TARGET.relaxationGap && field.propellant_kg[k] <= budget_kg ? '1' : '';
       lines.push(
         [
           num(field.east[i], 3),
@@ -53,6 +56,8 @@ export interface FootprintSummary {
   pending: number;
   /** Targets stopped early as certainly over the budget (reachable-set runs only). */
   overBudget: number;
+  /** Targets where the relaxation was not lossless and no flyable trajectory within tolerance of its bound was found. */
+  relaxationGap: number;
   /**
    * Present when the budget boundary was refined coarse-to-fine: area and divert radius then come from the
    * refined boundary; `solves` includes the refinement's.

@@ -88,9 +88,24 @@ export const ConstraintsSchema = z.strictObject({
   gateHeight_m: nonNegative('metres').default(0),
   /** Downward speed at the gate, m/s. */
   gateDescentRate_mps: nonNegative('m/s').default(0),
-  /** Lowest altitude above the target while descending, m; null: none. */
+  /**
+   * Keep every node between ignition and the gate at or above the landing plane (altitude ≥ 0 relative to the
+   * target). On by default: a trajectory through the ground is not an answer. Switch it off only knowingly
+   * (e.g. to compare with a published case that has no such constraint).
+   */
+  stayAboveLandingPlane: z.boolean({ error: 'must be true or false' }).default(true),
+  /** Lowest altitude above the target while descending, m; null: none beyond the landing plane. */
   minAltitude_m: finite('metres').nullable().default(null),
 });
+
+/**
+ * The altitude floor above the target the descent keeps, m, or null for none: the landing plane (0) unless
+ * switched off, raised by minAltitude_m. The one rule for every command and the app.
+ */
+export function altitudeFloor_m(c: { stayAboveLandingPlane: boolean; minAltitude_m: number | null }): number | null {
+  if (!c.stayAboveLandingPlane) return c.minAltitude_m;
+  return Math.max(0, c.minAltitude_m ?? 0);
+}
 
 export const DiscretisationSchema = z.strictObject({
   /** Time nodes including ignition and gate. Default 50 (see DEVELOPERS.md, convergence study). */
@@ -121,6 +136,20 @@ export const StudySchema = z
   target: TargetSchema.prefault({ x_m: 0, y_m: 0 }),
   })
   .superRefine((s, ctx) => {
+    const floor = altitudeFloor_m(s.constraints);
+    if (s.constraints.stayAboveLandingPlane && s.constraints.minAltitude_m !== null && s.constraints.minAltitude_m < 0) {
+      ctx.addIssue({
+        code: 'custom', path: ['constraints', 'minAltitude_m'], input: s.constraints.minAltitude_m,
+        message: 'must be zero or positive while constraints.stayAboveLandingPlane is true (set it to false to allow a floor below the landing plane)',
+      });
+    } else if (floor !== null && s.ignition.position_m[2] < s.target.z_m + floor) {
+      ctx.addIssue({
+        code: 'custom', path: ['ignition', 'position_m', 2], input: s.ignition.position_m[2],
+        message: `is below the altitude floor (${s.target.z_m + floor} m: target height plus ` +
+          `${s.constraints.stayAboveLandingPlane && s.constraints.minAltitude_m === null ? 'the landing plane' : `minimum altitude ${floor} m`}); ` +
+          'raise the ignition point, or set constraints.stayAboveLandingPlane to false knowingly',
+      });
+    }
     const m = s.ignition.mass_kg;
     const v = s.vehicle;
     if (m !== undefined && (m > v.wetMass_kg || m <= v.dryMass_kg + v.propellantReserve_kg)) {

@@ -5,6 +5,7 @@ import { MARS_SIDEREAL_RATE, MARS_SURFACE_GRAVITY, MOON_SIDEREAL_RATE, MOON_SURF
 import type { PlanetModel } from '../descent/planet.ts';
 import type { DescentSetup, IgnitionState } from '../descent/setup.ts';
 import type { Study } from './schema.ts';
+import { altitudeFloor_m } from './schema.ts';
 
 export interface StudyDescent {
   setup: DescentSetup;
@@ -45,7 +46,7 @@ export function studyToDescent(study: Study): StudyDescent {
       maxSpeed: c.maxSpeed_mps,
       gateHeight: c.gateHeight_m,
       gateDescentRate: c.gateDescentRate_mps,
-      minAltitude: c.minAltitude_m,
+      minAltitude: altitudeFloor_m(c),
     },
     nodes: study.discretisation.nodes,
     hold: study.discretisation.hold,

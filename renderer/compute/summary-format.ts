@@ -37,6 +37,14 @@ export function trajectoryFigureList(t: PickedTrajectory, budget_kg: number): Fi
       { label: 'Time of flight', value: `${fixed(t.timeOfFlight_s, 2)} s`, note: 'closest-approach trajectory' },
     ];
   }
+  if (t.status === 'relaxation-gap') {
+    return [
+      { label: 'Target', value: at },
+      { label: 'Status', value: 'relaxation gap', note: 'the convex relaxation is not lossless here: optimality not certified' },
+      { label: 'Propellant', value: Number.isFinite(t.propellant_kg) ? `${fixed(t.propellant_kg, 2)} kg` : 'no flyable trajectory found', note: `certified lower bound ${fixed(t.propellantLowerBound_kg, 2)} kg` },
+      { label: 'Time of flight t_f', value: `${fixed(t.timeOfFlight_s, 2)} s`, note: `N = ${t.nodes}` },
+    ];
+  }
   return [
     { label: 'Target', value: at },
     { label: 'Propellant', value: `${fixed(t.propellant_kg, 2)} kg`, note: t.propellant_kg <= budget_kg ? `within the ${fixed(budget_kg, 1)} kg budget` : `ABOVE the ${fixed(budget_kg, 1)} kg budget` },

@@ -14,7 +14,8 @@ import { JobPool } from '../../core/parallel/pool.ts';
 import { FOOTPRINT_NODES, footprintContext } from '../../core/footprint/studyFootprint.ts';
 import { parseStudyText, studyToDescent } from '../../core/study/index.ts';
 import { DescentSolver } from '../../core/descent/solver.ts';
-import { searchFreeFinalTimeBySlope } from '../../core/descent/slopeSearch.ts';
+import { searchFreeFinalTime } from '../../core/descent/search.ts';
+import { FOOTPRINT_PROPELLANT_TOLERANCE_KG } from '../../core/footprint/descentEvaluator.ts';
 import { cvxoptAvailable } from '../reference/cvxopt.ts';
 import { cvxoptBackend } from '../reference/descent/cvxoptBackend.ts';
 import type { BenchResult } from './util.ts';
@@ -62,8 +63,8 @@ export async function benchFootprint(sides = [41]): Promise<BenchResult[]> {
       let guess: number | undefined;
       const sample = [[0, 0], [500, 0], [500, 500]];
       for (const [e, n] of sample) {
-        const r = searchFreeFinalTimeBySlope(ref, [e, n, 0], d.ignition, { tfGuess: guess });
-        if (r.result.status === 'solved') guess = r.result.timeOfFlight;
+        const r = searchFreeFinalTime(ref, [e, n, 0], d.ignition, { tfGuess: guess, decode: false, propellantTolerance: FOOTPRINT_PROPELLANT_TOLERANCE_KG });
+        if (r.status === 'solved') guess = r.timeOfFlight;
       }
       const cvxPerTarget = be.stats.solverSeconds / sample.length;
       figures.cvxopt_s_per_target = cvxPerTarget;

@@ -22,6 +22,7 @@ import { footprintCsv, footprintGeoJson, footprintReport } from '../../study/foo
 import { runStudyFootprint } from '../footprintRun.ts';
 import { iterationModule } from '../../conic/index.ts';
 import { DescentSolver } from '../../descent/solver.ts';
+import { MAX_NODES } from '../../descent/setup.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { reachBoundary } from '../../descent/reach.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
@@ -126,7 +127,12 @@ function parseArgs(args: string[]): Options {
         if (!Number.isFinite(v) || v < 0) throw new UsageError(`--reserve-kg ${t}: must be zero or a positive mass in kg`);
         o.reserve = v;
       } else if (a === '--workers') o.workers = positive(a, value(), true, 64);
-      else if (a === '--nodes') o.nodes = Math.max(5, positive(a, value(), true, 2000));
+      else if (a === '--nodes') {
+        const t = value();
+        const v = Number(t);
+        if (!Number.isInteger(v) || v < 5 || v > MAX_NODES) throw new UsageError(`--nodes ${t}: must be a whole number from 5 to ${MAX_NODES}`);
+        o.nodes = v;
+      }
       else if (a === '--levels') {
         const t = value();
         const v = t.split(',').map((x) => Number(x.trim()));
@@ -145,7 +151,6 @@ function parseArgs(args: string[]): Options {
   if (!o.study) throw new UsageError('missing STUDY.json (usage: landreach footprint STUDY.json --out DIR)');
   if (!o.out) throw new UsageError('missing --out DIR (the folder for footprint.json, .csv, .geojson and .svg)');
   if (!o.terrain && Object.keys(o.demFlags).length) throw new UsageError(`--${Object.keys(o.demFlags)[0]} only applies with --terrain DEM`);
-  if (o.nodes < 5) throw new UsageError(`--nodes ${o.nodes}: must be at least 5`);
   return o;
 }
 
@@ -256,7 +261,8 @@ export const footprintCommand: CliCommand = {
       [
         `status:      ${cancelled ? 'stopped early (partial result written)' : 'complete'}`,
         `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
-          (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : ''),
+          (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : '') +
+          (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (not lossless: flyable cost above the certified bound)` : ''),
         `budget:      ${budget.toFixed(1)} kg (usable ${usable} kg − reserve ${reserve} kg)`,
         `area:        ${(reachable.area_m2 / 1e6).toFixed(3)} km² reachable with the reserve kept` +
           (summary.boundaryRefinement

@@ -14,6 +14,7 @@ import { searchFreeFinalTime } from '../../descent/search.ts';
 import type { DescentResult } from '../../descent/search.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { discretisationCheck } from '../../descent/refine.ts';
+import { verifyBetweenNodes, type BetweenNodesReport } from '../../descent/verify.ts';
 import { polynomialGuidance } from '../../descent/baselines/polynomial.ts';
 import { gravityTurn } from '../../descent/baselines/gravityTurn.ts';
 import type { Vec3 } from '../../descent/constants.ts';
@@ -37,7 +38,13 @@ Options:
   --baselines        also fly polynomial guidance to the target and a gravity-turn soft landing,
                      for comparison with the optimum (propellant, miss, landing point)
 
-Exit codes: 0 solved or unreachable (see "status"), 1 solver failure, 2 bad usage or bad study file.
+Status: solved (a flyable optimum, lossless, propellant certified to 0.01 kg), relaxation-gap (the
+convex relaxation was not lossless: the best flyable trajectory found and the certified lower bound are
+both reported), unreachable (certified, with the closest reachable point), solver-failure.
+Every returned trajectory is re-simulated densely between the nodes; a constraint missed there beyond
+its tolerance is a warning.
+
+Exit codes: 0 solved, relaxation-gap or unreachable (see "status"), 1 solver failure, 2 bad usage or bad study file.
 
 ${CAUTION}`;
 
@@ -83,7 +90,7 @@ const deg = (rad: number) => (rad * 180) / Math.PI;
 
 export function resultToJson(
   study: Study, r: DescentResult, nodes: number, refine: { nodes: number; propellant: number } | null,
-  baselines: BaselineFigures | null = null, hash = '',
+  baselines: BaselineFigures | null = null, hash = '', between: BetweenNodesReport | null = null,
 ) {
   const t = r.trajectory;
   const s = t?.series;
@@ -100,6 +107,8 @@ export function resultToJson(
     status: r.status,
     problem: r.kind,
     propellant_kg: round(r.propellant),
+    /** Certified lower bound on the minimum propellant over all times of flight (null when unknown). */
+    propellant_lower_bound_kg: round(r.propellantLowerBound),
     tf_s: round(r.timeOfFlight),
     nodes,
     solves: r.solves,
@@ -120,6 +129,22 @@ export function resultToJson(
           glide_slope_margin_deg: round(deg(t.diagnostics.glideSlopeMargin)),
           altitude_margin_m: round(t.diagnostics.altitudeMargin),
           speed_margin_mps: round(t.diagnostics.speedMargin),
+        }
+      : null,
+    /** Dense re-simulation of the returned thrust (core/descent/verify.ts): margins between the nodes. */
+    between_nodes: between
+      ? {
+          substeps: between.substeps,
+          altitude_margin_m: round(between.altitudeMargin_m),
+          glide_slope_margin_m: round(between.glideSlopeMargin_m),
+          speed_margin_mps: round(between.speedMargin_mps),
+          thrust_lower_margin: round(between.thrustLowerMargin),
+          thrust_upper_margin: round(between.thrustUpperMargin),
+          pointing_margin_deg: round(deg(between.pointingMargin_rad)),
+          touchdown_position_error_m: round(between.touchdownPositionError_m),
+          touchdown_velocity_error_mps: round(between.touchdownVelocityError_mps),
+          propellant_kg: round(between.propellant_kg),
+          violations: between.violations,
         }
       : null,
     discretisation_check: refine
@@ -155,7 +180,8 @@ function summary(r: DescentResult, refine: { nodes: number; propellant: number }
   if (r.status === 'unreachable' && r.closestPoint) {
     lines.push(`closest point     ${f(r.closestPoint[0], 1)} m E, ${f(r.closestPoint[1], 1)} m N (miss ${f(r.miss, 1)} m)`);
   }
-  lines.push(`propellant        ${f(r.propellant)} kg${r.status === 'unreachable' ? ' (minimum-landing-error trajectory)' : ''}`);
+  lines.push(`propellant        ${f(r.propellant)} kg${r.status === 'unreachable' ? ' (minimum-landing-error trajectory)' : r.status === 'relaxation-gap' ? ' (best flyable trajectory found)' : ''}`);
+  if (r.status === 'relaxation-gap') lines.push(`lower bound       ${f(r.propellantLowerBound)} kg (certified by the convex relaxation)`);
   lines.push(`time of flight    ${f(r.timeOfFlight)} s  (bracket ${f(r.bracket.lower, 1)}–${f(r.bracket.upper, 1)} s)`);
   if (r.trajectory) {
     const d = r.trajectory.diagnostics;
@@ -191,7 +217,15 @@ export const trajectoryCommand: CliCommand = {
       if (err instanceof RangeError) throw new UsageError(`${o.study}: ${err.message}`);
       throw err;
     }
-    const r = searchFreeFinalTime(solver, target, d.ignition);
+    let r: DescentResult;
+    try {
+      r = searchFreeFinalTime(solver, target, d.ignition);
+    } catch (err) {
+      if (err instanceof RangeError) throw new UsageError(`${o.study}: ${err.message}`);
+      throw err;
+    }
+    const between = r.trajectory && r.kind !== 'min-landing-error' ? verifyBetweenNodes(d.setup, r.trajectory, target) : null;
+    for (const v of between?.violations ?? []) r.warnings.push(`re-simulation: ${v}`);
     const check = o.refine ? discretisationCheck(d.setup, landreachConicBackend(), d.ignition, target, r) : null;
     const refine = check ? { nodes: check.nodes, propellant: check.propellant } : null;
     let baselines: BaselineFigures | null = null;
@@ -206,7 +240,7 @@ export const trajectoryCommand: CliCommand = {
     const files: { path: string; text: string }[] = [];
     if (o.json) {
       const hash = await inputsHash({ study, target });
-      files.push({ path: o.json, text: JSON.stringify(resultToJson(study, r, d.setup.nodes, refine, baselines, hash), null, 1) + '\n' });
+      files.push({ path: o.json, text: JSON.stringify(resultToJson(study, r, d.setup.nodes, refine, baselines, hash, between), null, 1) + '\n' });
     }
     if (o.csv) files.push({ path: o.csv, text: seriesToCsv(r) });
     if (files.length) writeFilesAtomically(files);

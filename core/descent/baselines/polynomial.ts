@@ -1,6 +1,5 @@
 /**
- * Polynomial (Apollo-style) explicit guidance baseline (Klumpp 1974, "Apollo lunar descent
- * guidance", Automatica 10(2)): the acceleration is a quadratic in time that meets the target position,
+ * Polynomial explicit guidance baseline (Klumpp 1974, Automatica 10(2)): the acceleration is a quadratic in time that meets the target position,
  * velocity and acceleration at t_go. Solving the three conditions for the current acceleration gives
  *   a = a_f + 12 (r_f − r)/t_go² − 6 (v + v_f)/t_go        (total acceleration; thrust = m (a − g))
  * (derived in the unit test). The law is flown closed-loop with t_go = T − t, thrust saturated to the

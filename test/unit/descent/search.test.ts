@@ -5,7 +5,7 @@ import { DescentSolver } from '../../../core/descent/solver.ts';
 import { searchFreeFinalTime } from '../../../core/descent/search.ts';
 import { timeOfFlightBracket } from '../../../core/descent/bracket.ts';
 import { brentMinimise } from '../../../core/descent/brent.ts';
-import { secantMinimise } from '../../../core/descent/secant.ts';
+import { slopeMinimise, type SlopePoint } from '../../../core/descent/slopeMinimise.ts';
 import { landreachConicBackend } from '../../../core/descent/conicBackend.ts';
 import { parseStudyText, studyToDescent } from '../../../core/study/index.ts';
 
@@ -84,22 +84,54 @@ describe('envelope-theorem slope of the landing-error objective in t_f', () => {
   });
 });
 
-describe('secantMinimise', () => {
-  it('minimises a smooth cost next to an infeasible region using slopes', () => {
-    // f(x) = e^{3/(x−1)} + x on x > 1.2 (infeasible below): f′ = 1 − 3 e^{3/(x−1)}/(x−1)²; root by bisection here.
-    const f = (x: number) => Math.exp(3 / (x - 1)) + x;
-    const g = (x: number) => 1 - (3 * Math.exp(3 / (x - 1))) / (x - 1) ** 2;
-    let lo = 1.5;
-    let hi = 50;
+describe('slopeMinimise', () => {
+  const bisectRoot = (g: (x: number) => number, lo: number, hi: number) => {
     for (let i = 0; i < 200; i++) {
       const mid = 0.5 * (lo + hi);
       if (g(mid) < 0) lo = mid;
       else hi = mid;
     }
-    const probe = (x: number) => (x < 1.2 ? { feasible: false, f: Infinity, g: NaN } : { feasible: true, f: f(x), g: g(x) });
-    const r = secantMinimise(probe, 2, probe(2), 0, 100, 1e-6, 0.5, 60);
-    expect(r.x).toBeCloseTo(lo, 4);
+    return lo;
+  };
+
+  it('minimises a smooth convex cost next to an infeasible region using slopes, to the stated gap', () => {
+    // f(x) = e^{3/(x−1)} + x on x > 1.2 (infeasible below), convex there: f′ = 1 − 3 e^{3/(x−1)}/(x−1)²;
+    // its root by bisection is the reference.
+    const f = (x: number) => Math.exp(3 / (x - 1)) + x;
+    const g = (x: number) => 1 - (3 * Math.exp(3 / (x - 1))) / (x - 1) ** 2;
+    const xStar = bisectRoot(g, 1.5, 50);
+    const point = (x: number): SlopePoint => (x < 1.2 ? { t: x, feasible: false, f: Infinity, g: NaN } : { t: x, feasible: true, f: f(x), g: g(x) });
+    const r = slopeMinimise(point, [point(2)], { lo: 0, hi: 100, gapTolerance: 1e-8, gapOf: (a, b) => a - b, widthFloor: 1e-12, step: 0.5, maxEvaluations: 60 });
+    expect(r.reason).toBe('converged');
+    expect(r.best.f - f(xStar)).toBeLessThanOrEqual(1e-8);
+    expect(r.bound).toBeLessThanOrEqual(f(xStar));
     expect(r.evaluations).toBeLessThan(30);
+  });
+
+  it('honours its gap at a kink: the stop rule is the certified bound, not the bracket width', () => {
+    // f(x) = max(2 − x, 0.02 (x − 1)) + 1: convex with a kink at its minimiser x = 1 + 1/1.02 … (f′ jumps from −1
+    // to 0.02). Minimum: solve 2 − x = 0.02 (x − 1) ⇒ x* = 2.02/1.02, f* = 1 + 0.02 (x* − 1).
+    const xStar = 2.02 / 1.02;
+    const fStar = 1 + 0.02 * (xStar - 1);
+    const point = (x: number): SlopePoint => {
+      const left = 2 - x;
+      const right = 0.02 * (x - 1);
+      return { t: x, feasible: true, f: Math.max(left, right) + 1, g: left >= right ? -1 : 0.02 };
+    };
+    for (const tol of [1e-2, 1e-4, 1e-6]) {
+      const r = slopeMinimise(point, [point(0.5)], { lo: -10, hi: 10, gapTolerance: tol, gapOf: (a, b) => a - b, widthFloor: 1e-12, step: 0.2, maxEvaluations: 200 });
+      expect(r.reason).toBe('converged');
+      expect(r.best.f - fStar).toBeLessThanOrEqual(tol);
+      expect(r.bound).toBeLessThanOrEqual(fStar + 1e-12);
+    }
+  });
+
+  it('stops as soon as the certified bound exceeds a budget', () => {
+    const point = (x: number): SlopePoint => ({ t: x, feasible: true, f: (x - 3) ** 2 + 10, g: 2 * (x - 3) });
+    const r = slopeMinimise(point, [point(0), point(1)], { lo: -10, hi: 10, gapTolerance: 1e-9, gapOf: (a, b) => a - b, widthFloor: 1e-12, step: 0.2, maxEvaluations: 50, boundStop: (b) => b > 5 });
+    expect(r.reason).toBe('bound-stop');
+    expect(r.bound).toBeGreaterThan(5);
+    expect(r.bound).toBeLessThanOrEqual(10); // the true minimum is 10
   });
 });
 

@@ -6,7 +6,7 @@ import type { FootprintSummary } from '../../../../core/study/footprintExport.ts
 import type { PickedTrajectory } from '../../../../core/footprint/pickedTrajectory.ts';
 
 const summary: FootprintSummary = {
-  targets: 49, reachable: 30, unreachable: 5, failed: 0, pending: 14, overBudget: 0,
+  targets: 49, reachable: 30, unreachable: 5, failed: 0, pending: 14, overBudget: 0, relaxationGap: 0,
   usablePropellant_kg: 500, reserve_kg: 20, budget_kg: 480,
   reachableArea_m2: 12_345_678, guaranteedDivertRadius_m: 1234.6, divertRadiusLimitedByGrid: true,
   minPropellant_kg: 201.319, maxPropellant_kg: 282.921, solves: 300, elapsed_s: 4.2, cancelled: true,
@@ -33,7 +33,7 @@ describe('result figures carry their units', () => {
     expect(JSON.stringify(list)).not.toMatch(/NaN/);
   });
 
-  const picked: PickedTrajectory = { status: 'solved', target_m: [500, -302.4, 0], propellant_kg: 218.694, timeOfFlight_s: 36.617, miss_m: 0, nodes: 50, series: null, warnings: [], baseline: null };
+  const picked: PickedTrajectory = { status: 'solved', target_m: [500, -302.4, 0], propellant_kg: 218.694, propellantLowerBound_kg: 218.69, timeOfFlight_s: 36.617, miss_m: 0, nodes: 50, series: null, warnings: [], baseline: null };
 
   it('trajectory: propellant in kg, t_f in s with N', () => {
     const list = trajectoryFigureList(picked, 480);
