@@ -11,6 +11,8 @@ import type { Vec3 } from './constants.ts';
 import { NODE } from './program.ts';
 import type { IgnitionState } from './setup.ts';
 import type { DescentSolver } from './solver.ts';
+import { relativeLosslessnessGap } from './flyable.ts';
+import { LOSSLESS_TOLERANCE } from './trajectory.ts';
 
 export interface ReachResult {
   /** Largest dᵀ(landing point) over time of flight, m (−Infinity when no time of flight is feasible). */
@@ -19,6 +21,13 @@ export interface ReachResult {
   landing_m: [number, number];
   timeOfFlight_s: number;
   solves: number;
+  /**
+   * Relative losslessness gap max(σ − ‖u‖)/(full-throttle acceleration) of the reach trajectory (NaN when
+   * none): above LOSSLESS_TOLERANCE the reach is that of the relaxation, an optimistic bound, and `lossless`
+   * is false so callers can say so.
+   */
+  losslessnessGap: number;
+  lossless: boolean;
 }
 
 const PROBES = [0.6, 0.75, 0.9, 1.0, 1.15, 1.3, 1.5, 1.8, 2.2];
@@ -38,17 +47,17 @@ export function reachAlongDirection(
   const br = timeOfFlightBracket(solver.setup, ignition, target);
   const start = solver.solves;
   const N = solver.setup.nodes;
-  const cache = new Map<number, { reach: number; landing: [number, number] }>();
+  const cache = new Map<number, { reach: number; landing: [number, number]; gap: number }>();
   const evalAt = (tf: number) => {
     const hit = cache.get(tf);
     if (hit) return hit;
     const r = solver.solveFixed('max-divert', tf, target, ignition, { direction: dir, propellantBudget: propellantBudget_kg });
-    let out = { reach: -Infinity, landing: [NaN, NaN] as [number, number] };
+    let out = { reach: -Infinity, landing: [NaN, NaN] as [number, number], gap: NaN };
     if (isSolved(r.status)) {
       const program = solver.program('max-divert');
       const o = (N - 1) * NODE.size + NODE.r;
       const landing: [number, number] = [program.value(r.solution.x, o), program.value(r.solution.x, o + 1)];
-      out = { reach: dir[0] * landing[0] + dir[1] * landing[1], landing };
+      out = { reach: dir[0] * landing[0] + dir[1] * landing[1], landing, gap: relativeLosslessnessGap(solver, r, ignition) };
     }
     cache.set(tf, out);
     return out;
@@ -66,7 +75,7 @@ export function reachAlongDirection(
       bestT = t;
     }
   }
-  if (!Number.isFinite(best)) return { reach_m: -Infinity, landing_m: [NaN, NaN], timeOfFlight_s: NaN, solves: solver.solves - start };
+  if (!Number.isFinite(best)) return { reach_m: -Infinity, landing_m: [NaN, NaN], timeOfFlight_s: NaN, solves: solver.solves - start, losslessnessGap: NaN, lossless: false };
   const tol = options.tfTolerance_s ?? 0.05;
   const sorted = [...cache.keys()].sort((a, b) => a - b);
   const k = sorted.indexOf(bestT);
@@ -75,7 +84,10 @@ export function reachAlongDirection(
   const res = brentMinimise((t) => -evalAt(t).reach, a, b, bestT, -best, tol, 30);
   const final = evalAt(res.x).reach >= best ? evalAt(res.x) : evalAt(bestT);
   const tBest = evalAt(res.x).reach >= best ? res.x : bestT;
-  return { reach_m: final.reach, landing_m: final.landing, timeOfFlight_s: tBest, solves: solver.solves - start };
+  return {
+    reach_m: final.reach, landing_m: final.landing, timeOfFlight_s: tBest, solves: solver.solves - start,
+    losslessnessGap: final.gap, lossless: final.gap <= LOSSLESS_TOLERANCE,
+  };
 }
 
 /** The reach boundary: the farthest landing points along K evenly spaced directions (east first, counter-clockwise). */

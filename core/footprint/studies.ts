@@ -80,6 +80,11 @@ export interface AltitudeStudyRow {
   /** Propellant to the nominal target (nearest grid target to the origin), kg; NaN if unreachable. */
   nominalPropellant_kg: number;
   area_m2: number;
+  /**
+   * Reach-boundary rows only: directions whose reach comes from a relaxation that was not lossless (an
+   * optimistic reach, flagged rather than silently used). Absent for footprint-field rows.
+   */
+  lossyDirections?: number;
 }
 
 /**

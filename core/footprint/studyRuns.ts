@@ -60,6 +60,7 @@ export function altitudeRowByDirections(study: Study, altitude_m: number, budget
     limitedByGrid: false,
     nominalPropellant_kg: nominal.status === 'solved' ? nominal.propellant : NaN,
     area_m2: Math.abs(ringArea(ring)),
+    lossyDirections: boundary.filter((b) => Number.isFinite(b.result.losslessnessGap) && !b.result.lossless).length,
   };
 }
 

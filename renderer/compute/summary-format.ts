@@ -14,6 +14,10 @@ export function footprintFigureList(s: FootprintSummary): Figure[] {
   const done = s.targets - s.pending;
   return [
     { label: 'Targets', value: `${s.reachable} reachable / ${done} computed`, note: s.pending ? `${s.pending} not computed${s.cancelled ? ' (cancelled)' : ''}` : undefined },
+    // Never merged with the reachable ones: the relaxation was not lossless there (core/footprint/field.ts).
+    ...(s.relaxationGap > 0
+      ? [{ label: 'Relaxation gap', value: `${s.relaxationGap} targets`, note: 'not lossless: flyable cost above the certified bound (contours use the flyable cost)' }]
+      : []),
     { label: 'Budget', value: `${fixed(s.budget_kg, 1)} kg`, note: `usable ${fixed(s.usablePropellant_kg, 1)} kg − reserve ${fixed(s.reserve_kg, 1)} kg` },
     // Targets not computed count as out of reach (core/footprint/contours.ts), so a partial field gives
     // lower bounds: said so rather than shown as if final.

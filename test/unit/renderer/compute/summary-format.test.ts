@@ -86,3 +86,11 @@ describe('workspace study → core study', () => {
     expect(!r.ok && r.message).toMatch(/^Not computed: .*planet\.body = "jupiter": must be "mars", "moon" or "custom"/);
   });
 });
+
+describe('relaxation-gap targets are shown apart', () => {
+  it('the footprint figures list them when there are any', () => {
+    const base: FootprintSummary = { targets: 9, reachable: 7, unreachable: 0, failed: 0, pending: 0, overBudget: 0, relaxationGap: 2, usablePropellant_kg: 480, reserve_kg: 20, budget_kg: 460, reachableArea_m2: 1e6, guaranteedDivertRadius_m: 500, divertRadiusLimitedByGrid: false, minPropellant_kg: 200, maxPropellant_kg: 260, solves: 30, elapsed_s: 1, cancelled: false };
+    expect(footprintFigureList(base).find((f) => f.label === 'Relaxation gap')?.value).toBe('2 targets');
+    expect(footprintFigureList({ ...base, relaxationGap: 0 }).find((f) => f.label === 'Relaxation gap')).toBeUndefined();
+  });
+});
