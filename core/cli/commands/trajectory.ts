@@ -19,6 +19,11 @@ import { polynomialGuidance } from '../../descent/baselines/polynomial.ts';
 import { gravityTurn } from '../../descent/baselines/gravityTurn.ts';
 import type { Vec3 } from '../../descent/constants.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
+import { num, readDem, type Flags } from '../dem.ts';
+import { sampleBilinear, TerrainInputError } from '../../terrain/grid.ts';
+import { checkTerrainClearance } from '../../terrain/sites.ts';
+import { groundFrameOnDem } from '../../terrain/groundFrame.ts';
+import type { DecodedTrajectory } from '../../descent/trajectory.ts';
 
 export interface BaselineFigures {
   polynomial: { propellant_kg: number | null; tf_s: number | null; miss_m: number | null; velocity_error_mps: number | null; saturated_fraction: number | null };
@@ -37,6 +42,11 @@ Options:
   --no-refine        skip the discretisation check (the same target solved again with 2N − 1 nodes)
   --baselines        also fly polynomial guidance to the target and a gravity-turn soft landing,
                      for comparison with the optimum (propellant, miss, landing point)
+  --terrain DEM      check the trajectory's clearance above the terrain (GeoTIFF, PNG16 or JSON grid;
+                     nodes and the straight segments between them, sampled at the DEM's pixel size)
+  --clearance-m C    required height above the terrain, m (default 0; with --terrain)
+  --target-east-m E, --target-north-m N
+                     the nominal target on the DEM, in the DEM's frame (default: the DEM's centre)
 
 Status: solved (a flyable optimum, lossless, propellant certified to 0.01 kg), relaxation-gap (the
 convex relaxation was not lossless: the best flyable trajectory found and the certified lower bound are
@@ -49,6 +59,9 @@ Exit codes: 0 solved, relaxation-gap or unreachable (see "status"), 1 solver fai
 ${CAUTION}`;
 
 interface Options {
+  terrain: string | null;
+  clearance_m: number;
+  demFlags: Flags;
   study: string;
   target: Vec3 | null;
   json: string | null;
@@ -58,7 +71,7 @@ interface Options {
 }
 
 function parseArgs(args: string[]): Options {
-  const o: Options = { study: '', target: null, json: null, csv: null, refine: true, baselines: false };
+  const o: Options = { study: '', target: null, json: null, csv: null, refine: true, baselines: false, terrain: null, clearance_m: 0, demFlags: {} };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
     const value = () => {
@@ -77,10 +90,18 @@ function parseArgs(args: string[]): Options {
     else if (a === '--csv') o.csv = value();
     else if (a === '--no-refine') o.refine = false;
     else if (a === '--baselines') o.baselines = true;
+    else if (a === '--terrain') o.terrain = value();
+    else if (a === '--clearance-m') {
+      const t = value();
+      const v = Number(t);
+      if (!Number.isFinite(v) || v < 0 || t.trim() === '') throw new UsageError(`--clearance-m ${t}: must be zero or a positive height in metres`);
+      o.clearance_m = v;
+    } else if (a === '--target-east-m' || a === '--target-north-m' || DEM_READER_FLAGS.includes(a)) o.demFlags[a.slice(2)] = value();
     else if (a.startsWith('--')) throw new UsageError(`unknown option '${a}' (see landreach trajectory --help)`);
     else if (!o.study) o.study = a;
     else throw new UsageError(`unexpected argument '${a}': give one study file`);
   }
+  if (!o.terrain && Object.keys(o.demFlags).length) throw new UsageError(`--${Object.keys(o.demFlags)[0]} only applies with --terrain DEM`);
   if (!o.study) throw new UsageError('missing STUDY.json (usage: landreach trajectory STUDY.json [--target x,y] [--json out.json] [--csv out.csv])');
   return o;
 }
@@ -201,6 +222,55 @@ function summary(r: DescentResult, refine: { nodes: number; propellant: number }
   return lines.join('\n');
 }
 
+/** Reader flags `trajectory --terrain` passes on (the footprint command's names). */
+const DEM_READER_FLAGS = ['--window', '--body-radius-m', '--origin-lat-deg', '--origin-lon-deg', '--vertical-scale', '--pixel-size-m', '--height-scale-m', '--height-offset-m'];
+
+interface ClearanceFigures {
+  dem: string;
+  clearance_m: number;
+  minClearance_m: number;
+  nodeViolations: number;
+  segmentViolations: number;
+  unknown: number;
+  ok: boolean;
+}
+
+/**
+ * Clearance of the trajectory above the terrain (core/terrain checkTerrainClearance): the study frame's
+ * origin is the nominal target, placed on the DEM (its centre unless given) through the same ground frame as
+ * the footprint's, and heights are relative to the terrain there. The final node sits on the ground by
+ * construction and is not checked.
+ */
+async function terrainClearance(path: string, flags: Flags, clearance_m: number, traj: DecodedTrajectory): Promise<ClearanceFigures> {
+  try {
+    const { grid } = await readDem(path, flags);
+    const west = grid.originEast_m;
+    const east = west + grid.width * grid.pixelSizeX_m;
+    const north = grid.originNorth_m;
+    const south = north - grid.height * grid.pixelSizeY_m;
+    const tE = num(flags, 'target-east-m') ?? (west + east) / 2;
+    const tN = num(flags, 'target-north-m') ?? (south + north) / 2;
+    const ground = sampleBilinear(grid, tE, tN);
+    if (!Number.isFinite(ground)) {
+      throw new UsageError(`--target-east-m ${tE}, --target-north-m ${tN}: no terrain height at the nominal target on ${path} (outside the DEM or no-data); give a point on it`);
+    }
+    const frame = groundFrameOnDem(grid.georeference, [tE, tN], `--terrain ${path}`);
+    const s = traj.series;
+    const nodes = Array.from(s.t, (_, k) => {
+      const [e, n] = frame.toDem(s.x[k], s.y[k]);
+      return { east_m: e, north_m: n, up_m: ground + s.z[k] };
+    });
+    const rep = checkTerrainClearance(grid, nodes, clearance_m, 1);
+    return {
+      dem: path, clearance_m, minClearance_m: rep.minClearance_m, nodeViolations: rep.violations.length,
+      segmentViolations: rep.segmentViolations.length, unknown: rep.unknown.length, ok: rep.ok,
+    };
+  } catch (err) {
+    if (err instanceof TerrainInputError) throw new UsageError(err.message);
+    throw err;
+  }
+}
+
 export const trajectoryCommand: CliCommand = {
   name: 'trajectory',
   summary: 'minimum-propellant trajectory to one target (summary, JSON, CSV)',
@@ -237,10 +307,16 @@ export const trajectoryCommand: CliCommand = {
         gravity_turn: { propellant_kg: round(g.propellant), tf_s: round(g.timeOfFlight), landing_m: g.landing.map((v) => round(v) ?? NaN), touchdown_speed_mps: round(g.touchdownSpeed), out_of_propellant: g.outOfPropellant },
       };
     }
+    const clearance = o.terrain && r.trajectory ? await terrainClearance(o.terrain, o.demFlags, o.clearance_m, r.trajectory) : null;
+    if (clearance && !clearance.ok) {
+      r.warnings.push(clearance.unknown > 0 && clearance.nodeViolations === 0 && clearance.segmentViolations === 0
+        ? `terrain clearance unknown at ${clearance.unknown} node(s) (off the DEM or over no-data)`
+        : `terrain clearance: ${clearance.nodeViolations} node(s) and ${clearance.segmentViolations} segment(s) less than ${o.clearance_m} m above the terrain (smallest ${clearance.minClearance_m.toFixed(1)} m)`);
+    }
     const files: { path: string; text: string }[] = [];
     if (o.json) {
       const hash = await inputsHash({ study, target });
-      files.push({ path: o.json, text: JSON.stringify(resultToJson(study, r, d.setup.nodes, refine, baselines, hash, between), null, 1) + '\n' });
+      files.push({ path: o.json, text: JSON.stringify({ ...resultToJson(study, r, d.setup.nodes, refine, baselines, hash, between), terrain_clearance: clearance }, null, 1) + '\n' });
     }
     if (o.csv) files.push({ path: o.csv, text: seriesToCsv(r) });
     if (files.length) writeFilesAtomically(files);
