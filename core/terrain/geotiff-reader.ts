@@ -91,6 +91,32 @@ function numbers(v: unknown): number[] | undefined {
   return undefined;
 }
 
+/**
+ * The GeoKeyDirectory's own consistency (OGC GeoTIFF 1.1, 7.1.3), as libgeotiff checks it when GDAL opens
+ * a file: a key stored in the directory has one value; a key pointing into GeoDoubleParams or
+ * GeoAsciiParams stays inside them. GDAL refuses a file that breaks this; so do we.
+ */
+function checkGeoKeyDirectory(image: GeoTIFFImage, source: string): void {
+  const fd = image.getFileDirectory();
+  if (!fd.hasTag('GeoKeyDirectory' as never)) return;
+  const dir = numbers(fd.getValue('GeoKeyDirectory' as never)) ?? [];
+  const lengthOf = (tag: string) => {
+    if (!fd.hasTag(tag as never)) return 0;
+    const v = fd.getValue(tag as never) as unknown;
+    return typeof v === 'string' ? v.length : numbers(v)?.length ?? 0;
+  };
+  const keys = dir[3] ?? 0;
+  if (dir.length < 4 || dir.length < 4 + 4 * keys) fail(source, `GeoKeyDirectory holds ${dir.length} values but declares ${keys} keys; re-save the file with GDAL`);
+  for (let i = 0; i < keys; i++) {
+    const [id, location, count, offset] = dir.slice(4 + 4 * i, 8 + 4 * i);
+    const bad = location === 0 ? count !== 1
+      : location === 34736 ? offset + count > lengthOf('GeoDoubleParams')
+        : location === 34737 ? offset + count > lengthOf('GeoAsciiParams')
+          : false;
+    if (bad) fail(source, `GeoKey ${id} (stored in tag ${location}, count ${count}, offset ${offset}) is inconsistent with its parameter tag; re-save the file with GDAL`);
+  }
+}
+
 interface Affine {
   x0: number; // source-CRS x of the outer corner of pixel (0,0)
   dx: number;
@@ -168,6 +194,7 @@ async function readImage(bytes: Uint8Array, buf: ArrayBuffer, source: string, op
     fail(source, `is ${w} × ${h} = ${w * h} cells, over the limit of ${MAX_GRID_CELLS} (4096 × 4096); pass a window of at most that many cells`);
   }
   checkDimensions(w, h, `${source} window`);
+  checkGeoKeyDirectory(image, source);
   const geoKeys = image.getGeoKeys() ?? {};
   const pixelIsPoint = geoKeys.GTRasterTypeGeoKey === 2;
   const affine = await readAffine(image, source, pixelIsPoint);
@@ -185,12 +212,22 @@ async function readImage(bytes: Uint8Array, buf: ArrayBuffer, source: string, op
 
   const heights = new Float32Array(w * h);
   const mask = new Uint8Array(w * h);
+  let outOfRange = -1;
+  let outValue = 0;
   await readWindow(image, bytes, layout, [c0, r0, c1, r1], 0, noDataAsSample(noData, layout), (k, v) => {
     if (isNoData(v)) {
       mask[k] = 1;
       heights[k] = NaN;
-    } else heights[k] = v * verticalScale;
+    } else {
+      heights[k] = v * verticalScale;
+      // A sample float32 heights cannot hold (±Infinity, or past ±3.4e38 m) is no height: refuse, never
+      // turn it silently into no-data (GDAL reads it as a value).
+      if (!Number.isFinite(heights[k]) && outOfRange < 0) { outOfRange = k; outValue = v; }
+    }
   }, source);
+  if (outOfRange >= 0) {
+    fail(source, `sample ${outValue} at column ${c0 + (outOfRange % w)}, row ${r0 + Math.floor(outOfRange / w)} is not a height (beyond ±3.4e38 m); the file is corrupt, or its voids need a no-data value (gdal_edit.py -a_nodata)`);
+  }
 
   let spec: GridSpec;
   const wx0 = affine.x0 + c0 * affine.dx;

@@ -50,6 +50,9 @@ function fail(source: string, message: string): never {
 }
 
 function wholeNumber(source: string, name: string, v: unknown, fix: string): number {
+  if ((Array.isArray(v) || ArrayBuffer.isView(v)) && (v as ArrayLike<number>).length !== 1) {
+    fail(source, `${name} has ${(v as ArrayLike<number>).length} values (TIFF 6.0 allows exactly one; GDAL refuses it too); ${fix}`);
+  }
   const x = typeof v === 'bigint' ? Number(v) : Array.isArray(v) || ArrayBuffer.isView(v) ? Number((v as ArrayLike<number>)[0]) : Number(v);
   if (!Number.isInteger(x) || x < 1 || x > 2 ** 32 - 1) fail(source, `invalid ${name}: ${String(v)} (must be a whole number from 1 to 4294967295); ${fix}`);
   return x;

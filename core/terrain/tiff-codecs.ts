@@ -145,7 +145,8 @@ function decodeLerc(input: Uint8Array, ctx: BlockCodecContext): Uint8Array {
   if (width !== ctx.width || height !== ctx.height || dims !== ctx.samples || type !== lercType(ctx.sampleFormat, ctx.bitsPerSample)) {
     throw new Error(`LERC block is ${width} × ${height} × ${dims} of type ${type}, but the file declares ${ctx.width} × ${ctx.height} × ${ctx.samples} of type ${lercType(ctx.sampleFormat, ctx.bitsPerSample)}`);
   }
-  if (blobSize < 0 || blobSize > blob.length) throw new Error(`LERC blob declares ${blobSize} bytes but the block holds ${blob.length}`);
+  // GDAL writes one blob per block and refuses blocks whose bytes disagree with it: so do we.
+  if (blobSize !== blob.length) throw new Error(`LERC blob declares ${blobSize} bytes but the block holds ${blob.length}`);
   const own = blob.slice(0, blobSize).buffer;
   let decoded;
   try {

@@ -25,6 +25,8 @@ export interface GdalWrite {
 
 export interface GdalRead {
   ok: boolean;
+  /** GDAL opened the file but it has more cells than the oracle reads back (gdal_oracle.py MAX_CELLS). */
+  skipped?: boolean;
   error?: string;
   width: number;
   height: number;
@@ -116,7 +118,8 @@ export type Verdict =
   | 'we-refused' // GDAL reads it, we refuse with a TerrainInputError (allowed: a clear refusal)
   | 'we-read-gdal-refused' // reported and looked at: GDAL is stricter there
   | 'wrong' // both read but differ: a silent wrong decode
-  | 'crash'; // our reader threw something other than a TerrainInputError
+  | 'crash' // our reader threw something other than a TerrainInputError
+  | 'unchecked'; // we read it; GDAL opens it but it is too large for the oracle to read back
 
 export interface Judgement {
   verdict: Verdict;
@@ -140,6 +143,7 @@ export function judge(ours: OurOutcome, gdal: GdalRead): Judgement {
     if (!(e instanceof TerrainInputError) || e.message.length < 20) return { verdict: 'crash', detail: String(e instanceof Error ? e.stack : e).slice(0, 400) };
     return { verdict: gdal.ok ? 'we-refused' : 'both-refused', detail: e.message.slice(0, 200) };
   }
+  if (gdal.skipped) return { verdict: 'unchecked', detail: gdal.error ?? '' };
   if (!gdal.ok) return { verdict: 'we-read-gdal-refused', detail: gdal.error ?? '' };
   const g = ours.grid;
   if (g.width !== gdal.width || g.height !== gdal.height) return { verdict: 'wrong', detail: `size ${g.width} × ${g.height}, GDAL ${gdal.width} × ${gdal.height}` };
