@@ -106,6 +106,8 @@ function checkGeoKeyDirectory(image: GeoTIFFImage, source: string): void {
     return typeof v === 'string' ? v.length : numbers(v)?.length ?? 0;
   };
   const keys = dir[3] ?? 0;
+  const asciiKeys = Array.from({ length: keys }, (_, i) => dir[5 + 4 * i]).some((loc) => loc === 34737);
+  if (asciiKeys && typeof fd.getValue('GeoAsciiParams' as never) !== 'string') fail(source, 'has GeoKeys stored in GeoAsciiParams, but that tag is missing or not text; re-save the file with GDAL');
   if (dir.length < 4 || dir.length < 4 + 4 * keys) fail(source, `GeoKeyDirectory holds ${dir.length} values but declares ${keys} keys; re-save the file with GDAL`);
   for (let i = 0; i < keys; i++) {
     const [id, location, count, offset] = dir.slice(4 + 4 * i, 8 + 4 * i);

@@ -267,6 +267,9 @@ export async function readWindow(
   }
 }
 
+/** Layout tags that must hold unsigned integers (libtiff: "Incompatible type" otherwise). */
+const INTEGER_TAGS = new Set([256, 257, 258, 259, 273, 277, 278, 279, 284, 317, 322, 323, 324, 325, 339]);
+
 /** Bytes per value of the TIFF field types (TIFF 6.0 Section 2; BigTIFF adds 16–18). */
 const FIELD_TYPE_BYTES: Record<number, number> = { 1: 1, 2: 1, 3: 2, 4: 4, 5: 8, 6: 1, 7: 1, 8: 2, 9: 4, 10: 8, 11: 4, 12: 8, 13: 4, 16: 8, 17: 8, 18: 8 };
 
@@ -297,6 +300,9 @@ export function checkDirectory(file: Uint8Array, source: string): void {
     const size = FIELD_TYPE_BYTES[v.getUint16(p + 2, le)];
     if (size === undefined) continue; // unknown field types are skipped by readers (TIFF 6.0)
     const count = big ? Number(v.getBigUint64(p + 4, le)) : v.getUint32(p + 4, le);
+    if (INTEGER_TAGS.has(tagId) && ![1, 3, 4, 16].includes(v.getUint16(p + 2, le))) {
+      fail(source, `tag ${tagId} is stored as TIFF type ${v.getUint16(p + 2, le)}, but TIFF 6.0 requires an unsigned integer type there (GDAL refuses it too); re-save the file with GDAL`);
+    }
     const length = count * size;
     if (length <= inline) continue;
     const offset = big ? Number(v.getBigUint64(p + 12, le)) : v.getUint32(p + 8, le);

@@ -50,7 +50,7 @@ export function mutate(base: Uint8Array, rng: Rng): { bytes: Uint8Array; kind: s
   const kinds: string[] = [];
   const steps = rng.next() < 0.8 ? 1 : 2;
   for (let s = 0; s < steps; s++) {
-    let ed: TiffEditor | null = null;
+    let ed: TiffEditor | null;
     try { ed = new TiffEditor(bytes); } catch { ed = null; }
     const pick = rng.int(0, 9);
     const kind = ['bytes', 'directory-bytes', 'truncate', 'entry', 'block-table', 'data', 'predictor', 'retype', 'nodata', 'bytes'][pick];
