@@ -28,11 +28,27 @@ export interface FootprintFit {
   reachRows: number;
 }
 
+/**
+ * Most DEM cells the footprint disc's bounding box may span: 65 536 (a disc about 256 pixels across).
+ * The fit costs O(disc) a cell, so a lander hundreds of pixels wide means a DEM far finer than the hazard
+ * needs — or a wrong pixel size (a 1e-4 m pixel under a 4 m lander is 40 001 pixels across, 1.6e9 cells).
+ * Above the limit the fit is refused before anything is allocated.
+ */
+export const MAX_FOOTPRINT_CELLS = 65536;
+
 /** Cell offsets (columns, rows) of the footprint disc: cells whose centre is within the lander's radius. */
 export function footprintDisc(grid: ElevationGrid, diameter_m: number) {
   const radius = diameter_m / 2;
   const rc = Math.floor(radius / grid.pixelSizeX_m);
   const rr = Math.floor(radius / grid.pixelSizeY_m);
+  const box = (2 * rc + 1) * (2 * rr + 1);
+  if (!(box <= MAX_FOOTPRINT_CELLS)) {
+    throw new TerrainInputError(
+      `landerDiameter_m ${diameter_m} spans ${2 * rc + 1} × ${2 * rr + 1} DEM pixels of ${grid.pixelSizeX_m} × ${grid.pixelSizeY_m} m, ` +
+        `over the limit of ${MAX_FOOTPRINT_CELLS} cells for the footprint fit; check the DEM's pixel size (ModelPixelScale, or pixelSizeX_m / pixelSizeY_m of a JSON grid), ` +
+        `or resample it coarser, e.g. gdalwarp -tr ${(diameter_m / 64).toPrecision(2)} ${(diameter_m / 64).toPrecision(2)}`,
+    );
+  }
   const cols: number[] = [];
   const rows: number[] = [];
   for (let dr = -rr; dr <= rr; dr++) {

@@ -9,7 +9,7 @@ import { fromArrayBuffer } from 'geotiff';
 import type { GeoTIFFImage } from 'geotiff';
 import type { ElevationGrid, GridGeoreference, GridSpec } from './grid.ts';
 import { MAX_GRID_CELLS, TerrainInputError, checkDimensions, makeGrid, requireSomeData } from './grid.ts';
-import { registerBoundedLzw } from './lzw.ts';
+import { checkDirectory, noDataAsSample, readWindow, tiffLayout } from './tiff-blocks.ts';
 import { WGS84_SEMI_MAJOR_AXIS_M, geographicToLocal, localFrameScale, type GeographicFrame } from './georeference.ts';
 
 /** Options for readGeoTiff; every field is optional. */
@@ -34,13 +34,6 @@ const TAG_TIEPOINT = 'ModelTiepoint';
 const TAG_TRANSFORMATION = 'ModelTransformation';
 const DEG = Math.PI / 180;
 
-/**
- * TIFF Compression values read: none, LZW (our bounded decoder), Deflate (both codes), PackBits, LERC.
- * Refused: JPEG and WebP (lossy, 8-bit: not elevation), and ZSTD, whose decoder in the package has no
- * output bound on a corrupt frame (seeded fuzzing ran it out of memory).
- */
-const COMPRESSIONS: Record<number, string> = { 1: 'none', 5: 'LZW', 8: 'Deflate', 32946: 'Deflate', 32773: 'PackBits', 34887: 'LERC' };
-
 /** EPSG unit-of-measure codes for lengths → metres (EPSG 9001 metre, 9002 foot, 9003 US survey foot, 9036 kilometre). */
 const LINEAR_UNIT_M: Record<number, number> = { 9001: 1, 9002: 0.3048, 9003: 1200 / 3937, 9036: 1000 };
 
@@ -55,16 +48,34 @@ function fail(source: string, message: string): never {
   throw new TerrainInputError(`${source}: ${message}`);
 }
 
-/** GDAL_NODATA is ASCII: a number, or "nan" / "inf" spellings. */
+/**
+ * GDAL_NODATA is ASCII, read the way GDAL reads it (CPLAtofM, i.e. C strtod): up to the first NUL, leading
+ * white space skipped, "nan" / "inf" spellings, the longest number at the start, and 0 when there is none.
+ * An empty tag means no no-data value.
+ */
 export function parseNoData(text: unknown): number | null {
   if (typeof text !== 'string') return null;
-  const t = text.replace(/\0/g, '').trim().toLowerCase();
-  if (t === '') return null;
-  if (t === 'nan' || t === '-nan') return NaN;
-  if (t === 'inf' || t === '+inf') return Infinity;
-  if (t === '-inf') return -Infinity;
-  const v = Number(t);
-  return Number.isNaN(v) ? null : v;
+  const nul = text.indexOf('\0');
+  const raw = nul < 0 ? text : text.slice(0, nul);
+  if (raw === '') return null;
+  const t = raw.replace(/^[ \t\n\v\f\r]+/, '');
+  const special = /^([+-]?)(nan|inf(inity)?|1\.#(qnan|snan|ind|inf))/i.exec(t);
+  if (special) {
+    const word = special[2].toLowerCase();
+    if (word.includes('nan') || word.includes('ind')) return NaN;
+    return special[1] === '-' ? -Infinity : Infinity;
+  }
+  const m = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?/.exec(t);
+  return m ? Number(m[0]) : 0;
+}
+
+const FLOAT32_MAX = 3.4028234663852886e38;
+
+/** GDAL's no-data for float32 bands: values just past ±FLT_MAX snap to it, then rounded to float32. */
+function gdalNoData(noData: number | null, sampleFormat: number, bits: number): number | null {
+  if (noData === null || !(sampleFormat === 3 && bits === 32) || !Number.isFinite(noData)) return noData;
+  const snapped = Math.abs(noData) > FLOAT32_MAX && Math.abs(noData) < FLOAT32_MAX * (1 + 1e-10) ? Math.sign(noData) * FLOAT32_MAX : noData;
+  return Math.fround(snapped);
 }
 
 async function tag(image: GeoTIFFImage, name: string): Promise<unknown> {
@@ -78,6 +89,34 @@ function numbers(v: unknown): number[] | undefined {
   if (typeof v === 'number') return [v];
   if (Array.isArray(v) || ArrayBuffer.isView(v)) return Array.from(v as ArrayLike<number>, Number);
   return undefined;
+}
+
+/**
+ * The GeoKeyDirectory's own consistency (OGC GeoTIFF 1.1, 7.1.3), as libgeotiff checks it when GDAL opens
+ * a file: a key stored in the directory has one value; a key pointing into GeoDoubleParams or
+ * GeoAsciiParams stays inside them. GDAL refuses a file that breaks this; so do we.
+ */
+function checkGeoKeyDirectory(image: GeoTIFFImage, source: string): void {
+  const fd = image.getFileDirectory();
+  if (!fd.hasTag('GeoKeyDirectory' as never)) return;
+  const dir = numbers(fd.getValue('GeoKeyDirectory' as never)) ?? [];
+  const lengthOf = (tag: string) => {
+    if (!fd.hasTag(tag as never)) return 0;
+    const v = fd.getValue(tag as never) as unknown;
+    return typeof v === 'string' ? v.length : numbers(v)?.length ?? 0;
+  };
+  const keys = dir[3] ?? 0;
+  const asciiKeys = Array.from({ length: keys }, (_, i) => dir[5 + 4 * i]).some((loc) => loc === 34737);
+  if (asciiKeys && typeof fd.getValue('GeoAsciiParams' as never) !== 'string') fail(source, 'has GeoKeys stored in GeoAsciiParams, but that tag is missing or not text; re-save the file with GDAL');
+  if (dir.length < 4 || dir.length < 4 + 4 * keys) fail(source, `GeoKeyDirectory holds ${dir.length} values but declares ${keys} keys; re-save the file with GDAL`);
+  for (let i = 0; i < keys; i++) {
+    const [id, location, count, offset] = dir.slice(4 + 4 * i, 8 + 4 * i);
+    const bad = location === 0 ? count !== 1
+      : location === 34736 ? offset + count > lengthOf('GeoDoubleParams')
+        : location === 34737 ? offset + count > lengthOf('GeoAsciiParams')
+          : false;
+    if (bad) fail(source, `GeoKey ${id} (stored in tag ${location}, count ${count}, offset ${offset}) is inconsistent with its parameter tag; re-save the file with GDAL`);
+  }
 }
 
 interface Affine {
@@ -113,17 +152,15 @@ async function readAffine(image: GeoTIFFImage, source: string, pixelIsPoint: boo
   return a;
 }
 
-function isNoDataFactory(noData: number | null, sampleFormat: number, bits: number): (v: number) => boolean {
-  if (noData === null) return (v) => !Number.isFinite(v);
-  if (Number.isNaN(noData)) return (v) => Number.isNaN(v);
-  const target = sampleFormat === 3 && bits === 32 ? Math.fround(noData) : noData;
-  return (v) => v === target || Number.isNaN(v);
+/** No-data cells: the sample equals the no-data value, or is NaN (never a height, whatever the tag says). */
+function isNoDataFactory(noData: number | null): (v: number) => boolean {
+  if (noData === null || Number.isNaN(noData)) return (v) => Number.isNaN(v);
+  return (v) => v === noData || Number.isNaN(v);
 }
 
 /** Reads band 1 of a single-band GeoTIFF into an ElevationGrid. Errors are TerrainInputError. */
 export async function readGeoTiff(bytes: Uint8Array | ArrayBuffer, options: GeoTiffReadOptions = {}): Promise<ElevationGrid> {
   const source = options.sourceName ?? 'GeoTIFF';
-  registerBoundedLzw();
   // geotiff wants a whole ArrayBuffer: use the view's own buffer when it spans all of it, else copy
   // (a small Node Buffer may be a view into a larger shared pool).
   const whole = bytes instanceof Uint8Array && bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength && bytes.buffer instanceof ArrayBuffer;
@@ -134,7 +171,7 @@ export async function readGeoTiff(bytes: Uint8Array | ArrayBuffer, options: GeoT
   const be = head[0] === 0x4d && head[1] === 0x4d;
   if (!le && !be) fail(source, 'not a TIFF file (no II/MM byte-order mark); give a GeoTIFF, a 16-bit PNG or a JSON grid');
   try {
-    return await readImage(buf, source, options);
+    return await readImage(bytes instanceof Uint8Array ? bytes : new Uint8Array(bytes), buf, source, options);
   } catch (err) {
     if (err instanceof TerrainInputError) throw err;
     const why = err instanceof Error ? err.message : String(err);
@@ -142,25 +179,13 @@ export async function readGeoTiff(bytes: Uint8Array | ArrayBuffer, options: GeoT
   }
 }
 
-async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadOptions): Promise<ElevationGrid> {
+async function readImage(bytes: Uint8Array, buf: ArrayBuffer, source: string, options: GeoTiffReadOptions): Promise<ElevationGrid> {
+  checkDirectory(bytes, source);
   const tiff = await fromArrayBuffer(buf);
   const image = await tiff.getImage(0);
-  const fullW = image.getWidth();
-  const fullH = image.getHeight();
-  if (!Number.isInteger(fullW) || !Number.isInteger(fullH) || fullW < 1 || fullH < 1) {
-    fail(source, `invalid image size ${fullW} × ${fullH}`);
-  }
-  const bands = image.getSamplesPerPixel();
-  if (bands !== 1) fail(source, `has ${bands} bands; an elevation model must have exactly 1 (extract one with gdal_translate -b 1)`);
-  const sampleFormat = image.getSampleFormat(0) ?? 1;
-  const bits = image.getBitsPerSample(0);
-  if (![8, 16, 32, 64].includes(bits) || ![1, 2, 3].includes(sampleFormat) || (sampleFormat === 3 && bits < 32)) {
-    fail(source, `unsupported sample type (SampleFormat ${sampleFormat}, ${bits} bits); use 8/16/32-bit integers or 32/64-bit floats`);
-  }
-  const compression = Number(image.getFileDirectory().getValue('Compression' as never) ?? 1);
-  if (!(compression in COMPRESSIONS)) {
-    fail(source, `uses TIFF compression ${compression}, which this reader does not decode (it reads none, LZW, Deflate, PackBits and LERC); re-save it, e.g. gdal_translate -co COMPRESS=DEFLATE`);
-  }
+  const layout = tiffLayout(image, source);
+  const { width: fullW, height: fullH } = layout;
+  if (layout.samplesPerPixel !== 1) fail(source, `has ${layout.samplesPerPixel} bands; an elevation model must have exactly 1 (extract one with gdal_translate -b 1)`);
   const [c0, r0, c1, r1] = options.window ?? [0, 0, fullW, fullH];
   if (![c0, r0, c1, r1].every(Number.isInteger) || c0 < 0 || r0 < 0 || c1 > fullW || r1 > fullH || c1 <= c0 || r1 <= r0) {
     fail(source, `invalid window [${c0}, ${r0}, ${c1}, ${r1}] for a ${fullW} × ${fullH} image (need 0 ≤ col0 < col1 ≤ width, 0 ≤ row0 < row1 ≤ height)`);
@@ -171,6 +196,7 @@ async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadO
     fail(source, `is ${w} × ${h} = ${w * h} cells, over the limit of ${MAX_GRID_CELLS} (4096 × 4096); pass a window of at most that many cells`);
   }
   checkDimensions(w, h, `${source} window`);
+  checkGeoKeyDirectory(image, source);
   const geoKeys = image.getGeoKeys() ?? {};
   const pixelIsPoint = geoKeys.GTRasterTypeGeoKey === 2;
   const affine = await readAffine(image, source, pixelIsPoint);
@@ -178,24 +204,31 @@ async function readImage(buf: ArrayBuffer, source: string, options: GeoTiffReadO
     fail(source, 'has no georeferencing (ModelPixelScale/ModelTiepoint or ModelTransformation), so the pixel size is unknown; add it (gdal_translate -a_ullr … -a_srs …) or use a PNG heightmap with an explicit pixel size');
   }
   const modelType = Number(geoKeys.GTModelTypeGeoKey ?? 0);
-  const noData = parseNoData(await tag(image, 'GDAL_NODATA'));
-  const isNoData = isNoDataFactory(noData, sampleFormat, bits);
+  const { sampleFormat, bitsPerSample: bits } = layout;
+  const noData = gdalNoData(parseNoData(await tag(image, 'GDAL_NODATA')), sampleFormat, bits);
+  const isNoData = isNoDataFactory(noData);
   const verticalScale = options.verticalScale ?? unitToMetres(source, 'VerticalUnitsGeoKey', geoKeys.VerticalUnitsGeoKey);
   if (!Number.isFinite(verticalScale) || verticalScale === 0) {
     fail(source, `invalid verticalScale: ${verticalScale} (must be a finite non-zero number of metres per unit)`);
   }
 
-  const rasters = await image.readRasters({ window: [c0, r0, c1, r1], samples: [0], interleave: true });
-  if (rasters.length !== w * h) fail(source, `decoded ${rasters.length} samples, expected ${w * h}`);
-  // Float32 samples at scale 1 are taken over in place; other types are converted.
-  const heights = rasters instanceof Float32Array && verticalScale === 1 ? rasters : new Float32Array(w * h);
+  const heights = new Float32Array(w * h);
   const mask = new Uint8Array(w * h);
-  for (let k = 0; k < heights.length; k++) {
-    const v = Number(rasters[k]);
+  let outOfRange = -1;
+  let outValue = 0;
+  await readWindow(image, bytes, layout, [c0, r0, c1, r1], 0, noDataAsSample(noData, layout), (k, v) => {
     if (isNoData(v)) {
       mask[k] = 1;
       heights[k] = NaN;
-    } else heights[k] = v * verticalScale;
+    } else {
+      heights[k] = v * verticalScale;
+      // A sample float32 heights cannot hold (±Infinity, or past ±3.4e38 m) is no height: refuse, never
+      // turn it silently into no-data (GDAL reads it as a value).
+      if (!Number.isFinite(heights[k]) && outOfRange < 0) { outOfRange = k; outValue = v; }
+    }
+  }, source);
+  if (outOfRange >= 0) {
+    fail(source, `sample ${outValue} at column ${c0 + (outOfRange % w)}, row ${r0 + Math.floor(outOfRange / w)} is not a height (beyond ±3.4e38 m); the file is corrupt, or its voids need a no-data value (gdal_edit.py -a_nodata)`);
   }
 
   let spec: GridSpec;

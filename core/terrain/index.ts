@@ -15,4 +15,5 @@ export * from './resample.ts';
 export * from './mesh.ts';
 export * from './demo-terrain.ts';
 export * from './lzw.ts';
+export { MAX_BLOCK_BYTES, MAX_DECODED_BYTES } from './tiff-blocks.ts';
 export * from './groundFrame.ts';

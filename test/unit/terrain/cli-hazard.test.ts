@@ -3,7 +3,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync, existsSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../core/cli/main.ts';
-import { gridFromFunction, readGeoTiff, writeJsonGrid } from '../../../core/terrain/index.ts';
+import { gridFromFunction, readGeoTiff, writeGeoTiff, writeJsonGrid } from '../../../core/terrain/index.ts';
 import { encodeGreyPng } from './png-encode.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'landreach-hazard-'));
@@ -65,5 +65,15 @@ describe('landreach hazard', () => {
     const summary = JSON.parse(readFileSync(join(dir, 'p', 'hazard-summary.json'), 'utf8'));
     expect(summary.input.format).toBe('png-heightmap');
     expect(summary.results.safeCells).toBe(16 * 16); // flat: all but the 2-cell unknown ring
+  });
+
+  it('a GeoTIFF with a 1e-4 m pixel size is refused with a clear message (exit 2), not run out of memory', async () => {
+    const tif = join(dir, 'tiny-pixels.tif');
+    writeFileSync(tif, writeGeoTiff({ width: 64, height: 64, data: new Float32Array(64 * 64).fill(50), georeference: { geoTransform: [0, 1e-4, 0, 0, 0, -1e-4], projectedEpsg: 32633 } }));
+    const x = io();
+    const code = await main(['hazard', tif, '--out', join(dir, 'tiny')], x.io);
+    expect(code).toBe(2);
+    expect(x.out.stderr).toMatch(/landerDiameter_m 4 spans 40001 × 40001 DEM pixels of 0.0001 × 0.0001 m, over the limit of 65536 cells/);
+    expect(existsSync(join(dir, 'tiny', 'hazard.tif'))).toBe(false);
   });
 });

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  HAZARD_MARGIN, HAZARD_ROUGHNESS, HAZARD_SLOPE, HAZARD_UNKNOWN, TerrainInputError, gridFromFunction, hazardMap, resolveLimits,
+  HAZARD_MARGIN, HAZARD_ROUGHNESS, HAZARD_SLOPE, HAZARD_UNKNOWN, MAX_FOOTPRINT_CELLS, TerrainInputError, gridFromFunction, hazardMap, readJsonGrid, resolveLimits,
 } from '../../../core/terrain/index.ts';
 
 const DEG = Math.PI / 180;
@@ -42,6 +42,25 @@ describe('hazard map', () => {
     const m = hazardMap(g, { landerDiameter_m: 4 });
     expect(m.roughnessAssessed).toBe(false);
     expect(m.flags[10 * 20 + 10]).toBe(0);
+  });
+
+  it('refuses a footprint fit hundreds of pixels wide (tiny or wrong pixel size) before allocating it', () => {
+    // A 4 m lander on 1e-4 m pixels is 2·⌊2 / 1e-4⌋ + 1 = 40 001 pixels across (1.6e9 disc cells); on 1e-9 m
+    // pixels about 4e9 (⌊2 / 1e-9⌋ is 1 999 999 999 in binary floating point).
+    for (const pixel of [1e-4, 1e-9]) {
+      const across = 2 * Math.floor(2 / pixel) + 1;
+      const json = JSON.stringify({ format: 'landreach-elevation-grid', version: 1, width: 64, height: 64, pixelSizeX_m: pixel, pixelSizeY_m: pixel, heights_m: new Array(64 * 64).fill(100) });
+      const grid = readJsonGrid(json);
+      expect(() => hazardMap(grid, { landerDiameter_m: 4 })).toThrow(TerrainInputError);
+      expect(() => hazardMap(grid, { landerDiameter_m: 4 })).toThrow(
+        new RegExp(`landerDiameter_m 4 spans ${across} × ${across} DEM pixels of ${pixel} × ${pixel} m, over the limit of ${MAX_FOOTPRINT_CELLS} cells.*gdalwarp -tr`),
+      );
+    }
+    // Just inside the limit (255 × 255 ≤ 65 536): computed, with the 127-cell rim unknown.
+    const fine = gridFromFunction({ width: 300, height: 300, pixelSizeX_m: 4 / 254, pixelSizeY_m: 4 / 254 }, () => 5);
+    const map = hazardMap(fine, { landerDiameter_m: 4 });
+    expect(map.flags[150 * 300 + 150]).toBe(0);
+    expect(map.flags[0]).toBe(HAZARD_UNKNOWN);
   });
 
   it('rejects bad limits with the field, the value and the range', () => {
