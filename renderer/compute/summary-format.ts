@@ -47,6 +47,7 @@ export function trajectoryFigureList(t: PickedTrajectory, budget_kg: number): Fi
       { label: 'Status', value: 'relaxation gap', note: 'the convex relaxation is not lossless here: optimality not certified' },
       { label: 'Propellant', value: Number.isFinite(t.propellant_kg) ? `${fixed(t.propellant_kg, 2)} kg` : 'no flyable trajectory found', note: `certified lower bound ${fixed(t.propellantLowerBound_kg, 2)} kg` },
       { label: 'Time of flight t_f', value: `${fixed(t.timeOfFlight_s, 2)} s`, note: `N = ${t.nodes}` },
+      ...warningFigure(t),
     ];
   }
   return [
@@ -54,7 +55,14 @@ export function trajectoryFigureList(t: PickedTrajectory, budget_kg: number): Fi
     { label: 'Propellant', value: `${fixed(t.propellant_kg, 2)} kg`, note: t.propellant_kg <= budget_kg ? `within the ${fixed(budget_kg, 1)} kg budget` : `ABOVE the ${fixed(budget_kg, 1)} kg budget` },
     { label: 'Time of flight t_f', value: `${fixed(t.timeOfFlight_s, 2)} s`, note: `N = ${t.nodes}` },
     ...baselineFigure(t),
+    ...warningFigure(t),
   ];
+}
+
+/** The search's and the re-simulation's warnings (e.g. a constraint missed between nodes), never hidden. */
+function warningFigure(t: PickedTrajectory): Figure[] {
+  if (t.warnings.length === 0) return [];
+  return [{ label: t.warnings.length === 1 ? 'Warning' : `Warnings (${t.warnings.length})`, value: t.warnings[0], note: t.warnings.slice(1).join('; ') || undefined }];
 }
 
 /** The polynomial-guidance baseline to the same target: what optimal guidance saves over it. */

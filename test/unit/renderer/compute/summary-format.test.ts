@@ -94,3 +94,12 @@ describe('relaxation-gap targets are shown apart', () => {
     expect(footprintFigureList({ ...base, relaxationGap: 0 }).find((f) => f.label === 'Relaxation gap')).toBeUndefined();
   });
 });
+
+describe('a picked trajectory shows its warnings', () => {
+  it('a between-nodes miss reaches the figure list', () => {
+    const pick: PickedTrajectory = { status: 'solved', target_m: [0, 0, 0], propellant_kg: 200, propellantLowerBound_kg: 200, timeOfFlight_s: 30, miss_m: 0, nodes: 50, series: null, warnings: ['re-simulation: minimum thrust missed by 1.20 % of full thrust between nodes (tolerance 0.10 % of full thrust)'], baseline: null };
+    const list = trajectoryFigureList(pick, 480);
+    expect(list.find((f) => f.label === 'Warning')?.value).toMatch(/minimum thrust missed/);
+    expect(trajectoryFigureList({ ...pick, warnings: [] }, 480).some((f) => f.label.startsWith('Warning'))).toBe(false);
+  });
+});
