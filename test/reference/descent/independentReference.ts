@@ -56,6 +56,8 @@ export interface ReferenceMargins {
 export interface ReferenceResult {
   id: string;
   status: 'optimal' | 'infeasible' | string;
+  /** conelp's stopping tolerance for this solve (1e-9, or 1e-8 / 1e-7 on a retry after a domain error). */
+  tolerance?: number;
   timeOfFlight_s?: number;
   propellant_kg?: number;
   miss_m?: number;
@@ -63,6 +65,8 @@ export interface ReferenceResult {
   throttle?: number[];
   altitude_m?: number[];
   solves: number;
+  /** Search only: times at which conelp gave neither an answer nor an infeasibility certificate. */
+  failures?: number;
   atGridEdge?: boolean;
   evaluations?: [number, number | null][];
   error?: string;
@@ -104,4 +108,27 @@ export function toSetup(s: PhysicalScenario): DescentSetup {
 
 export function toIgnition(s: PhysicalScenario): IgnitionState {
   return { position: s.ignition.position_m, velocity: s.ignition.velocity_mps, mass: s.ignition.mass_kg };
+}
+
+/** The physical description of one of our setups (for scenarios first written as a DescentSetup). */
+export function fromSetup(id: string, setup: DescentSetup, ignition: IgnitionState, target: Vec3): PhysicalScenario {
+  const v = setup.vehicle;
+  const c = setup.constraints;
+  return {
+    id,
+    planet: { gravity: setup.planet.gravity, rotationRate: setup.planet.rotationRate },
+    vehicle: {
+      wetMass_kg: v.wetMass, dryMass_kg: v.dryMass, isp_s: v.isp, engineCount: v.engineCount, thrustPerEngine_N: v.thrustPerEngine,
+      cantAngle_deg: v.cantAngle / DEG, throttleMin: v.throttleMin, throttleMax: v.throttleMax,
+      pointingLimit_deg: v.pointingLimit >= Math.PI ? null : v.pointingLimit / DEG,
+    },
+    constraints: {
+      glideSlope_deg: c.glideSlope === null ? null : c.glideSlope / DEG, maxSpeed_mps: c.maxSpeed,
+      gateHeight_m: c.gateHeight, gateDescentRate_mps: c.gateDescentRate, minAltitude_m: c.minAltitude,
+    },
+    ignition: { position_m: ignition.position, velocity_mps: ignition.velocity, mass_kg: ignition.mass },
+    target_m: target,
+    nodes: setup.nodes,
+    hold: setup.hold,
+  };
 }

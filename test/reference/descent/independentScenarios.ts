@@ -103,13 +103,13 @@ export const INDEPENDENT_CASES: IndependentCase[] = [
   {
     description: 'spinning body, gate, glide slope and pointing limit (free t_f, FOH)',
     scenario: s5,
-    mode: { kind: 'free', lower_s: 35, upper_s: 75, grid: 9, tol_s: 0.02 },
+    mode: { kind: 'free', lower_s: 45, upper_s: 65, grid: 5, tol_s: 0.02 },
     active: ['rotation', 'gate', 'upperThrust'],
   },
   {
     description: 'pointing limit at the free-t_f optimum (free t_f, ZOH)',
     scenario: { ...s2, id: 'pointing-zoh-free' },
-    mode: { kind: 'free', lower_s: 40, upper_s: 80, grid: 9, tol_s: 0.02 },
+    mode: { kind: 'free', lower_s: 50, upper_s: 70, grid: 5, tol_s: 0.02 },
     active: ['pointing', 'lowerThrust'],
   },
   {

@@ -59,8 +59,9 @@ Job (JSON):  {"id", "planet": {"gravity": [3], "rotationRate": [3]},
               "problem": "min-propellant" | "min-landing-error",
               "timeOfFlight_s": t  (fixed)  or  "search": {"lower_s", "upper_s", "grid", "tol_s"},
               "relax": ["upperThrust" | "lowerThrust" | "pointing" | "glideSlope" | "speed" | "altitude"]}
-Result: {"id", "status": "optimal" | "infeasible" | ..., "timeOfFlight_s", "propellant_kg",
-         "miss_m", "margins": {...}, "solves", "evaluations": [[t, propellant or null], ...]}
+Result: {"id", "status": "optimal" | "infeasible" | ..., "tolerance", "timeOfFlight_s", "propellant_kg",
+         "miss_m", "margins": {...}, "solves", and for a search "failures" (times with neither an answer
+         nor a certificate), "atGridEdge", "evaluations": [[t, propellant or null], ...]}
 """
 import json
 import math
@@ -71,7 +72,12 @@ from cvxopt import matrix, solvers
 
 G0 = 9.80665
 GL_NODES, GL_WEIGHTS = np.polynomial.legendre.leggauss(12)
-CONELP_OPTIONS = {"show_progress": False, "abstol": 1e-9, "reltol": 1e-9, "feastol": 1e-9, "maxiters": 200}
+CONELP_OPTIONS = {"show_progress": False, "maxiters": 200}
+# conelp's stopping tolerances (abstol, reltol, feastol), tightest first. CVXOPT's own defaults are
+# 1e-7/1e-6/1e-7; conelp occasionally stops with "domain error" at the tightest setting on well-posed
+# minimum-landing-error problems with a glide slope, so it is retried once at 1e-8 (the result says
+# which tolerance was used).
+TOLERANCES = (1e-9, 1e-8, 1e-7)
 
 
 def cross_matrix(w):
@@ -174,7 +180,14 @@ class Program:
         b = matrix(np.array([[-c] for _, c in self.eq], dtype=float))
         for key, value in CONELP_OPTIONS.items():
             solvers.options[key] = value
-        return solvers.conelp(matrix(np.asarray(cost, dtype=float)), G, h, dims, A=A, b=b)
+        for i, tol in enumerate(TOLERANCES):
+            solvers.options.update({"abstol": tol, "reltol": tol, "feastol": tol})
+            try:
+                sol = solvers.conelp(matrix(np.asarray(cost, dtype=float)), G, h, dims, A=A, b=b)
+                return sol, tol
+            except ValueError:
+                if i + 1 == len(TOLERANCES):
+                    raise
 
 
 def build_and_solve(job, tf):
@@ -306,9 +319,9 @@ def build_and_solve(job, tf):
     else:
         cost = -Zc[N - 1]
 
-    sol = P.solve(cost)
+    sol, tol = P.solve(cost)
     status = sol["status"]
-    out = {"status": {"optimal": "optimal", "primal infeasible": "infeasible"}.get(status, status), "timeOfFlight_s": tf}
+    out = {"status": {"optimal": "optimal", "primal infeasible": "infeasible"}.get(status, status), "timeOfFlight_s": tf, "tolerance": tol}
     if status != "optimal":
         return out
     eta = np.array(sol["x"]).ravel()
@@ -363,15 +376,20 @@ def search(job):
     evals = []
 
     def f(t):
-        res = build_and_solve(job, t)
+        try:
+            res = build_and_solve(job, t)
+        except ValueError as exc:  # conelp gave up at every tolerance: no answer at this time
+            res = {"status": "error", "timeOfFlight_s": t, "error": repr(exc)}
         evals.append((t, res))
         return cost(job, res)
 
     grid = [lo + (hi - lo) * i / (n - 1) for i in range(n)]
     values = [f(t) for t in grid]
     best = min(range(n), key=lambda i: values[i])
+    failures = sum(1 for _, res in evals if res["status"] not in ("optimal", "infeasible"))
     if not math.isfinite(values[best]):
-        return {"status": "infeasible", "solves": len(evals), "evaluations": [[t, None] for t, _ in evals]}
+        # Infeasible at every grid time (a certificate each, unless counted in "failures").
+        return {"status": "infeasible", "solves": len(evals), "failures": failures, "evaluations": [[t, None] for t, _ in evals]}
     a = grid[max(best - 1, 0)]
     b = grid[min(best + 1, n - 1)]
     invphi = (math.sqrt(5) - 1) / 2
@@ -391,6 +409,7 @@ def search(job):
     _, t_best, res = min(feasible, key=lambda e: (e[0], e[1]))
     out = dict(res)
     out["solves"] = len(evals)
+    out["failures"] = sum(1 for _, r in evals if r["status"] not in ("optimal", "infeasible"))
     out["atGridEdge"] = best in (0, n - 1)
     out["evaluations"] = [[t, r.get("propellant_kg") if r["status"] == "optimal" else None] for t, r in evals]
     return out
