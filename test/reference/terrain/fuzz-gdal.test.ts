@@ -12,7 +12,7 @@ import { gdal, gdalAvailable, tempDir, writeAsciiGrid } from './gdal.ts';
 const tmp = tempDir();
 afterAll(() => tmp.cleanup());
 
-describe.skipIf(!gdalAvailable())('GeoTIFF reader fuzzing on GDAL-written compressed files', () => {
+describe.runIf(gdalAvailable())('GeoTIFF reader fuzzing on GDAL-written compressed files', () => {
   const variants: [string, string[]][] = [
     ['deflate', ['-ot', 'Float32', '-co', 'COMPRESS=DEFLATE', '-co', 'PREDICTOR=3', '-co', 'TILED=YES', '-co', 'BLOCKXSIZE=16', '-co', 'BLOCKYSIZE=16']],
     ['lzw', ['-ot', 'Int16', '-co', 'COMPRESS=LZW', '-co', 'PREDICTOR=2']],
