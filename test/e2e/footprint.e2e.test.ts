@@ -66,18 +66,38 @@ describe.runIf(browser)('footprint in Chromium (demo study, small grids)', () =>
     await page.getByTestId('status-ok').waitFor();
     await page.getByTestId('grid-side').fill('7');
     await page.getByTestId('grid-half-width').fill('500');
+    // The scene stays live during the run: a view change draws a new frame while the run is going. To know
+    // the run is going without racing it, the test holds it: this first run creates the footprint workers,
+    // and until their script is delivered (held here, released below) no target can finish, however fast
+    // or slow the machine. Messages posted to a worker wait for its script, so nothing is lost.
+    let release!: () => void;
+    const held = new Promise<void>((resolve) => (release = resolve));
+    let workerRequested!: () => void;
+    const requested = new Promise<void>((resolve) => (workerRequested = resolve));
+    const workerScript = /\/footprint\.worker-[^/]*\.js$/;
+    const delivered: Promise<void>[] = [];
+    await page.route(workerScript, (route) => {
+      workerRequested();
+      const delivery = held.then(() => route.continue());
+      delivered.push(delivery);
+      return delivery;
+    });
     await page.getByTestId('compute').click();
+    await requested;
     await page.getByTestId('run-progress').waitFor();
-    // The scene stays live during the run: a view change draws new frames before the run ends.
     const framesAtStart = await page.evaluate(() => (document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { framesDrawn: number } }).landreachScene.framesDrawn);
     await page.getByTestId('view-top').click();
-    // The new frame comes on the next animation frame; the run is still going when it has been drawn.
     await page.waitForFunction(
       (start) => (document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { framesDrawn: number } }).landreachScene.framesDrawn > start,
       framesAtStart,
-      { timeout: 5000 },
     );
-    expect(await page.getByTestId('run-progress').textContent()).not.toMatch(/49 \/ 49 targets in/);
+    // Drawn while the run is going, with no target finished: the workers have not even started.
+    const bar = page.getByTestId('run-progress').getByRole('progressbar');
+    expect(await bar.getAttribute('aria-valuetext')).toMatch(/^0 \/ 49 targets/);
+    expect(await page.getByTestId('run-cancel').count()).toBe(1);
+    release();
+    await Promise.all(delivered);
+    await page.unroute(workerScript);
     await page.waitForFunction(() => /49 \/ 49 targets in/.test(document.querySelector('[data-testid="run-progress"]')?.textContent ?? ''), null, { timeout: 60_000 });
     await page.waitForTimeout(300);
     const summary = (await page.getByTestId('footprint-summary').textContent()) ?? '';
