@@ -3,7 +3,9 @@ import * as fs from 'node:fs/promises';
 import { execFileSync } from 'node:child_process';
 import { openSession, screenshot, type Session } from './browser.ts';
 import { REFERENCE_PYTHON, referenceToolsReady } from '../support/reference-tools.ts';
-import { PRODUCTION_CSP } from '../../renderer/csp.ts';
+import { createServer, type Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { EXPECTED_PRODUCTION_CSP } from '../support/expected-csp.ts';
 import { CAUTION_LINE, CAUTION_TEXT } from '../../renderer/caution.ts';
 import { pngSize, readPngText } from '../../renderer/export/png-metadata.ts';
 
@@ -26,12 +28,59 @@ describe.runIf(browser)('workspace in Chromium', () => {
     const { page } = session;
     await page.getByTestId('status-ok').waitFor();
     expect(await page.title()).toMatch(/Landreach/);
-    const csp = await page.locator('meta[http-equiv="Content-Security-Policy"]').getAttribute('content');
-    expect(csp).toBe(PRODUCTION_CSP);
+    // The built page carries the one expected policy, exactly (test/support/expected-csp.ts), once.
+    const metas = await page.locator('meta[http-equiv="Content-Security-Policy"]').evaluateAll((m) => m.map((e) => e.getAttribute('content')));
+    expect(metas).toEqual([EXPECTED_PRODUCTION_CSP]);
     for (const group of ['planet', 'vehicle', 'ignition', 'constraints', 'reserve', 'discretisation']) {
       expect(await page.locator(`details[data-group="${group}"]`).count(), group).toBe(1);
     }
     expect(session.problems).toEqual([]);
+  });
+
+  it('blocks a script from another origin (CSP script-src \'self\'), which runs where no policy forbids it', async () => {
+    // A second local server on another port serves a script that sets a global. Injected into the app's
+    // page it must be refused before it is even fetched: a securitypolicyviolation event names it, the
+    // global stays unset, the server sees no request. The same script injected into a page without a
+    // policy (served by that second server) runs: the block is the policy's doing.
+    let scriptRequests = 0;
+    const server: Server = createServer((req, res) => {
+      if (req.url === '/x.js') {
+        scriptRequests++;
+        res.writeHead(200, { 'content-type': 'text/javascript' });
+        res.end('window.__landreachOtherOrigin = "ran";');
+      } else {
+        res.writeHead(200, { 'content-type': 'text/html' });
+        res.end('<!doctype html><title>no policy</title>');
+      }
+    });
+    await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+    const script = `http://127.0.0.1:${(server.address() as AddressInfo).port}/x.js`;
+    const addScript = (src: string) =>
+      new Promise<{ outcome: string; directive?: string; blocked?: string }>((resolve) => {
+        document.addEventListener('securitypolicyviolation', (e) => resolve({ outcome: 'violation', directive: e.effectiveDirective, blocked: e.blockedURI }), { once: true });
+        const element = document.createElement('script');
+        element.src = src;
+        element.onload = () => resolve({ outcome: 'loaded' });
+        document.head.append(element);
+      });
+    const app = await session.context.newPage();
+    const plain = await session.context.newPage();
+    try {
+      await app.goto(inject('baseUrl'));
+      await app.getByTestId('status-ok').waitFor();
+      expect(await app.evaluate(addScript, script)).toEqual({ outcome: 'violation', directive: 'script-src-elem', blocked: script });
+      expect(await app.evaluate(() => (window as unknown as { __landreachOtherOrigin?: string }).__landreachOtherOrigin)).toBeUndefined();
+      expect(scriptRequests).toBe(0);
+      await plain.goto(script.replace('/x.js', '/'));
+      expect(await plain.evaluate(addScript, script)).toEqual({ outcome: 'loaded' });
+      expect(await plain.evaluate(() => (window as unknown as { __landreachOtherOrigin?: string }).__landreachOtherOrigin)).toBe('ran');
+      expect(scriptRequests).toBe(1);
+    } finally {
+      await Promise.all([app.close(), plain.close()]);
+      // Chromium keeps its connection alive: end it, or close() would wait for it.
+      server.closeAllConnections();
+      await new Promise((resolve) => server.close(resolve));
+    }
   });
 
   it('shows the caution in the about box', async () => {
