@@ -1,8 +1,9 @@
 import { defineConfig } from 'vitest/config';
 
 // One config, several projects: `unit` (pure core, fast), `reference` (checks against outside
-// references such as CVXOPT and GDAL; needs the Debian packages that .ci/run installs), `e2e`
-// (builds the renderer, serves it with vite preview, drives Debian chromium with playwright-core).
+// references such as CVXOPT and GDAL: Debian packages that `npm test` installs or names first, see
+// bin/ensure-test-tools.mjs), `e2e` (builds the renderer, serves it with vite preview, drives Debian
+// chromium with playwright-core). A missing reference tool fails a CI=true run (test/support/reference-tools.ts).
 export default defineConfig({
   test: {
     projects: [

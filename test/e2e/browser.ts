@@ -3,6 +3,7 @@ import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import * as fs from 'node:fs/promises';
 import * as os from 'node:os';
 import * as path from 'node:path';
+import { REFERENCE_CHROMIUM } from '../support/reference-tools.ts';
 
 export const ARTIFACTS = path.resolve(import.meta.dirname, '../../test-artifacts');
 
@@ -17,7 +18,7 @@ export interface Session {
 export async function openSession(url: string): Promise<Session> {
   const profile = await fs.mkdtemp(path.join(os.tmpdir(), 'landreach-chromium-'));
   const context = await chromium.launchPersistentContext(profile, {
-    executablePath: process.env.LANDREACH_CHROMIUM ?? '/usr/bin/chromium',
+    executablePath: REFERENCE_CHROMIUM,
     headless: true,
     args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
     viewport: { width: 1400, height: 860 },

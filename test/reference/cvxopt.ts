@@ -6,9 +6,10 @@ import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import type { ConicProblem } from '../../core/conic/types.ts';
 import type { CscMatrix } from '../../core/linalg/csc.ts';
+import { REFERENCE_PYTHON, referenceToolsReady } from '../support/reference-tools.ts';
 
 const SCRIPT = fileURLToPath(new URL('./py/cvxopt_conelp.py', import.meta.url));
-const PYTHON = '/usr/bin/python3';
+const PYTHON = REFERENCE_PYTHON;
 
 export interface CvxoptResult {
   status: 'optimal' | 'primal infeasible' | 'dual infeasible' | 'unknown' | 'error';
@@ -52,10 +53,13 @@ export function problemToJson(p: ConicProblem, options: Record<string, number | 
   };
 }
 
-/** True when /usr/bin/python3 can import cvxopt. */
+/**
+ * True when the reference Python (LANDREACH_PYTHON, default /usr/bin/python3) imports CVXOPT.
+ * When it cannot: false with a visible warning on a developer machine, an error under CI=true
+ * (test/support/reference-tools.ts). Use as `describe.runIf(cvxoptAvailable())`.
+ */
 export function cvxoptAvailable(): boolean {
-  const r = spawnSync(PYTHON, ['-c', 'import cvxopt'], { encoding: 'utf8' });
-  return r.status === 0;
+  return referenceToolsReady('cvxopt');
 }
 
 /** Solves every problem with CVXOPT conelp in one Python process. */

@@ -5,10 +5,11 @@ import * as os from 'node:os';
 import * as path from 'node:path';
 import { addPngText } from '../../renderer/export/png-metadata.ts';
 import { tinyPng } from '../unit/renderer/export/tiny-png.ts';
+import { REFERENCE_PYTHON, referenceToolsReady } from '../support/reference-tools.ts';
 
 // Reference: Pillow (Debian python3-pil, pulled in by python3-matplotlib), an independent PNG decoder,
 // must decode our PNG with its pixels intact and read back every iTXt entry.
-describe('PNG text metadata against Pillow', () => {
+describe.runIf(referenceToolsReady('pillow'))('PNG text metadata against Pillow', () => {
   it('decodes the image and reads the UTF-8 text entries', () => {
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'landreach-png-'));
     try {
@@ -21,7 +22,7 @@ describe('PNG text metadata against Pillow', () => {
         'im = Image.open(sys.argv[1]); im.load()',
         'print(json.dumps({"size": im.size, "mode": im.mode, "pixel": im.getpixel((3, 2)), "text": dict(im.text)}))',
       ].join('\n');
-      const out = JSON.parse(execFileSync('/usr/bin/python3', ['-c', script, file], { encoding: 'utf8' }));
+      const out = JSON.parse(execFileSync(REFERENCE_PYTHON, ['-c', script, file], { encoding: 'utf8' }));
       expect(out).toEqual({ size: [4, 3], mode: 'RGBA', pixel: [200, 100, 50, 255], text: entries });
     } finally {
       fs.rmSync(dir, { recursive: true, force: true });

@@ -4,6 +4,7 @@
  * the Python side, which builds its own problem from the published equations. Only `toSetup` turns
  * the same description into our `DescentSetup`; no matrix of ours ever reaches the reference.
  */
+import { REFERENCE_PYTHON } from '../../support/reference-tools.ts';
 import { spawnSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { DEG } from '../../../core/descent/constants.ts';
@@ -11,7 +12,7 @@ import type { Vec3 } from '../../../core/descent/constants.ts';
 import type { DescentSetup, IgnitionState } from '../../../core/descent/setup.ts';
 
 const SCRIPT = fileURLToPath(new URL('../py/descent_reference.py', import.meta.url));
-const PYTHON = '/usr/bin/python3';
+const PYTHON = REFERENCE_PYTHON;
 
 /** A scenario's physical description (the JSON the reference reads). */
 export interface PhysicalScenario {

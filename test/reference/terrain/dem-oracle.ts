@@ -4,7 +4,8 @@
  * `judge` compares our reader's outcome with GDAL's. Shared by the corpus test, the seeded fuzz test and
  * the offline fuzz run (test/fuzz/dem-fuzz.ts).
  */
-import { spawn, spawnSync, type ChildProcessWithoutNullStreams } from 'node:child_process';
+import { REFERENCE_PYTHON, referenceToolsReady } from '../../support/reference-tools.ts';
+import { spawn, type ChildProcessWithoutNullStreams } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { TerrainInputError, readGeoTiff, type ElevationGrid } from '../../../core/terrain/index.ts';
 
@@ -46,7 +47,7 @@ export class GdalOracle {
 
   constructor() {
     const script = fileURLToPath(new URL('./gdal_oracle.py', import.meta.url));
-    this.proc = spawn('/usr/bin/python3', [script], { env: { ...process.env, GDAL_PAM_ENABLED: 'NO' } });
+    this.proc = spawn(REFERENCE_PYTHON, [script], { env: { ...process.env, GDAL_PAM_ENABLED: 'NO' } });
     this.proc.stdout.setEncoding('utf8');
     this.proc.stdout.on('data', (chunk: string) => {
       this.buffer += chunk;
@@ -84,11 +85,9 @@ export class GdalOracle {
   }
 }
 
-/** Is the python3-gdal reference there? Under CI=true its absence is a failure, not a skip (RULES). */
+/** Is the python3-gdal reference there? Under CI=true its absence is a failure, not a skip (test/support/reference-tools.ts). */
 export function gdalPythonAvailable(): boolean {
-  const ok = spawnSync('/usr/bin/python3', ['-c', 'from osgeo import gdal'], { stdio: 'ignore' }).status === 0;
-  if (!ok && process.env.CI === 'true') throw new Error('python3-gdal (Debian) is missing: the GDAL reference checks need it under CI');
-  return ok;
+  return referenceToolsReady('gdal-python');
 }
 
 /** GDAL's band-1 values as numbers (signed bytes reinterpreted: GDAL 3.6 exposes them as Byte + PIXELTYPE=SIGNEDBYTE). */

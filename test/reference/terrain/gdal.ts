@@ -6,14 +6,19 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { gdalTool, referenceToolsReady } from '../../support/reference-tools.ts';
 
+/**
+ * True when GDAL's tools are here (LANDREACH_GDAL_BIN, else PATH); false with a visible warning on a
+ * developer machine, an error under CI=true (test/support/reference-tools.ts).
+ */
 export function gdalAvailable(): boolean {
-  return spawnSync('gdalinfo', ['--version'], { encoding: 'utf8' }).status === 0;
+  return referenceToolsReady('gdal');
 }
 
 /** Runs a GDAL tool; throws with its stderr when it fails. Quiet, no aux.xml side files. */
 export function gdal(tool: string, args: string[], input?: string): string {
-  const r = spawnSync(tool, args, { encoding: 'utf8', input, env: { ...process.env, GDAL_PAM_ENABLED: 'NO' } });
+  const r = spawnSync(gdalTool(tool), args, { encoding: 'utf8', input, env: { ...process.env, GDAL_PAM_ENABLED: 'NO' } });
   if (r.status !== 0) throw new Error(`${tool} ${args.join(' ')} failed (${r.status}): ${r.stderr}`);
   return r.stdout;
 }

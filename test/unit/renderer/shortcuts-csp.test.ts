@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import * as fs from 'node:fs';
 import { shortcutFor } from '../../../renderer/shortcuts.ts';
 import { DEV_SERVER_CSP, injectCsp, PRODUCTION_CSP } from '../../../renderer/csp.ts';
+import { EXPECTED_DEV_SERVER_CSP, EXPECTED_PRODUCTION_CSP } from '../../support/expected-csp.ts';
 
 const key = (k: string, mods: Partial<{ ctrlKey: boolean; metaKey: boolean; shiftKey: boolean; altKey: boolean }> = {}) => ({
   key: k, ctrlKey: false, metaKey: false, shiftKey: false, altKey: false, ...mods,
@@ -28,13 +29,29 @@ describe('keyboard shortcuts', () => {
 });
 
 describe('content security policy', () => {
-  it('has the required directives and nothing unsafe', () => {
-    const directives = Object.fromEntries(PRODUCTION_CSP.split('; ').map((d) => [d.split(' ')[0], d.split(' ').slice(1).join(' ')]));
-    expect(directives['default-src']).toBe("'self'");
-    expect(directives['worker-src']).toBe("'self'");
-    expect(directives['object-src']).toBe("'none'");
+  it('is exactly the expected policy, directive for directive', () => {
+    expect(PRODUCTION_CSP).toBe(EXPECTED_PRODUCTION_CSP);
+    expect(DEV_SERVER_CSP).toBe(EXPECTED_DEV_SERVER_CSP);
+    // Nothing unsafe, no data: URLs and no wildcard in what ships.
     expect(PRODUCTION_CSP).not.toMatch(/unsafe|data:|\*/);
-    expect(DEV_SERVER_CSP).toMatch(/style-src 'self' 'unsafe-inline'/);
+  });
+
+  it('is what the build writes into the page, and the dev server\'s only when serving', async () => {
+    // The Vite config's own plugin, called as Vite calls it (configResolved, then transformIndexHtml) on
+    // the real renderer/index.html: the built page's meta carries the expected policy exactly.
+    const { default: config } = await import('../../../renderer/vite.config.ts');
+    const plugin = (config.plugins ?? []).flat().find((p) => p && typeof p === 'object' && 'name' in p && p.name === 'landreach-csp') as unknown as {
+      configResolved(c: { command: string; isProduction: boolean }): void;
+      transformIndexHtml: { handler(html: string): string };
+    };
+    const source = fs.readFileSync(new URL('../../../renderer/index.html', import.meta.url), 'utf8');
+    const metaPolicy = (html: string) => [...html.matchAll(/<meta http-equiv="Content-Security-Policy" content="([^"]*)"/g)].map((m) => m[1]);
+    plugin.configResolved({ command: 'build', isProduction: true });
+    expect(metaPolicy(plugin.transformIndexHtml.handler(source))).toEqual([EXPECTED_PRODUCTION_CSP]);
+    plugin.configResolved({ command: 'serve', isProduction: true });
+    expect(metaPolicy(plugin.transformIndexHtml.handler(source))).toEqual([EXPECTED_PRODUCTION_CSP]);
+    plugin.configResolved({ command: 'serve', isProduction: false });
+    expect(metaPolicy(plugin.transformIndexHtml.handler(source))).toEqual([EXPECTED_DEV_SERVER_CSP]);
   });
 
   it('is injected right after the charset, once', () => {
