@@ -25,10 +25,14 @@ export function readStudy(path: string): Study {
   }
 }
 
-/** A file to write: text (UTF-8) or bytes. */
-export type OutputFile = { path: string; text: string } | { path: string; bytes: Uint8Array };
+/**
+ * A file to write: text (UTF-8) or bytes; bytes may come from a function, called when the file is written
+ * (large rasters are then made one at a time, not all held at once).
+ */
+export type OutputFile = { path: string; text: string } | { path: string; bytes: Uint8Array | (() => Uint8Array) };
 
-const contentOf = (f: OutputFile): Uint8Array => ('bytes' in f ? f.bytes : Buffer.from(f.text, 'utf8'));
+const contentOf = (f: OutputFile): Uint8Array =>
+  'bytes' in f ? (typeof f.bytes === 'function' ? f.bytes() : f.bytes) : Buffer.from(f.text, 'utf8');
 
 /**
  * Temporary files are named `<target>.<pid>.<random>.tmp` beside their target (the same folder, so the
@@ -51,18 +55,19 @@ function syncFolder(dir: string): void {
   }
 }
 
-function writeTemporary(f: OutputFile): string {
+/** Writes the file's content to a new temporary beside it, flushed to disk; returns its name and SHA-256. */
+function writeTemporary(f: OutputFile): { tmp: string; bytes: number; sha256: string } {
+  const data = contentOf(f);
   const tmp = temporaryName(f.path);
   const fd = openSync(tmp, 'wx');
   try {
-    const data = contentOf(f);
     let done = 0;
     while (done < data.length) done += writeSync(fd, data, done, data.length - done);
     fsyncSync(fd);
   } finally {
     closeSync(fd);
   }
-  return tmp;
+  return { tmp, bytes: data.length, sha256: createHash('sha256').update(data).digest('hex') };
 }
 
 function removeQuietly(path: string): void {
@@ -81,7 +86,7 @@ function removeQuietly(path: string): void {
 export function writeFilesAtomically(files: OutputFile[]): void {
   const temps: { tmp: string; path: string }[] = [];
   try {
-    for (const f of files) temps.push({ tmp: writeTemporary(f), path: f.path });
+    for (const f of files) temps.push({ tmp: writeTemporary(f).tmp, path: f.path });
     for (const t of temps) renameSync(t.tmp, t.path);
     for (const d of new Set(files.map((f) => dirname(f.path)))) syncFolder(d);
   } catch (err) {
@@ -171,13 +176,14 @@ export function writeOutputSet(files: OutputFile[], manifest: { name: string; ru
   const manifestPath = join(dir, manifest.name);
   const temps: { tmp: string; path: string }[] = [];
   try {
-    const listed = files.map((f) => {
-      const data = contentOf(f);
-      return { name: basename(f.path), bytes: data.length, sha256: createHash('sha256').update(data).digest('hex') };
-    });
-    for (const f of files) temps.push({ tmp: writeTemporary(f), path: f.path });
+    const listed: OutputManifest['files'] = [];
+    for (const f of files) {
+      const t = writeTemporary(f);
+      temps.push({ tmp: t.tmp, path: f.path });
+      listed.push({ name: basename(f.path), bytes: t.bytes, sha256: t.sha256 });
+    }
     const body: OutputManifest = { format: MANIFEST_FORMAT, version: 1, caution: CAUTION, note: MANIFEST_NOTE, appVersion: APP_VERSION, files: listed, run: manifest.run };
-    temps.push({ tmp: writeTemporary({ path: manifestPath, text: JSON.stringify(body, null, 1) + '\n' }), path: manifestPath });
+    temps.push({ tmp: writeTemporary({ path: manifestPath, text: JSON.stringify(body, null, 1) + '\n' }).tmp, path: manifestPath });
     if (existsSync(manifestPath)) {
       unlinkSync(manifestPath);
       syncFolder(dir);
