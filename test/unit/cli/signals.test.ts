@@ -111,7 +111,6 @@ describe('landreach study stopped by a signal', () => {
     const run = runCli(['study', 'reserve', DEMO_STUDY_PATH, '--out', out, '--grid', '101x101', '--extent-m', '2500', '--workers', '2']);
     await run.waitFor(FIRST_ROW);
     run.child.kill('SIGTERM');
-    run.child.kill('SIGINT');
     const exit = await run.exit;
     expect(exit, run.stderr()).toEqual({ code: 143, signal: null });
     const check = checkOutputSet(join(out, 'study-reserve.manifest.json'));
