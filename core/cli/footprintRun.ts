@@ -1,4 +1,7 @@
-/** Running a study's footprint in worker threads, with progress on stderr and Ctrl-C keeping what finished. */
+/**
+ * Running a study's footprint in worker threads, with progress on stderr; `signal` (a StopRequest's, stop.ts)
+ * stops it keeping every finished row.
+ */
 import type { CliIo } from './command.ts';
 import { computeFootprint, type FootprintProgress, type FootprintRun, type RowJob } from '../footprint/engine.ts';
 import type { FieldRow } from '../footprint/field.ts';
@@ -26,22 +29,25 @@ export async function runStudyFootprint(
    * propellantBudget_kg: a reachable-set run (see DescentFootprintContext.propellantBudget_kg);
    * refineBoundary: then refine the boundary at that level coarse-to-fine (refine.ts).
    */
-  options: { nodes: number; workers: number; propellantBudget_kg?: number; refineBoundary?: { factor: number; level_kg: number } },
+  options: {
+    nodes: number;
+    workers: number;
+    propellantBudget_kg?: number;
+    refineBoundary?: { factor: number; level_kg: number };
+    /** Stops the run (finished rows are kept and returned, `cancelled` set). */
+    signal?: AbortSignal;
+  },
   io: CliIo,
 ): Promise<FootprintRun & { refinement?: BoundaryRefinement }> {
   const pool = new JobPool<RowJob, FieldRow>(nodeWorkerFactory(new URL('../footprint/nodeWorker.mjs', import.meta.url)), options.workers);
-  const controller = new AbortController();
-  const onSigint = () => {
-    io.stderr('\nstopping: writing the rows that finished…\n');
-    controller.abort();
-  };
-  process.once('SIGINT', onSigint);
+  const signal = options.signal;
+  // Without a stream of rows the first line comes with the first finished row (tests wait on it).
   let lastPrint = 0;
   try {
     const context = { ...footprintContext(study, options.nodes), propellantBudget_kg: options.propellantBudget_kg };
     const run = await computeFootprint(grid, pool, {
       context,
-      signal: controller.signal,
+      signal,
       onRow: (_r, p) => {
         const now = Date.now();
         if (io.interactive) io.stderr(`\r${progressLine(p)}`);
@@ -55,11 +61,10 @@ export async function runStudyFootprint(
     if (!options.refineBoundary || run.cancelled) return run;
     io.stderr(`refining the ${options.refineBoundary.level_kg} kg boundary ${options.refineBoundary.factor}× …\n`);
     const started = Date.now();
-    const refinement = await refineBudgetBoundary(run.field, pool, { ...options.refineBoundary, context, signal: controller.signal });
+    const refinement = await refineBudgetBoundary(run.field, pool, { ...options.refineBoundary, context, signal });
     // The run's time includes the refinement's, so the summary's time and solves go together.
     return { ...run, progress: { ...run.progress, elapsed_s: run.progress.elapsed_s + (Date.now() - started) / 1000 }, refinement };
   } finally {
-    process.removeListener('SIGINT', onSigint);
     pool.close();
   }
 }

@@ -8,7 +8,7 @@ import type { CliIo } from './command.ts';
 import type { FootprintField } from '../footprint/field.ts';
 import { footprintFigures } from '../footprint/studyFootprint.ts';
 import { footprintLonLat } from '../footprint/georeferencedFootprint.ts';
-import { footprintGeoJson, type FootprintLonLat, type GeoJsonSite } from '../study/footprintExport.ts';
+import { footprintGeoJson, partialResultLine, type FootprintLonLat, type GeoJsonSite } from '../study/footprintExport.ts';
 import type { Study } from '../study/index.ts';
 import { TerrainInputError, type ElevationGrid } from '../terrain/grid.ts';
 
@@ -19,10 +19,12 @@ export function hazardFootprintGeoJson(
   target_m: readonly [number, number],
   sites: readonly GeoJsonSite[],
   io: CliIo,
+  /** The footprint run was stopped early (a signal): the GeoJSON says so. */
+  cancelled = false,
 ): string {
   const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
   const reserve = study.vehicle.propellantReserve_kg;
-  const figures = footprintFigures(field, { usable_kg: usable, reserve_kg: reserve }, { elapsed_s: 0, cancelled: false });
+  const figures = footprintFigures(field, { usable_kg: usable, reserve_kg: reserve }, { cancelled });
   let lonLat: FootprintLonLat | null = null;
   try {
     lonLat = footprintLonLat(grid, target_m, study.planet.body, 'DEM');
@@ -30,5 +32,5 @@ export function hazardFootprintGeoJson(
     if (!(err instanceof TerrainInputError)) throw err;
     io.stderr(`note: footprint.geojson has null geometry (local metres only): ${err.message}\n`);
   }
-  return JSON.stringify(footprintGeoJson({ contours: figures.bands, reachable: figures.reachable, reserve_kg: reserve, lonLat, sites }));
+  return JSON.stringify(footprintGeoJson({ contours: figures.bands, reachable: figures.reachable, reserve_kg: reserve, lonLat, sites, stoppedEarly: cancelled ? (partialResultLine(field)?.replace(/^# /, '') ?? 'STOPPED EARLY') : null }));
 }

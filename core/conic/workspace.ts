@@ -112,6 +112,11 @@ export class ConicWorkspace {
   /** Regularisation retries counted before this solve (both paths keep running totals). */
   private retriesAtStart = 0;
   private bestMerit = Infinity;
+  /**
+   * The next update() equilibrates from the identity scaling instead of continuing from the current one
+   * (true on a new workspace and after reset()), so the scaling after it depends on that update's data only.
+   */
+  private freshScaling = true;
   private readonly res: Residuals;
   private readonly assessment: Assessment = emptyAssessment();
   private readonly relaxedAssessment: Assessment = emptyAssessment();
@@ -229,8 +234,20 @@ export class ConicWorkspace {
     if (data.h) this.h0.set(data.h);
     if (data.AValues) this.A.values.set(data.AValues);
     if (data.GValues) this.G.values.set(data.GValues);
-    this.equilibrate(true);
+    this.equilibrate(!this.freshScaling);
+    this.freshScaling = false;
     this.kkt.setAG(this.As.values, this.Gs.values);
+  }
+
+  /**
+   * Forgets what earlier solves left behind, so that what follows is a function of the data alone: the
+   * next update() equilibrates from scratch (update() otherwise continues Ruiz's iteration from the last
+   * scaling, which then depends on every problem solved before). A solve without a start is cold anyway;
+   * nothing else carries over between solves. The footprint calls this at the start of every row, so a
+   * row's result does not depend on which rows its worker solved before (reproducible footprints).
+   */
+  reset(): void {
+    this.freshScaling = true;
   }
 
   /** Fill-in diagnostic: entries of the LDLᵀ factor. */

@@ -11,6 +11,11 @@ export interface ConicSession {
   update(values: Partial<ProblemValues>): void;
   /** Solves; a backend may ignore the starting point. */
   solve(start?: WarmStart): ConicSolution;
+  /**
+   * Back to the state of a newly opened session, so later results depend on later data only (a backend
+   * that keeps no state between solves need not have it).
+   */
+  reset?(): void;
 }
 
 export interface ConicBackend {

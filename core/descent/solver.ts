@@ -65,6 +65,18 @@ export class DescentSolver {
     return e;
   }
 
+  /**
+   * Back to the state of a new solver: no warm start from earlier solves, and every conic session as
+   * newly opened (its equilibration starts afresh). Solves after a reset give the same bits as on a new
+   * DescentSolver with the same setup (the symbolic analysis is kept: it depends on the pattern only).
+   */
+  reset(): void {
+    for (const e of this.programs.values()) {
+      e.last = null;
+      e.session.reset?.();
+    }
+  }
+
   /** Solves one fixed-final-time problem (`extra`: the direction and budget of a max-divert problem). */
   solveFixed(
     kind: ProgramKind,

@@ -63,7 +63,7 @@ export function descentEvaluator(ctx: DescentFootprintContext, backend?: ConicBa
   // target along a row), its optimal time of flight is extrapolated linearly, and the opening probes go
   // a quarter of the last change either side of that (at least 0.1 s), which usually brackets it.
   const history: { east: number; north: number; tf: number }[] = [];
-  return (east, north, tfGuess, guessFromUnreachable) => {
+  const evaluate: TargetEvaluator = (east, north, tfGuess, guessFromUnreachable) => {
     let guess = tfGuess;
     let half: number | undefined;
     if (history.length === 2 && guess !== undefined) {
@@ -117,4 +117,11 @@ export function descentEvaluator(ctx: DescentFootprintContext, backend?: ConicBa
     };
     return out;
   };
+  // A row starts from nothing its worker solved before (reproducible footprints, engine.ts).
+  evaluate.reset = () => {
+    solver.reset();
+    curvature = undefined;
+    history.length = 0;
+  };
+  return evaluate;
 }

@@ -1,19 +1,29 @@
 /**
- * The footprint engine: targets solved row by row, each row by one worker, rows dispatched from the
- * nominal target outwards. Within a row each target starts its time-of-flight search from its solved
- * neighbour; the first target of a row starts from the solved row toward the centre, when it has finished.
+ * The footprint engine: targets solved row by row, each row by one worker. Results are reproducible: every
+ * target's result is a function of the grid and the context alone, never of the number of workers or the
+ * order in which they finish (issue 11). Two things make it so:
+ * - the warm-start chain follows the grid: a row continues from its centre target (the column nearest
+ *   east = 0), which the *seeding column* solved beforehand; the seeding column runs from the nominal row
+ *   outwards, each of its targets starting from its neighbour toward the centre, and a seeding target is
+ *   dispatched only once that neighbour is done. Rows need nothing else, so once its seed is known a row
+ *   runs in parallel with every other row: the only chain is the column, one target per row;
+ * - every job starts its worker's evaluator afresh (`TargetEvaluator.reset`: no warm start, estimate or
+ *   solver scaling carried over from the jobs the worker ran before).
  * Knows nothing of threads beyond the JobPool interface.
  */
 import type { JobPool } from '../parallel/pool.ts';
-import { emptyField, emptyRow, rowBuffers, setOutcome, TARGET, writeRow, type FieldRow, type FootprintField, type TargetOutcome } from './field.ts';
+import { emptyField, emptyRow, rowBuffers, setOutcome, TARGET, writeRow, type FieldRow, type FootprintField, type TargetCode, type TargetOutcome } from './field.ts';
 import { columnOrder, rowOrder, type TargetGrid } from './grid.ts';
 
 /**
  * Solves one target: minimum propellant with free final time, starting the search from `tfGuess_s`;
  * `guessFromUnreachable` says the guess is the closest-approach time of flight of a certified
- * unreachable neighbour (the target is then probably out of reach too).
+ * unreachable neighbour (the target is then probably out of reach too). `reset`, when present, returns the
+ * evaluator to its state when new (called at the start of every row job, see the file comment).
  */
-export type TargetEvaluator = (east_m: number, north_m: number, tfGuess_s: number | undefined, guessFromUnreachable?: boolean) => TargetOutcome;
+export type TargetEvaluator = ((east_m: number, north_m: number, tfGuess_s: number | undefined, guessFromUnreachable?: boolean) => TargetOutcome) & {
+  reset?: () => void;
+};
 
 export interface RowJob {
   /** What the worker needs to build its evaluator (plain, structured-clonable data; same for every row). */
@@ -21,17 +31,23 @@ export interface RowJob {
   row: number;
   north_m: number;
   east_m: Float64Array;
-  /** Optimal times of flight of the neighbouring row toward the centre, when known (NaN where not reachable). */
+  /** Times of flight to start from where no solved neighbour in the row gives one (NaN where none). */
   tfHint: Float32Array | null;
   /**
-   * Solve only these columns (ascending), the others stay pending: a refinement pass. Each target then
-   * starts from its left neighbour when that was just solved, else from `tfHint`.
+   * Solve only these columns (ascending), the others stay pending: a refinement pass, or the row's seeding
+   * target. Each target then starts from its left neighbour when that was just solved, else from `tfHint`.
    */
   columns?: Int32Array;
+  /**
+   * The outcome of the row's first target in continuation order (its centre column), solved beforehand
+   * by the seeding column: copied into the row, not solved again; the row's other targets continue from it.
+   */
+  seed?: TargetOutcome;
 }
 
-/** Worker side: solves every target of a row in continuation order. */
+/** Worker side: solves every target of a row in continuation order, starting the evaluator afresh. */
 export function solveRow(job: RowJob, evaluate: TargetEvaluator): FieldRow {
+  evaluate.reset?.();
   const nx = job.east_m.length;
   const out = emptyRow(job.row, nx);
   if (job.columns) {
@@ -47,6 +63,10 @@ export function solveRow(job: RowJob, evaluate: TargetEvaluator): FieldRow {
   }
   const { columns, previous } = columnOrder({ nx, ny: 1, east: job.east_m, north: new Float64Array(1), spacingEast_m: 0, spacingNorth_m: 0 });
   for (const i of columns) {
+    if (job.seed && i === columns[0]) {
+      setOutcome(out, i, job.seed);
+      continue;
+    }
     const prev = previous[i];
     let guess: number | undefined;
     // The neighbour's time of flight, optimal or (unreachable neighbour) of its closest approach.
@@ -58,6 +78,18 @@ export function solveRow(job: RowJob, evaluate: TargetEvaluator): FieldRow {
     setOutcome(out, i, evaluate(job.east_m[i], job.north_m, guess, fromUnreachable));
   }
   return out;
+}
+
+/** The outcome stored at column `i` of a finished row (the values as stored: single precision). */
+function outcomeAt(r: FieldRow, i: number): TargetOutcome {
+  return {
+    code: r.status[i] as TargetCode,
+    propellant_kg: r.propellant_kg[i],
+    timeOfFlight_s: r.timeOfFlight_s[i],
+    peakTilt_deg: r.peakTilt_deg[i],
+    miss_m: r.miss_m[i],
+    solves: r.solves[i],
+  };
 }
 
 export interface FootprintProgress {
@@ -96,8 +128,13 @@ export async function computeFootprint(
   const clock = options.clock ?? (() => (typeof performance !== 'undefined' ? performance.now() : Date.now()) / 1000);
   const field = emptyField(grid);
   const { rows, parentRow } = rowOrder(grid);
-  const finishedRows = new Set<number>();
-  let dispatched = 0;
+  const centre = columnOrder(grid).columns[0];
+  const context = options.context ?? null;
+  // Per row: its seeding target's outcome once known; whether its seeding and its row job were sent.
+  const seeds: (TargetOutcome | null)[] = new Array(grid.ny).fill(null);
+  const seedSent = new Uint8Array(grid.ny);
+  const rowSent = new Uint8Array(grid.ny);
+  let rowsSent = 0;
   const start = clock();
   const progress: FootprintProgress = {
     rowsDone: 0,
@@ -108,21 +145,43 @@ export async function computeFootprint(
     rate_per_s: 0,
     remaining_s: NaN,
   };
+  const seedJob = (row: number): RowJob => {
+    const parent = parentRow[row];
+    let tfHint: Float32Array | null = null;
+    if (parent >= 0) {
+      tfHint = new Float32Array(grid.nx).fill(NaN);
+      tfHint[centre] = seeds[parent]!.timeOfFlight_s;
+    }
+    return { context, row, north_m: grid.north[row], east_m: grid.east.slice(), tfHint, columns: Int32Array.of(centre) };
+  };
   const summary = await pool.run({
     next: () => {
-      if (dispatched >= rows.length) return null;
-      const row = rows[dispatched++];
-      const parent = parentRow[row];
-      let tfHint: Float32Array | null = null;
-      if (parent >= 0 && finishedRows.has(parent)) {
-        tfHint = field.timeOfFlight_s.slice(parent * grid.nx, (parent + 1) * grid.nx);
+      // Seeding targets first (they are the only chain), each once its neighbour toward the centre is done;
+      // then any row whose seed is known. Which job goes to which worker, and when, changes no result.
+      for (const row of rows) {
+        const parent = parentRow[row];
+        if (!seedSent[row] && (parent < 0 || seeds[parent] !== null)) {
+          seedSent[row] = 1;
+          return { job: seedJob(row) };
+        }
       }
-      return { job: { context: options.context ?? null, row, north_m: grid.north[row], east_m: grid.east.slice(), tfHint } };
+      for (const row of rows) {
+        if (!rowSent[row] && seeds[row] !== null) {
+          rowSent[row] = 1;
+          rowsSent++;
+          return { job: { context, row, north_m: grid.north[row], east_m: grid.east.slice(), tfHint: null, seed: seeds[row]! } };
+        }
+      }
+      return null;
     },
-    done: () => dispatched >= rows.length,
-    onResult: (r) => {
+    done: () => rowsSent >= grid.ny,
+    onResult: (r, job) => {
+      if (job.columns) {
+        // A seeding target: it reaches the field with its row (a cancelled run keeps whole rows only).
+        seeds[r.row] = outcomeAt(r, centre);
+        return;
+      }
       writeRow(field, r);
-      finishedRows.add(r.row);
       progress.rowsDone++;
       progress.targetsDone += grid.nx;
       progress.elapsed_s = clock() - start;

@@ -58,7 +58,7 @@ export interface FootprintFigures {
 export function footprintFigures(
   field: FootprintField,
   budget: { usable_kg: number; reserve_kg: number },
-  run: { elapsed_s: number; cancelled: boolean },
+  run: { cancelled: boolean },
   levels?: number[],
   refinement?: BoundaryRefinement,
 ): FootprintFigures {
@@ -92,7 +92,6 @@ export function footprintFigures(
     minPropellant_kg: Number.isFinite(minP) ? Number(minP.toFixed(3)) : NaN,
     maxPropellant_kg: Number.isFinite(maxP) ? Number(maxP.toFixed(3)) : NaN,
     solves: solves + (refinement?.extraSolves ?? 0),
-    elapsed_s: Number(run.elapsed_s.toFixed(2)),
     cancelled: run.cancelled,
   };
   if (refinement) {

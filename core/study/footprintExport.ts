@@ -11,14 +11,30 @@ const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budg
 
 const num = (v: number, digits: number) => (Number.isFinite(v) ? Number(v.toFixed(digits)).toString() : '');
 
+/** Targets not computed (status pending): a run stopped early leaves them. */
+function pendingCount(field: FootprintField): number {
+  let n = 0;
+  for (const s of field.status) if (s === TARGET.pending) n++;
+  return n;
+}
+
+/** The line a partial result's CSV carries after the caution (a complete run never leaves targets pending). */
+export function partialResultLine(field: FootprintField): string | null {
+  const pending = pendingCount(field);
+  return pending > 0 ? `# STOPPED EARLY: partial result; ${pending} of ${field.nx * field.ny} targets not computed (status pending)` : null;
+}
+
 /**
  * One row per target. `within_budget` is 1 where the minimum propellant is at most `budget_kg` (the usable
  * propellant less the reserve), 0 where it is certainly above it or unreachable, empty where not computed or
  * not established (a relaxation-gap target whose best flyable trajectory is above the budget).
+ * A partial field (a run stopped early) gets a second comment line saying so.
  */
 export function footprintCsv(field: FootprintField, budget_kg: number): string {
+  const partial = partialResultLine(field);
   const lines = [
     `# ${CAUTION}`,
+    ...(partial ? [partial] : []),
     'east_m,north_m,status,propellant_kg,time_of_flight_s,peak_tilt_deg,miss_m,solves,within_budget',
   ];
   for (let j = 0; j < field.ny; j++) {
@@ -74,7 +90,7 @@ export interface FootprintSummary {
   minPropellant_kg: number;
   maxPropellant_kg: number;
   solves: number;
-  elapsed_s: number;
+  /** The run stopped (Ctrl-C, a signal, Cancel) before every target was computed: `pending` are missing. */
   cancelled: boolean;
 }
 
@@ -85,20 +101,24 @@ export interface FootprintReportInput {
   summary: FootprintSummary;
   field: FootprintField;
   contourLevels_kg: number[];
-  createdAt?: string;
 }
 
-/** The versioned JSON report ("landreach-footprint" version 1). */
+/**
+ * The versioned JSON report ("landreach-footprint" version 2). It holds what the inputs determine and
+ * nothing that varies between runs of the same inputs (version 1's `createdAt` and `summary.elapsed_s` are
+ * gone: the command line keeps them in its run record, the manifest), so equal inputs give equal bytes.
+ * `stoppedEarly` repeats `summary.cancelled` where a reader looks first.
+ */
 export function footprintReport(r: FootprintReportInput): string {
   const f = r.field;
   const arr = (a: ArrayLike<number>, digits: number) => Array.from(a, (v) => (Number.isFinite(v) ? Number(v.toFixed(digits)) : null));
   return JSON.stringify(
     {
       format: 'landreach-footprint',
-      version: 1,
+      version: 2,
       caution: CAUTION,
       appVersion: APP_VERSION,
-      createdAt: r.createdAt ?? new Date().toISOString(),
+      stoppedEarly: r.summary.cancelled,
       study: r.studyName,
       inputsHash: r.inputsHash,
       inputs: r.inputs,

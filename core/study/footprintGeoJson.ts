@@ -45,6 +45,8 @@ export interface FootprintGeoJsonInput {
   /** A bare converter, taken as WGS 84 on Earth. */
   toLonLat?: LocalToLonLat | null;
   sites?: readonly GeoJsonSite[];
+  /** Set when the footprint is partial (the run stopped early): said in a foreign member, `stopped_early`. */
+  stoppedEarly?: string | null;
 }
 
 /** Decimal places of longitude/latitude: 1e-9° is about 0.1 mm on Earth (RFC 7946 §11.2 asks for no false precision). */
@@ -108,7 +110,8 @@ export function footprintGeoJson(input: FootprintGeoJsonInput): FeatureCollectio
       point(0, 0, { kind: 'nominal-target' }),
       ...(input.sites ?? []).map((s, k) => point(s.east_m, s.north_m, { kind: 'landing-site', rank: k + 1, ...s.properties })),
     ],
-    // A foreign member (RFC 7946 §6.1): exported reports carry the caution.
+    // Foreign members (RFC 7946 §6.1): exported reports carry the caution, and say when they are partial.
     caution: CAUTION,
+    ...(input.stoppedEarly ? { stopped_early: input.stoppedEarly } : {}),
   } as FeatureCollection<MultiPolygon | Point | null>;
 }

@@ -1,7 +1,10 @@
-/** The footprint's export files, built with core/study's exporters from the field the app holds (pure). */
+/**
+ * The footprint's export files, built with core/study's exporters from the field the app holds (pure). They
+ * hold what the inputs determine and no date, so the same inputs give the same bytes (as the CLI's files).
+ */
 import type { FootprintField } from '../../core/footprint/field.ts';
 import { footprintMapSvg, type FootprintFigures } from '../../core/footprint/studyFootprint.ts';
-import { footprintCsv, footprintGeoJson, footprintReport } from '../../core/study/footprintExport.ts';
+import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../core/study/footprintExport.ts';
 import type { Study } from '../../core/study/schema.ts';
 
 export type FootprintExportKind = 'csv' | 'geojson' | 'json' | 'svg';
@@ -16,21 +19,21 @@ export interface FootprintResult {
   appVersion: string;
 }
 
-export function footprintExportText(kind: FootprintExportKind, r: FootprintResult, createdAt: string): string {
+export function footprintExportText(kind: FootprintExportKind, r: FootprintResult): string {
   const { field, figures } = r;
   switch (kind) {
     case 'csv':
       return footprintCsv(field, figures.summary.budget_kg);
     case 'geojson':
-      return JSON.stringify(footprintGeoJson({ contours: figures.bands, reachable: figures.reachable, reserve_kg: figures.summary.reserve_kg }));
+      return JSON.stringify(footprintGeoJson({ contours: figures.bands, reachable: figures.reachable, reserve_kg: figures.summary.reserve_kg, stoppedEarly: partialResultLine(field)?.replace(/^# /, '') }));
     case 'json':
-      return footprintReport({ studyName: r.study.name, inputsHash: r.inputsHash, inputs: r.inputs, summary: figures.summary, field, contourLevels_kg: figures.levels_kg, createdAt });
+      return footprintReport({ studyName: r.study.name, inputsHash: r.inputsHash, inputs: r.inputs, summary: figures.summary, field, contourLevels_kg: figures.levels_kg });
     case 'svg':
       return footprintMapSvg(field, figures, {
         title: `Divert footprint — ${r.study.name}`,
         caption: [
           `${r.study.name} — ${field.nx} × ${field.ny} targets, N = ${r.inputs.nodes}, reserve ${figures.summary.reserve_kg} kg${figures.summary.cancelled ? ' — STOPPED EARLY: partial result' : ''}`,
-          `Landreach ${r.appVersion}, ${createdAt}, inputs ${r.inputsHash.slice(0, 16)}`,
+          `Landreach ${r.appVersion}, inputs ${r.inputsHash.slice(0, 16)}`,
         ],
       });
   }

@@ -173,7 +173,7 @@ describe.runIf(browser)('footprint in Chromium (demo study, small grids)', () =>
     const report = JSON.parse(await fs.readFile((await json.path())!, 'utf8'));
     expect(report.caution).toMatch(/^Preliminary design and trade studies only; not flight software/);
     expect(report.inputsHash).toMatch(/^[0-9a-f]{64}$/);
-    expect(report).toMatchObject({ format: 'landreach-footprint', version: 1, summary: { budget_kg: 220, targets: 49, pending: 0 }, grid: { nx: 7, ny: 7 } });
+    expect(report).toMatchObject({ format: 'landreach-footprint', version: 2, stoppedEarly: false, summary: { budget_kg: 220, targets: 49, pending: 0 }, grid: { nx: 7, ny: 7 } });
     const [svg] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export-svg').click()]);
     const svgText = await fs.readFile((await svg.path())!, 'utf8');
     expect(svgText).toMatch(/^<svg[^>]*xmlns="http:\/\/www\.w3\.org\/2000\/svg"/);

@@ -4,21 +4,22 @@
  *
  * The divert footprint: minimum propellant (free final time) for every target of a grid around the
  * nominal target, in worker threads, with contours, the reserve boundary, the guaranteed divert radius and
- * report files. Ctrl-C stops the run, writes what finished and says so.
+ * report files. Ctrl-C or SIGTERM stops the run, writes what finished and says so (stop.ts).
  */
 import { existsSync, mkdirSync, statSync } from 'node:fs';
 import os from 'node:os';
 import { join } from 'node:path';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
-import { readStudy, writeFilesAtomically } from '../files.ts';
+import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
+import { StopRequest } from '../stop.ts';
 import { num, readDem, type Flags } from '../dem.ts';
 import { footprintLonLat } from '../../footprint/georeferencedFootprint.ts';
 import type { FootprintLonLat } from '../../study/footprintExport.ts';
 import { TerrainInputError } from '../../terrain/grid.ts';
 import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { footprintCsv, footprintGeoJson, footprintReport } from '../../study/footprintExport.ts';
+import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../study/footprintExport.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { iterationModule } from '../../conic/index.ts';
 import { DescentSolver } from '../../descent/solver.ts';
@@ -55,8 +56,15 @@ Options:
 
 Writes footprint.json (versioned report), footprint.csv (one row per target), footprint.geojson
 (contours and the reserve boundary, RFC 7946: local metres
-in the properties, longitude/latitude geometry with --terrain, null geometry without) and footprint.svg (a map for reports).
-Exit codes: 0 done (or stopped with Ctrl-C after writing what finished), 1 computation failed, 2 bad input.
+in the properties, longitude/latitude geometry with --terrain, null geometry without) and footprint.svg (a map for reports),
+then footprint.manifest.json last: each file's size and SHA-256, and the run record (date, time taken,
+workers, how the run ended). The four result files are the same bytes for the same inputs, whatever the
+number of workers; \`landreach verify DIR\` checks a folder's set against its manifest.
+
+Ctrl-C (once or more), SIGTERM or SIGHUP stop the run: every finished row is written and the files say
+the run stopped early. Temporary files left by a run that was killed (SIGKILL) are removed by the next run.
+Exit codes: 0 done, 1 computation failed, 2 bad input, 128 + the signal's number when stopped by a signal
+after writing what finished (130 Ctrl-C, 143 SIGTERM, 129 SIGHUP).
 
 ${CAUTION}`;
 
@@ -207,80 +215,108 @@ export const footprintCommand: CliCommand = {
     if (o.reachableOnly && o.levels?.some((l) => l > budget)) {
       throw new UsageError(`--levels: ${o.levels.filter((l) => l > budget).join(', ')} kg above the budget ${budget} kg cannot be drawn with --reachable-only`);
     }
-    // The terrain is read and its CRS checked before any computing, so a bad DEM costs nothing.
-    const placement = o.terrain ? await terrainPlacement(o.terrain, o.demFlags, study.planet.body) : null;
-    const extent = o.extent ?? autoExtent(study, budget, o.nodes, io);
-    const grid = makeTargetGrid({ halfWidthEast_m: extent, halfWidthNorth_m: extent, nx: o.nx, ny: o.ny });
-    const inputs = {
-      study,
-      grid: { nx: o.nx, ny: o.ny, extent_m: extent },
-      nodes: o.nodes,
-      reserve_kg: reserve,
-      reachableOnly: o.reachableOnly,
-      refineBoundary: o.refine,
-      ...(placement ? { terrain: { path: o.terrain, nominalTargetOnDem_m: placement.target_m } } : {}),
-    };
-    const hash = await inputsHash(inputs);
-    io.stderr(`footprint of '${study.name}': ${o.nx} × ${o.ny} targets, ±${extent} m, N = ${o.nodes}, ${o.workers} worker(s)\n`);
-    const run = await runStudyFootprint(study, grid, {
-      nodes: o.nodes,
-      workers: o.workers,
-      propellantBudget_kg: o.reachableOnly ? budget : undefined,
-      refineBoundary: o.refine ? { factor: o.refine, level_kg: budget } : undefined,
-    }, io);
-    if (io.interactive) io.stderr('\n');
-    const field = run.field;
-    // Ctrl-C during the boundary refinement also makes the result partial.
-    const cancelled = run.cancelled || (run.refinement?.cancelled ?? false);
-    const figures = footprintFigures(
-      field,
-      { usable_kg: usable, reserve_kg: reserve },
-      { elapsed_s: run.progress.elapsed_s, cancelled },
-      o.levels ?? undefined,
-      run.refinement,
-    );
-    const { summary, levels_kg: levels, bands, reachable, divert: radius } = figures;
-    const counts = summary;
-    const solves = summary.solves;
-    const createdAt = new Date().toISOString();
-    const caption = [
-      `${study.name} — ${o.nx} × ${o.ny} targets, N = ${o.nodes}, reserve ${reserve} kg${cancelled ? ' — STOPPED EARLY: partial result' : ''}`,
-      `Landreach ${APP_VERSION}, ${createdAt}, inputs ${hash.slice(0, 16)}`,
-    ];
-    const files = [
-      { path: join(o.out, 'footprint.json'), text: footprintReport({ studyName: study.name, inputsHash: hash, inputs, summary, field, contourLevels_kg: levels, createdAt }) },
-      { path: join(o.out, 'footprint.csv'), text: footprintCsv(field, budget) },
-      { path: join(o.out, 'footprint.geojson'), text: JSON.stringify(footprintGeoJson({ contours: bands, reachable, reserve_kg: reserve, lonLat: placement?.lonLat })) },
-      {
-        path: join(o.out, 'footprint.svg'),
-        text: footprintMapSvg(field, figures, { title: `Divert footprint — ${study.name}`, caption }),
-      },
-    ];
-    writeFilesAtomically(files);
-    io.stdout(
-      [
-        `status:      ${cancelled ? 'stopped early (partial result written)' : 'complete'}`,
-        `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
-          (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : '') +
-          (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (not lossless: flyable cost above the certified bound)` : ''),
-        `budget:      ${budget.toFixed(1)} kg (usable ${usable} kg − reserve ${reserve} kg)`,
-        `area:        ${(reachable.area_m2 / 1e6).toFixed(3)} km² reachable with the reserve kept` +
-          (summary.boundaryRefinement
-            ? ` (boundary refined ${summary.boundaryRefinement.factor}×: ${summary.boundaryRefinement.extraTargets} more targets; ${(summary.boundaryRefinement.unrefinedArea_m2 / 1e6).toFixed(3)} km² unrefined)`
-            : ''),
-        `divert:      ${radius.radius_m.toFixed(0)} m guaranteed in every direction${radius.limitedByGrid ? ' (limited by the grid: widen --extent-m)' : ''}`,
-        `propellant:  ${summary.minPropellant_kg} … ${summary.maxPropellant_kg} kg over reachable targets`,
-        `time:        ${run.progress.elapsed_s.toFixed(1)} s, ${solves} cone-program solves (${(solves / Math.max(1, run.progress.targetsDone)).toFixed(1)} per target)`,
-        `solver:      ${solverKernelsLine()}`,
-        `wrote:       ${files.map((f) => f.path).join(', ')}`,
-        '',
-        CAUTION,
-        '',
-      ].join('\n'),
-    );
-    return counts.failed > 0 && counts.reachable === 0 ? 1 : 0;
+    const removed = removeOrphanTemporaries(o.out, [...OUTPUT_NAMES, manifestName('footprint')]);
+    if (removed.length) io.stderr(`removed ${removed.length} temporary file(s) left in ${o.out} by an interrupted run: ${removed.join(', ')}\n`);
+    const stop = new StopRequest(io).install();
+    try {
+      return await runFootprint(o, study, { reserve, usable, budget }, stop, io);
+    } finally {
+      stop.dispose();
+    }
   },
 };
+
+const OUTPUT_NAMES = ['footprint.json', 'footprint.csv', 'footprint.geojson', 'footprint.svg'];
+
+async function runFootprint(o: Options, study: Study, mass: { reserve: number; usable: number; budget: number }, stop: StopRequest, io: CliIo): Promise<number> {
+  const { reserve, usable, budget } = mass;
+  const startedAt = new Date();
+  // The terrain is read and its CRS checked before any computing, so a bad DEM costs nothing.
+  const placement = o.terrain ? await terrainPlacement(o.terrain, o.demFlags, study.planet.body) : null;
+  const extent = o.extent ?? autoExtent(study, budget, o.nodes, io);
+  const grid = makeTargetGrid({ halfWidthEast_m: extent, halfWidthNorth_m: extent, nx: o.nx, ny: o.ny });
+  const inputs = {
+    study,
+    grid: { nx: o.nx, ny: o.ny, extent_m: extent },
+    nodes: o.nodes,
+    reserve_kg: reserve,
+    reachableOnly: o.reachableOnly,
+    refineBoundary: o.refine,
+    ...(placement ? { terrain: { path: o.terrain, nominalTargetOnDem_m: placement.target_m } } : {}),
+  };
+  const hash = await inputsHash(inputs);
+  io.stderr(`footprint of '${study.name}': ${o.nx} × ${o.ny} targets, ±${extent} m, N = ${o.nodes}, ${o.workers} worker(s)\n`);
+  const run = await runStudyFootprint(study, grid, {
+    nodes: o.nodes,
+    workers: o.workers,
+    propellantBudget_kg: o.reachableOnly ? budget : undefined,
+    refineBoundary: o.refine ? { factor: o.refine, level_kg: budget } : undefined,
+    signal: stop.signal,
+  }, io);
+  if (io.interactive) io.stderr('\n');
+  const field = run.field;
+  // A stop during the boundary refinement also makes the result partial.
+  const cancelled = run.cancelled || (run.refinement?.cancelled ?? false);
+  const figures = footprintFigures(field, { usable_kg: usable, reserve_kg: reserve }, { cancelled }, o.levels ?? undefined, run.refinement);
+  const { summary, levels_kg: levels, bands, reachable, divert: radius } = figures;
+  const counts = summary;
+  const solves = summary.solves;
+  // The result files hold only what the inputs determine (the same bytes for the same inputs); the date,
+  // the time taken and the worker count go to the manifest's run record.
+  const caption = [
+    `${study.name} — ${o.nx} × ${o.ny} targets, N = ${o.nodes}, reserve ${reserve} kg${cancelled ? ' — STOPPED EARLY: partial result' : ''}`,
+    `Landreach ${APP_VERSION}, inputs ${hash.slice(0, 16)}`,
+  ];
+  const stoppedEarly = cancelled ? (partialResultLine(field)?.replace(/^# /, '') ?? 'STOPPED EARLY: the boundary refinement is partial') : null;
+  const files = [
+    { path: join(o.out, 'footprint.json'), text: footprintReport({ studyName: study.name, inputsHash: hash, inputs, summary, field, contourLevels_kg: levels }) },
+    { path: join(o.out, 'footprint.csv'), text: footprintCsv(field, budget) },
+    { path: join(o.out, 'footprint.geojson'), text: JSON.stringify(footprintGeoJson({ contours: bands, reachable, reserve_kg: reserve, lonLat: placement?.lonLat, stoppedEarly })) },
+    {
+      path: join(o.out, 'footprint.svg'),
+      text: footprintMapSvg(field, figures, { title: `Divert footprint — ${study.name}`, caption }),
+    },
+  ];
+  const manifest = writeOutputSet(files, {
+    name: manifestName('footprint'),
+    run: {
+      status: cancelled ? 'stopped-early' : 'complete',
+      stoppedBy: stop.signalName,
+      command: 'footprint',
+      inputsHash: hash,
+      startedAt: startedAt.toISOString(),
+      finishedAt: new Date().toISOString(),
+      elapsed_s: Number(run.progress.elapsed_s.toFixed(2)),
+      workers: o.workers,
+      solver: solverKernelsLine(),
+      targetsComputed: counts.targets - counts.pending,
+      targets: counts.targets,
+    },
+  });
+  io.stdout(
+    [
+      `status:      ${cancelled ? `stopped early${stop.signalName ? ` by ${stop.signalName}` : ''} (partial result written: ${counts.pending} targets not computed)` : 'complete'}`,
+      `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
+        (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : '') +
+        (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (not lossless: flyable cost above the certified bound)` : ''),
+      `budget:      ${budget.toFixed(1)} kg (usable ${usable} kg − reserve ${reserve} kg)`,
+      `area:        ${(reachable.area_m2 / 1e6).toFixed(3)} km² reachable with the reserve kept` +
+        (summary.boundaryRefinement
+          ? ` (boundary refined ${summary.boundaryRefinement.factor}×: ${summary.boundaryRefinement.extraTargets} more targets; ${(summary.boundaryRefinement.unrefinedArea_m2 / 1e6).toFixed(3)} km² unrefined)`
+          : ''),
+      `divert:      ${radius.radius_m.toFixed(0)} m guaranteed in every direction${radius.limitedByGrid ? ' (limited by the grid: widen --extent-m)' : ''}`,
+      `propellant:  ${summary.minPropellant_kg} … ${summary.maxPropellant_kg} kg over reachable targets`,
+      `time:        ${run.progress.elapsed_s.toFixed(1)} s, ${solves} cone-program solves (${(solves / Math.max(1, run.progress.targetsDone)).toFixed(1)} per target)`,
+      `solver:      ${solverKernelsLine()}`,
+      `wrote:       ${[...files.map((f) => f.path), manifest].join(', ')}`,
+      '',
+      CAUTION,
+      '',
+    ].join('\n'),
+  );
+  if (stop.exitCode !== null) return stop.exitCode;
+  return counts.failed > 0 && counts.reachable === 0 ? 1 : 0;
+}
 
 /**
  * Which implementation of the cone solver the workers run (worker threads share this process's

@@ -2,8 +2,8 @@
  * `landreach hazard DEM --out DIR …`: slope, roughness and hazard rasters (GeoTIFF) plus a JSON
  * summary for one elevation model. Reading and writing files happens here; the work is core/terrain.
  */
-import { writeFile, rename, mkdir, access, unlink } from 'node:fs/promises';
-import { resolve, join } from 'node:path';
+import { mkdir, access } from 'node:fs/promises';
+import { basename, resolve, join } from 'node:path';
 import { num, readDem, type Flags } from '../dem.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
@@ -11,7 +11,8 @@ import type { ElevationGrid, HazardLimits, HazardMap } from '../../terrain/index
 import { CAUTION } from '../../study/provenance.ts';
 import os from 'node:os';
 import type { Study } from '../../study/index.ts';
-import { readStudy } from '../files.ts';
+import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet, type OutputFile } from '../files.ts';
+import { StopRequest } from '../stop.ts';
 import { hazardFootprintGeoJson } from '../hazardGeoJson.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { FOOTPRINT_NODES } from '../../footprint/studyFootprint.ts';
@@ -34,6 +35,10 @@ and writes into DIR:
   hazard.tif       hazard flags (UInt8): 0 safe, +1 slope, +2 roughness, +4 unknown (no data or edge),
                    8 within the safety margin of a hazard
   hazard-summary.json   safe fraction, limits used, DEM metadata
+  hazard.manifest.json  written last: each file's size and SHA-256 and the run record (landreach verify DIR)
+Every file goes to a temporary that is flushed to disk and renamed into place; temporaries left by a
+killed run are removed by the next one. Exit codes: 0 done, 1 computation failed, 2 bad input; with
+--study, a footprint stopped by Ctrl-C / SIGTERM writes what finished and exits 130 / 143.
 
 Options:
   --out DIR                 output folder (created if missing)                                  [required]
@@ -94,17 +99,6 @@ async function exists(path: string): Promise<boolean> {
   try { await access(path); return true; } catch { return false; }
 }
 
-/** Writes via a temporary file and a rename, so a failure never leaves a half-written output. */
-async function writeAtomic(path: string, data: Uint8Array | string): Promise<void> {
-  const tmp = `${path}.tmp-${process.pid}`;
-  try {
-    await writeFile(tmp, data);
-    await rename(tmp, path);
-  } catch (err) {
-    await unlink(tmp).catch(() => undefined);
-    throw err;
-  }
-}
 
 function stats(values: Float32Array, scale = 1) {
   let n = 0, sum = 0, max = -Infinity;
@@ -180,11 +174,16 @@ async function run(args: string[], io: CliIo): Promise<number> {
     safeReachable: join(outDir, 'safe-reachable.tif'),
     geojson: join(outDir, 'footprint.geojson'),
   };
-  const outputs = Object.values(files).filter((f) => study || (f !== files.safeReachable && f !== files.geojson));
+  const manifestPath = join(outDir, manifestName('hazard'));
+  const outputs = [...Object.values(files).filter((f) => study || (f !== files.safeReachable && f !== files.geojson)), manifestPath];
   if (outputs.includes(demPath)) throw new UsageError(`--out would overwrite the input DEM '${demPath}'; choose another folder`);
   if (!flags.overwrite) {
     for (const p of outputs) if (await exists(p)) throw new UsageError(`'${p}' already exists; pass --overwrite to replace it or choose another --out`);
   }
+  const removed = removeOrphanTemporaries(outDir, [...Object.values(files), manifestPath].map((f) => basename(f)));
+  if (removed.length) io.stderr(`removed ${removed.length} temporary file(s) left in ${outDir} by an interrupted run: ${removed.join(', ')}\n`);
+  const startedAt = new Date();
+  const stop = new StopRequest(io).install();
   try {
     io.stderr(`reading ${demPath}\n`);
     const { grid, format } = await readDem(demPath, flags);
@@ -193,14 +192,20 @@ async function run(args: string[], io: CliIo): Promise<number> {
     const geo = gridRasterGeoreference(grid);
     await mkdir(outDir, { recursive: true });
     const common = { width: grid.width, height: grid.height, georeference: geo };
-    await writeAtomic(files.slope, writeGeoTiff({ ...common, data: toDegrees(map.slope_rad), noData: NaN, description: 'Horn (1981) slope, degrees' }));
-    await writeAtomic(files.footprintSlope, writeGeoTiff({ ...common, data: toDegrees(map.footprintSlope_rad), noData: NaN, description: `footprint-plane slope over ${map.limits.landerDiameter_m} m, degrees` }));
-    await writeAtomic(files.roughness, writeGeoTiff({ ...common, data: map.roughness_m, noData: NaN, description: `footprint roughness (${map.limits.roughnessMeasure}), metres` }));
-    await writeAtomic(files.hazard, writeGeoTiff({ ...common, data: map.flags, description: 'hazard flags: 0 safe, 1 slope, 2 roughness, 4 unknown, 8 margin' }));
+    // Rasters are encoded when written (one at a time); the whole set goes out through writeOutputSet:
+    // flushed temporaries renamed into place, then the manifest (files.ts).
+    const out: OutputFile[] = [
+      { path: files.slope, bytes: () => writeGeoTiff({ ...common, data: toDegrees(map.slope_rad), noData: NaN, description: 'Horn (1981) slope, degrees' }) },
+      { path: files.footprintSlope, bytes: () => writeGeoTiff({ ...common, data: toDegrees(map.footprintSlope_rad), noData: NaN, description: `footprint-plane slope over ${map.limits.landerDiameter_m} m, degrees` }) },
+      { path: files.roughness, bytes: () => writeGeoTiff({ ...common, data: map.roughness_m, noData: NaN, description: `footprint roughness (${map.limits.roughnessMeasure}), metres` }) },
+      { path: files.hazard, bytes: () => writeGeoTiff({ ...common, data: map.flags, description: 'hazard flags: 0 safe, 1 slope, 2 roughness, 4 unknown, 8 margin' }) },
+    ];
     const summary: Record<string, unknown> = hazardSummary(demPath, format, grid, map, limits);
+    let cancelled = false;
     if (study) {
-      const reach = await studyReach(study, grid, map, flags, io);
-      await writeAtomic(files.safeReachable, writeGeoTiff({ ...common, data: reach.safe.mask, description: 'safe and reachable (1) with the reserve kept' }));
+      const reach = await studyReach(study, grid, map, flags, io, stop.signal);
+      cancelled = reach.summary.footprintCancelled;
+      out.push({ path: files.safeReachable, bytes: () => writeGeoTiff({ ...common, data: reach.safe.mask, description: 'safe and reachable (1) with the reserve kept' }) });
       summary.safeReachable = reach.summary;
       summary.sites = reach.sites;
       (summary.outputs as Record<string, string>).safeReachable = 'safe-reachable.tif';
@@ -210,16 +215,28 @@ async function run(args: string[], io: CliIo): Promise<number> {
         north_m,
         properties: { propellant_kg, height_m, hazardDistance_m: Number.isFinite(hazardDistance_m) ? hazardDistance_m : null, footprintSlope_deg, roughness_m },
       }));
-      await writeAtomic(files.geojson, hazardFootprintGeoJson(study, grid, reach.field, reach.target_m, sites, io));
+      out.push({ path: files.geojson, text: hazardFootprintGeoJson(study, grid, reach.field, reach.target_m, sites, io, cancelled) });
       io.stdout(`safe and reachable: ${(reach.safe.area_m2 / 1e6).toFixed(4)} km² (${reach.safe.cells} cells); best site ${reach.sites[0] ? `${reach.sites[0].east_m.toFixed(0)} m east, ${reach.sites[0].north_m.toFixed(0)} m north, ${reach.sites[0].propellant_kg.toFixed(1)} kg` : 'none'}\n`);
     }
-    await writeAtomic(files.summary, JSON.stringify(summary, null, 2) + '\n');
+    out.push({ path: files.summary, text: JSON.stringify(summary, null, 2) + '\n' });
+    writeOutputSet(out, {
+      name: manifestName('hazard'),
+      run: {
+        status: cancelled ? 'stopped-early' : 'complete',
+        stoppedBy: stop.signalName,
+        command: 'hazard',
+        startedAt: startedAt.toISOString(),
+        finishedAt: new Date().toISOString(),
+      },
+    });
     io.stdout(`safe fraction ${(100 * map.safeFraction).toFixed(2)} % (${map.safeCells} of ${grid.width * grid.height} cells); wrote ${outDir}\n`);
     if (!map.roughnessAssessed) io.stderr('note: the DEM is coarser than half the lander diameter, so roughness was not assessed\n');
-    return 0;
+    return stop.exitCode ?? 0;
   } catch (err) {
     if (err instanceof TerrainInputError) throw new UsageError(err.message);
     throw err;
+  } finally {
+    stop.dispose();
   }
 }
 
@@ -228,7 +245,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
  * target at the given DEM coordinates), reachable = minimum propellant ≤ usable − reserve, laid onto the
  * DEM grid (conservatively), intersected with the safe cells, and the best sites ranked.
  */
-async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, flags: Flags, io: CliIo) {
+async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, flags: Flags, io: CliIo, signal: AbortSignal) {
   const geom = gridGeometry(grid);
   const centreE = grid.originEast_m + (grid.width * grid.pixelSizeX_m) / 2;
   const centreN = grid.originNorth_m - (grid.height * grid.pixelSizeY_m) / 2;
@@ -262,7 +279,7 @@ async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, fla
   const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
   const budget = usable - study.vehicle.propellantReserve_kg;
   io.stderr(`footprint of '${study.name}' over the DEM: ${nx} × ${ny} targets (${(geom.width * geom.pixelSizeX_m).toFixed(0)} × ${(geom.height * geom.pixelSizeY_m).toFixed(0)} m)\n`);
-  const run = await runStudyFootprint(study, targets, { nodes: FOOTPRINT_NODES, workers }, io);
+  const run = await runStudyFootprint(study, targets, { nodes: FOOTPRINT_NODES, workers, signal }, io);
   // The footprint's rows run south → north; the terrain's grid rows north → south.
   const n = nx * ny;
   const reachable = new Uint8Array(n);

@@ -7,7 +7,8 @@ import os from 'node:os';
 import { join } from 'node:path';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
-import { readStudy, writeFilesAtomically } from '../files.ts';
+import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
+import { StopRequest } from '../stop.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { FOOTPRINT_NODES, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
 import { makeTargetGrid, parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
@@ -64,6 +65,11 @@ dispersion (1σ values; the defaults are illustrative, not from any mission):
                         dispersed samples; each target's fraction of samples reaching it with the reserve kept
                         The study also writes study-dispersion.svg: the nominal footprint (--grid, --extent-m)
                         with its reserve boundary and the landing ellipse, a map for reports.
+
+Every study also writes study-<name>.manifest.json last (each file's size and SHA-256, and the run record).
+Ctrl-C (once or more), SIGTERM or SIGHUP stop the study: what finished is written, marked as stopped early
+(the report's "cancelled", a "# STOPPED EARLY" line in the CSV), and the exit code is 128 + the signal's
+number (130 Ctrl-C, 143 SIGTERM). Exit codes otherwise: 0 done, 1 computation failed, 2 bad input.
 
 ${CAUTION}`;
 
@@ -146,18 +152,21 @@ function grid(o: Common): TargetGrid {
   return makeTargetGrid({ halfWidthEast_m: o.extent, halfWidthNorth_m: o.extent, nx: o.grid[0], ny: o.grid[1] });
 }
 
-async function runReserve(o: Common, study: Study, io: CliIo) {
+/** Lets a signal's handler run between steps that compute on this thread (the signal is then seen). */
+const signalsHandled = () => new Promise<void>((resolve) => setImmediate(resolve));
+
+async function runReserve(o: Common, study: Study, io: CliIo, signal: AbortSignal) {
   const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
   const reserves = o.values.reserves
     ? LIST('--reserves', o.values.reserves)
     : defaultReserves(usable);
   for (const r of reserves) if (r >= usable) throw new UsageError(`--reserves: ${r} kg is not below the usable propellant, ${usable} kg`);
-  const run = await runStudyFootprint(study, grid(o), { nodes: o.nodes, workers: o.workers }, io);
+  const run = await runStudyFootprint(study, grid(o), { nodes: o.nodes, workers: o.workers, signal }, io);
   const rows = reserveStudy(run.field, usable, reserves);
   return { rows, csv: reserveStudyCsvLines(rows), cancelled: run.cancelled, extra: { usablePropellant_kg: usable } };
 }
 
-async function runAltitude(o: Common, study: Study, io: CliIo) {
+async function runAltitude(o: Common, study: Study, io: CliIo, signal: AbortSignal) {
   const h0 = study.ignition.position_m[2];
   const altitudes = o.values.altitudes ? LIST('--altitudes', o.values.altitudes) : defaultAltitudes(h0);
   const ruleName = o.values.rule ?? 'fixed-velocity';
@@ -179,6 +188,11 @@ async function runAltitude(o: Common, study: Study, io: CliIo) {
   const rows: AltitudeStudyRow[] = [];
   let cancelled = false;
   for (const h of altitudes) {
+    await signalsHandled();
+    if (signal.aborted) {
+      cancelled = true;
+      break;
+    }
     let at: Study;
     try {
       at = studyAtAltitude(study, h, rule);
@@ -190,7 +204,7 @@ async function runAltitude(o: Common, study: Study, io: CliIo) {
       rows.push(altitudeRowByDirections(at, h, usable - reserve, directions, o.nodes));
       continue;
     }
-    const run = await runStudyFootprint(at, grid(o), { nodes: o.nodes, workers: o.workers }, io);
+    const run = await runStudyFootprint(at, grid(o), { nodes: o.nodes, workers: o.workers, signal }, io);
     cancelled ||= run.cancelled;
     rows.push(altitudeRowFromField(run.field, h, usable - reserve));
     if (run.cancelled) break;
@@ -199,7 +213,7 @@ async function runAltitude(o: Common, study: Study, io: CliIo) {
   return { rows, csv: altitudeStudyCsvLines(rows), cancelled, extra: { method, directions: method === 'directions' ? directions : null, rule: ruleName, reserve_kg: reserve, requiredRadius_m: required, minimumAltitude: minimum } };
 }
 
-async function runDispersion(o: Common, study: Study, io: CliIo, hash: string) {
+async function runDispersion(o: Common, study: Study, io: CliIo, hash: string, signal: AbortSignal) {
   const numberOpt = (name: string, fallback: number, check: (v: number) => boolean, fix: string) => {
     const t = o.values[name];
     if (t === undefined) return fallback;
@@ -228,15 +242,20 @@ async function runDispersion(o: Common, study: Study, io: CliIo, hash: string) {
   const csv = dispersionCsvLines(r);
   const e = r.ellipse;
   const reachSamples = numberOpt('reach-samples', 0, (v) => Number.isInteger(v) && v >= 0 && v <= 1000, 'must be a whole number from 0 to 1000');
-  let reachMap: { csv: string; samples: number; cancelled: boolean } | null = null;
+  let reachMap: { csv: string | null; samples: number; cancelled: boolean } | null = null;
   if (reachSamples > 0) {
     const draws = reachSampleStudies(study, sigmas, reachSamples, seed);
     const fields = [];
     const budgets: number[] = [];
     let cancelled = false;
     for (const [i, s] of draws.entries()) {
+      await signalsHandled();
+      if (signal.aborted) {
+        cancelled = true;
+        break;
+      }
       io.stderr(`reach map: sample ${i + 1} of ${reachSamples}\n`);
-      const run = await runStudyFootprint(s.study, grid(o), { nodes: o.nodes, workers: o.workers }, io);
+      const run = await runStudyFootprint(s.study, grid(o), { nodes: o.nodes, workers: o.workers, signal }, io);
       fields.push(run.field);
       budgets.push(s.budget_kg);
       if (run.cancelled) {
@@ -244,16 +263,17 @@ async function runDispersion(o: Common, study: Study, io: CliIo, hash: string) {
         break;
       }
     }
-    const pr = probabilityOfReach(fields, budgets);
-    reachMap = { csv: reachMapCsv(fields[0], pr, fields.length, study.vehicle.propellantReserve_kg), samples: fields.length, cancelled };
+    reachMap = fields.length
+      ? { csv: reachMapCsv(fields[0], probabilityOfReach(fields, budgets), fields.length, study.vehicle.propellantReserve_kg), samples: fields.length, cancelled }
+      : { csv: null, samples: 0, cancelled };
   }
   // The map for a report: the nominal footprint on --grid / --extent-m with its reserve boundary, and the
   // landing ellipse over it.
   io.stderr('map: the nominal footprint\n');
-  const nominal = await runStudyFootprint(study, grid(o), { nodes: o.nodes, workers: o.workers }, io);
+  const nominal = await runStudyFootprint(study, grid(o), { nodes: o.nodes, workers: o.workers, signal }, io);
   const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
   const reserve = study.vehicle.propellantReserve_kg;
-  const fig = footprintFigures(nominal.field, { usable_kg: usable, reserve_kg: reserve }, { elapsed_s: nominal.progress.elapsed_s, cancelled: nominal.cancelled });
+  const fig = footprintFigures(nominal.field, { usable_kg: usable, reserve_kg: reserve }, { cancelled: nominal.cancelled });
   const map = footprintMapSvg(nominal.field, fig, {
     title: `Landing ellipse and divert footprint — ${study.name}`,
     caption: [
@@ -265,7 +285,7 @@ async function runDispersion(o: Common, study: Study, io: CliIo, hash: string) {
     rows: [{ ...e }],
     csv,
     cancelled: (reachMap?.cancelled ?? false) || nominal.cancelled,
-    extraFiles: [...(reachMap ? [{ suffix: '-reach.csv', text: reachMap.csv }] : []), { suffix: '.svg', text: map }],
+    extraFiles: [...(reachMap?.csv ? [{ suffix: '-reach.csv', text: reachMap.csv }] : []), { suffix: '.svg', text: map }],
     extra: {
       sigmas,
       samples,
@@ -288,28 +308,56 @@ export const studyCommand: CliCommand = {
     const study = readStudy(o.study);
     const inputs = { study, kind: o.kind, grid: o.grid, extent_m: o.extent, nodes: o.nodes, options: o.values };
     const hash = await inputsHash(inputs);
-    const result: { rows: unknown[]; csv: string[]; cancelled: boolean; extra: Record<string, unknown>; summaryLine?: string; extraFiles?: { suffix: string; text: string }[] } =
-      o.kind === 'reserve' ? await runReserve(o, study, io) : o.kind === 'ignition-altitude' ? await runAltitude(o, study, io) : await runDispersion(o, study, io, hash);
-    mkdirSync(o.out, { recursive: true });
-    const report = studyReport({ kind: o.kind, inputs, inputsHash: hash, cancelled: result.cancelled, extra: result.extra, rows: result.rows });
-    const base = join(o.out, `study-${o.kind}`);
-    writeFilesAtomically([
-      { path: `${base}.csv`, text: result.csv.join('\n') + '\n' },
-      { path: `${base}.json`, text: report },
-      ...(result.extraFiles ?? []).map((f) => ({ path: `${base}${f.suffix}`, text: f.text })),
-    ]);
-    if (result.summaryLine) io.stdout(result.summaryLine + '\n');
-    else io.stdout(result.csv.slice(1).join('\n') + '\n');
-    if ('minimumAltitude' in result.extra && result.extra.requiredRadius_m !== null) {
-      const m = result.extra.minimumAltitude as { altitude_m: number; bracketed: boolean } | null;
-      io.stdout(
-        m === null
-          ? `no sampled altitude meets a ${result.extra.requiredRadius_m} m divert radius with ${result.extra.reserve_kg} kg in reserve\n`
-          : `lowest ignition altitude for a ${result.extra.requiredRadius_m} m divert radius: ${m.bracketed ? '' : 'at most '}${m.altitude_m.toFixed(0)} m\n`,
-      );
+    const stem = `study-${o.kind}`;
+    const removed = removeOrphanTemporaries(o.out, ['.csv', '.json', '.svg', '-reach.csv'].map((x) => stem + x).concat(manifestName(stem)));
+    if (removed.length) io.stderr(`removed ${removed.length} temporary file(s) left in ${o.out} by an interrupted run: ${removed.join(', ')}\n`);
+    const startedAt = new Date();
+    const stop = new StopRequest(io).install();
+    try {
+      const result: { rows: unknown[]; csv: string[]; cancelled: boolean; extra: Record<string, unknown>; summaryLine?: string; extraFiles?: { suffix: string; text: string }[] } =
+        o.kind === 'reserve'
+          ? await runReserve(o, study, io, stop.signal)
+          : o.kind === 'ignition-altitude'
+            ? await runAltitude(o, study, io, stop.signal)
+            : await runDispersion(o, study, io, hash, stop.signal);
+      mkdirSync(o.out, { recursive: true });
+      const report = studyReport({ kind: o.kind, inputs, inputsHash: hash, cancelled: result.cancelled, extra: result.extra, rows: result.rows });
+      const base = join(o.out, stem);
+      // A partial study says so under the caution line (the report's "cancelled" says it too).
+      const csv = result.cancelled ? [result.csv[0], '# STOPPED EARLY: partial result (the study was stopped before it finished)', ...result.csv.slice(1)] : result.csv;
+      const files = [
+        { path: `${base}.csv`, text: csv.join('\n') + '\n' },
+        { path: `${base}.json`, text: report },
+        ...(result.extraFiles ?? []).map((f) => ({ path: `${base}${f.suffix}`, text: f.text })),
+      ];
+      const manifest = writeOutputSet(files, {
+        name: manifestName(stem),
+        run: {
+          status: result.cancelled ? 'stopped-early' : 'complete',
+          stoppedBy: stop.signalName,
+          command: `study ${o.kind}`,
+          inputsHash: hash,
+          startedAt: startedAt.toISOString(),
+          finishedAt: new Date().toISOString(),
+          elapsed_s: Number(((Date.now() - startedAt.getTime()) / 1000).toFixed(2)),
+          workers: o.workers,
+        },
+      });
+      if (result.summaryLine) io.stdout(result.summaryLine + '\n');
+      else io.stdout(result.csv.slice(1).join('\n') + '\n');
+      if ('minimumAltitude' in result.extra && result.extra.requiredRadius_m !== null) {
+        const m = result.extra.minimumAltitude as { altitude_m: number; bracketed: boolean } | null;
+        io.stdout(
+          m === null
+            ? `no sampled altitude meets a ${result.extra.requiredRadius_m} m divert radius with ${result.extra.reserve_kg} kg in reserve\n`
+            : `lowest ignition altitude for a ${result.extra.requiredRadius_m} m divert radius: ${m.bracketed ? '' : 'at most '}${m.altitude_m.toFixed(0)} m\n`,
+        );
+      }
+      const written = [...files.map((f) => f.path), manifest];
+      io.stdout(`${result.cancelled ? `stopped early${stop.signalName ? ` by ${stop.signalName}` : ''}; ` : ''}wrote ${written.join(', ')}\n\n${CAUTION}\n`);
+      return stop.exitCode ?? 0;
+    } finally {
+      stop.dispose();
     }
-    const written = [`${base}.csv`, `${base}.json`, ...(result.extraFiles ?? []).map((f) => `${base}${f.suffix}`)];
-    io.stdout(`${result.cancelled ? 'stopped early; ' : ''}wrote ${written.join(', ')}\n\n${CAUTION}\n`);
-    return 0;
   },
 };

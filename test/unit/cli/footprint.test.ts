@@ -27,7 +27,7 @@ describe('landreach footprint', () => {
     const out = join(dir, 'demo');
     const code = await main(['footprint', DEMO, '--out', out, '--grid', '5x5', '--extent-m', '2000', '--workers', '2'], h.io);
     expect(code, h.err.join('')).toBe(0);
-    expect(readdirSync(out).sort()).toEqual(['footprint.csv', 'footprint.geojson', 'footprint.json', 'footprint.svg']);
+    expect(readdirSync(out).sort()).toEqual(['footprint.csv', 'footprint.geojson', 'footprint.json', 'footprint.manifest.json', 'footprint.svg']);
     const report = JSON.parse(readFileSync(join(out, 'footprint.json'), 'utf8'));
     expect(report.format).toBe('landreach-footprint');
     expect(report.caution).toMatch(/not flight software/);

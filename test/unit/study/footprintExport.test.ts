@@ -49,6 +49,16 @@ describe('footprint exports', () => {
     expect(csv[10]).toBe('100,100,unreachable,,,,35.5,4,0');
   });
 
+  it('CSV of a partial field (a run stopped early) says so under the caution, counting the targets not computed', () => {
+    const f = smallField();
+    for (let k = 6; k < 9; k++) f.status[k] = TARGET.pending;
+    const csv = footprintCsv(f, 250).trim().split('\n');
+    expect(csv[0]).toBe(`# ${CAUTION}`);
+    expect(csv[1]).toBe('# STOPPED EARLY: partial result; 3 of 9 targets not computed (status pending)');
+    expect(csv[2]).toMatch(/^east_m,/);
+    expect(csv).toHaveLength(12);
+  });
+
   it('GeoJSON (RFC 7946): null geometry without a georeference, lon/lat with one, metres in properties', () => {
     const f = smallField();
     const [reachable] = propellantRegions(f, [250]);
@@ -73,13 +83,14 @@ describe('footprint exports', () => {
         studyName: 'test',
         inputsHash: 'abc123',
         inputs: { a: 1 },
-        summary: {} as never,
+        summary: { cancelled: false } as never,
         field: f,
         contourLevels_kg: [220],
-        createdAt: '2026-12-01T00:00:00.000Z',
       }),
     );
-    expect(report).toMatchObject({ format: 'landreach-footprint', version: 1, caution: CAUTION, appVersion: APP_VERSION, inputsHash: 'abc123' });
+    expect(report).toMatchObject({ format: 'landreach-footprint', version: 2, caution: CAUTION, appVersion: APP_VERSION, inputsHash: 'abc123', stoppedEarly: false });
+    // Nothing that varies between runs of the same inputs (the CLI's manifest keeps the date and time).
+    expect(report).not.toHaveProperty('createdAt');
     expect(report.grid.status[8]).toBe('unreachable');
     expect(report.grid.propellant_kg[8]).toBeNull();
     expect(report.grid.propellant_kg[1]).toBe(210);

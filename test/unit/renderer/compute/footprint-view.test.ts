@@ -54,7 +54,7 @@ describe('footprint drape', () => {
   });
 
   it('outlines the contours below the budget and the reserve boundary, the boundary emphasised', () => {
-    const figures = footprintFigures(planeField(), { usable_kg: 140, reserve_kg: 20 }, { elapsed_s: 1, cancelled: false }, [90, 110, 120]);
+    const figures = footprintFigures(planeField(), { usable_kg: 140, reserve_kg: 20 }, { cancelled: false }, [90, 110, 120]);
     const outlines = footprintOutlines(figures);
     // The budget is 140 − 20 = 120 kg: the 120 kg band is the reserve boundary itself, drawn once, in bold.
     expect(outlines.map((o) => [o.level_kg, o.emphasis])).toEqual([[90, false], [110, false], [120, true]]);
