@@ -10,7 +10,8 @@ import type { DescentSetup, IgnitionState } from '../descent/setup.ts';
 import { searchFreeFinalTime } from '../descent/search.ts';
 import { DescentSolver } from '../descent/solver.ts';
 import type { TargetEvaluator } from './engine.ts';
-import { TARGET, type TargetOutcome } from './field.ts';
+import { BETWEEN_NODES, TARGET, type TargetOutcome } from './field.ts';
+import { verifyBetweenNodes } from '../descent/verify.ts';
 
 /** Everything a worker needs to evaluate targets (plain data, sent with every row job). */
 export interface DescentFootprintContext {
@@ -84,7 +85,8 @@ export function descentEvaluator(ctx: DescentFootprintContext, backend?: ConicBa
       propellantTolerance: ctx.propellantTolerance_kg ?? FOOTPRINT_PROPELLANT_TOLERANCE_KG,
       propellantBudget_kg: ctx.propellantBudget_kg,
       guessFromUnreachable,
-      decode: false,
+      // Decoded (cheap next to the solves) for the dense re-simulation between nodes below.
+      decode: true,
     });
     if (Number.isFinite(res.curvature) && res.curvature > 0) curvature = res.curvature;
     if (res.status === 'solved') {
@@ -114,6 +116,9 @@ export function descentEvaluator(ctx: DescentFootprintContext, backend?: ConicBa
       peakTilt_deg: res.status === 'solved' || res.status === 'relaxation-gap' ? res.peakTilt * RAD : NaN,
       miss_m: res.status === 'unreachable' ? res.miss : res.status === 'solver-failure' ? NaN : 0,
       solves: res.solves,
+      betweenNodes: res.trajectory && res.kind !== 'min-landing-error'
+        ? (verifyBetweenNodes(ctx.setup, res.trajectory, [east, north, ctx.targetHeight_m]).violations.length === 0 ? BETWEEN_NODES.met : BETWEEN_NODES.missed)
+        : BETWEEN_NODES.unchecked,
     };
     return out;
   };

@@ -89,6 +89,7 @@ function outcomeAt(r: FieldRow, i: number): TargetOutcome {
     peakTilt_deg: r.peakTilt_deg[i],
     miss_m: r.miss_m[i],
     solves: r.solves[i],
+    betweenNodes: r.betweenNodes[i],
   };
 }
 

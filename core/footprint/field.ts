@@ -57,7 +57,19 @@ export interface TargetOutcome {
   miss_m: number;
   /** Cone-program solves spent on this target. */
   solves: number;
+  /** Dense re-simulation between nodes (core/descent/verify.ts): BETWEEN_NODES.* (optional: not checked). */
+  betweenNodes?: number;
 }
+
+/** Codes stored in `betweenNodes`: whether the target's trajectory meets every constraint between its nodes too. */
+export const BETWEEN_NODES = {
+  /** Not checked (no flyable trajectory, or not computed). */
+  unchecked: 0,
+  /** Every constraint met between the nodes within VERIFY_TOLERANCES. */
+  met: 1,
+  /** At least one constraint missed between the nodes beyond its tolerance. */
+  missed: 2,
+} as const;
 
 export interface FootprintField {
   readonly nx: number;
@@ -70,6 +82,8 @@ export interface FootprintField {
   readonly peakTilt_deg: Float32Array;
   readonly miss_m: Float32Array;
   readonly solves: Uint16Array;
+  /** BETWEEN_NODES.* per target. */
+  readonly betweenNodes: Uint8Array;
 }
 
 export function emptyField(grid: TargetGrid): FootprintField {
@@ -85,6 +99,7 @@ export function emptyField(grid: TargetGrid): FootprintField {
     peakTilt_deg: new Float32Array(n).fill(NaN),
     miss_m: new Float32Array(n).fill(NaN),
     solves: new Uint16Array(n),
+    betweenNodes: new Uint8Array(n),
   };
 }
 
@@ -97,6 +112,7 @@ export interface FieldRow {
   peakTilt_deg: Float32Array;
   miss_m: Float32Array;
   solves: Uint16Array;
+  betweenNodes: Uint8Array;
 }
 
 export function emptyRow(row: number, nx: number): FieldRow {
@@ -108,6 +124,7 @@ export function emptyRow(row: number, nx: number): FieldRow {
     peakTilt_deg: new Float32Array(nx).fill(NaN),
     miss_m: new Float32Array(nx).fill(NaN),
     solves: new Uint16Array(nx),
+    betweenNodes: new Uint8Array(nx),
   };
 }
 
@@ -118,6 +135,7 @@ export function setOutcome(row: FieldRow, col: number, o: TargetOutcome): void {
   row.peakTilt_deg[col] = o.peakTilt_deg;
   row.miss_m[col] = o.miss_m;
   row.solves[col] = Math.min(65535, o.solves);
+  row.betweenNodes[col] = o.betweenNodes ?? BETWEEN_NODES.unchecked;
 }
 
 export function writeRow(field: FootprintField, r: FieldRow): void {
@@ -128,10 +146,11 @@ export function writeRow(field: FootprintField, r: FieldRow): void {
   field.peakTilt_deg.set(r.peakTilt_deg, o);
   field.miss_m.set(r.miss_m, o);
   field.solves.set(r.solves, o);
+  field.betweenNodes.set(r.betweenNodes, o);
 }
 
 export function rowBuffers(r: FieldRow): ArrayBuffer[] {
-  return [r.status, r.propellant_kg, r.timeOfFlight_s, r.peakTilt_deg, r.miss_m, r.solves].map((a) => a.buffer as ArrayBuffer);
+  return [r.status, r.propellant_kg, r.timeOfFlight_s, r.peakTilt_deg, r.miss_m, r.solves, r.betweenNodes].map((a) => a.buffer as ArrayBuffer);
 }
 
 export function countByStatus(field: FootprintField): Record<keyof typeof TARGET, number> {

@@ -140,7 +140,7 @@ export async function refineBudgetBoundary(
 }
 
 /** The per-target arrays a field and a finished row share. */
-type TargetArrays = Pick<FootprintField, 'status' | 'propellant_kg' | 'timeOfFlight_s' | 'peakTilt_deg' | 'miss_m' | 'solves'>;
+type TargetArrays = Pick<FootprintField, 'status' | 'propellant_kg' | 'timeOfFlight_s' | 'peakTilt_deg' | 'miss_m' | 'solves' | 'betweenNodes'>;
 
 function copyTarget(from: TargetArrays, k: number, to: TargetArrays, K: number): void {
   to.status[K] = from.status[k];
@@ -149,6 +149,7 @@ function copyTarget(from: TargetArrays, k: number, to: TargetArrays, K: number):
   to.peakTilt_deg[K] = from.peakTilt_deg[k];
   to.miss_m[K] = from.miss_m[k];
   to.solves[K] = from.solves[k];
+  to.betweenNodes[K] = from.betweenNodes[k];
 }
 
 /** Σ wᵢ vᵢ over the finite vᵢ, renormalised; NaN if none is finite. */

@@ -11,7 +11,7 @@ import type { Ellipse } from './ellipse.ts';
 import { guaranteedDivertRadius, propellantRegions, regionBounds, type PropellantRegion, type DivertRadius } from './contours.ts';
 import type { DescentFootprintContext } from './descentEvaluator.ts';
 import type { BoundaryRefinement } from './refine.ts';
-import { countByStatus, TARGET, type FootprintField } from './field.ts';
+import { BETWEEN_NODES, countByStatus, TARGET, type FootprintField } from './field.ts';
 
 /** Nodes for footprint targets: at N = 30 the demo study's propellant is within 0.04 kg of N = 200 (DEVELOPERS.md). */
 export const FOOTPRINT_NODES = 30;
@@ -74,8 +74,10 @@ export function footprintFigures(
   let minP = Infinity;
   let maxP = -Infinity;
   let solves = 0;
+  let missed = 0;
   for (let k = 0; k < field.status.length; k++) {
     solves += field.solves[k];
+    if (field.betweenNodes[k] === BETWEEN_NODES.missed) missed++;
     if (field.status[k] !== TARGET.reachable) continue;
     minP = Math.min(minP, field.propellant_kg[k]);
     maxP = Math.max(maxP, field.propellant_kg[k]);
@@ -92,6 +94,7 @@ export function footprintFigures(
     minPropellant_kg: Number.isFinite(minP) ? Number(minP.toFixed(3)) : NaN,
     maxPropellant_kg: Number.isFinite(maxP) ? Number(maxP.toFixed(3)) : NaN,
     solves: solves + (refinement?.extraSolves ?? 0),
+    betweenNodesMissed: missed,
     cancelled: run.cancelled,
   };
   if (refinement) {

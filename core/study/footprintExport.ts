@@ -9,6 +9,9 @@ export { footprintGeoJson, rightHandRule, type FootprintGeoJsonInput, type Footp
 
 const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget', 'relaxation-gap'] as const;
 
+/** `between_nodes`: the dense re-simulation's verdict (empty: not checked). */
+const BETWEEN_NODES_NAME = ['', 'met', 'missed'] as const;
+
 const num = (v: number, digits: number) => (Number.isFinite(v) ? Number(v.toFixed(digits)).toString() : '');
 
 /** Targets not computed (status pending): a run stopped early leaves them. */
@@ -25,7 +28,8 @@ export function partialResultLine(field: FootprintField): string | null {
 }
 
 /**
- * One row per target. `within_budget` is 1 where the minimum propellant is at most `budget_kg` (the usable
+ * One row per target. `between_nodes` is `met` when the re-simulated trajectory meets every constraint between its
+ * nodes, `missed` when one is missed beyond tolerance, empty when not checked. `within_budget` is 1 where the minimum propellant is at most `budget_kg` (the usable
  * propellant less the reserve), 0 where it is certainly above it or unreachable, empty where not computed or
  * not established (a relaxation-gap target whose best flyable trajectory is above the budget).
  * A partial field (a run stopped early) gets a second comment line saying so.
@@ -35,7 +39,7 @@ export function footprintCsv(field: FootprintField, budget_kg: number): string {
   const lines = [
     `# ${CAUTION}`,
     ...(partial ? [partial] : []),
-    'east_m,north_m,status,propellant_kg,time_of_flight_s,peak_tilt_deg,miss_m,solves,within_budget',
+    'east_m,north_m,status,propellant_kg,time_of_flight_s,peak_tilt_deg,miss_m,solves,within_budget,between_nodes',
   ];
   for (let j = 0; j < field.ny; j++) {
     for (let i = 0; i < field.nx; i++) {
@@ -57,6 +61,7 @@ export function footprintCsv(field: FootprintField, budget_kg: number): string {
           num(field.miss_m[k], 2),
           String(field.solves[k]),
           within,
+          BETWEEN_NODES_NAME[field.betweenNodes[k]],
         ].join(','),
       );
     }
@@ -74,6 +79,11 @@ export interface FootprintSummary {
   overBudget: number;
   /** Targets where the relaxation was not lossless and no flyable trajectory within tolerance of its bound was found. */
   relaxationGap: number;
+  /**
+   * Targets whose trajectory misses a constraint between its nodes beyond tolerance in the dense
+   * re-simulation (core/descent/verify.ts); 0 when all met.
+   */
+  betweenNodesMissed: number;
   /**
    * Present when the budget boundary was refined coarse-to-fine: area and divert radius then come from the
    * refined boundary; `solves` includes the refinement's.

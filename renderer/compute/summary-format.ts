@@ -14,6 +14,9 @@ export function footprintFigureList(s: FootprintSummary): Figure[] {
   const done = s.targets - s.pending;
   return [
     { label: 'Targets', value: `${s.reachable} reachable / ${done} computed`, note: s.pending ? `${s.pending} not computed${s.cancelled ? ' (cancelled)' : ''}` : undefined },
+    ...(s.betweenNodesMissed > 0
+      ? [{ label: 'Between nodes', value: `${s.betweenNodesMissed} targets miss a constraint`, note: 'in the dense re-simulation of their trajectories (CSV column between_nodes)' }]
+      : []),
     // Never merged with the reachable ones: the relaxation was not lossless there (core/footprint/field.ts).
     ...(s.relaxationGap > 0
       ? [{ label: 'Relaxation gap', value: `${s.relaxationGap} targets`, note: 'not lossless: flyable cost above the certified bound (contours use the flyable cost)' }]

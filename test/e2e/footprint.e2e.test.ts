@@ -128,7 +128,7 @@ describe.runIf(browser)('footprint in Chromium (demo study, small grids)', () =>
     const text = await fs.readFile((await download.path())!, 'utf8');
     const lines = text.trim().split('\n');
     expect(lines[0]).toMatch(/^# Preliminary design/);
-    expect(lines[1]).toBe('east_m,north_m,status,propellant_kg,time_of_flight_s,peak_tilt_deg,miss_m,solves,within_budget');
+    expect(lines[1]).toBe('east_m,north_m,status,propellant_kg,time_of_flight_s,peak_tilt_deg,miss_m,solves,within_budget,between_nodes');
     const rows = lines.slice(2).map((l) => l.split(','));
     expect(rows).toHaveLength(49);
     // The grid's corners are at ±500 m.

@@ -299,6 +299,9 @@ async function runFootprint(o: Options, study: Study, mass: { reserve: number; u
       `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
         (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : '') +
         (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (not lossless: flyable cost above the certified bound)` : ''),
+      ...(summary.betweenNodesMissed > 0
+        ? [`warning:     ${summary.betweenNodesMissed} target(s) miss a constraint between their nodes in the dense re-simulation (see between_nodes in footprint.csv)`]
+        : []),
       `budget:      ${budget.toFixed(1)} kg (usable ${usable} kg − reserve ${reserve} kg)`,
       `area:        ${(reachable.area_m2 / 1e6).toFixed(3)} km² reachable with the reserve kept` +
         (summary.boundaryRefinement

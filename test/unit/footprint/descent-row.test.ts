@@ -10,7 +10,7 @@ import { searchFreeFinalTime } from '../../../core/descent/search.ts';
 import { DescentSolver } from '../../../core/descent/solver.ts';
 import { descentEvaluator } from '../../../core/footprint/descentEvaluator.ts';
 import { solveRow } from '../../../core/footprint/engine.ts';
-import { TARGET } from '../../../core/footprint/field.ts';
+import { BETWEEN_NODES, TARGET } from '../../../core/footprint/field.ts';
 import { makeTargetGrid } from '../../../core/footprint/grid.ts';
 import { lowPropellantDemo } from '../../support/scenarios.ts';
 
@@ -24,5 +24,10 @@ describe('a footprint row across the reachable edge', () => {
     const cold = searchFreeFinalTime(new DescentSolver(ctx.setup, landreachConicBackend(), ctx.ignition), [-2975, -350, 0], ctx.ignition, { decode: false });
     expect(row.status[i]).toBe(cold.status === 'solved' ? TARGET.reachable : TARGET.unreachable);
     if (cold.status === 'unreachable') expect(Math.abs(row.miss_m[i] - cold.miss)).toBeLessThan(1);
+    // Every reachable target's trajectory was re-simulated between its nodes; unreachable ones were not.
+    for (let k = 0; k < row.status.length; k++) {
+      if (row.status[k] === TARGET.reachable) expect(row.betweenNodes[k]).not.toBe(BETWEEN_NODES.unchecked);
+      if (row.status[k] === TARGET.unreachable) expect(row.betweenNodes[k]).toBe(BETWEEN_NODES.unchecked);
+    }
   }, 120_000);
 });

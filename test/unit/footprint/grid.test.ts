@@ -59,7 +59,7 @@ describe('struct-of-arrays field', () => {
     expect(field.miss_m[3]).toBe(120);
     expect(countByStatus(field)).toEqual({ pending: 4, reachable: 1, unreachable: 1, failed: 0, overBudget: 0, relaxationGap: 0 });
     const buffers = rowBuffers(row);
-    expect(new Set(buffers).size).toBe(6);
+    expect(new Set(buffers).size).toBe(7);
   });
 });
 

@@ -42,11 +42,11 @@ describe('footprint exports', () => {
   it('CSV: units in the header, one row per target, budget flag, the caution first', () => {
     const csv = footprintCsv(smallField(), 250).trim().split('\n');
     expect(csv[0]).toBe(`# ${CAUTION}`);
-    expect(csv[1]).toBe('east_m,north_m,status,propellant_kg,time_of_flight_s,peak_tilt_deg,miss_m,solves,within_budget');
+    expect(csv[1]).toBe('east_m,north_m,status,propellant_kg,time_of_flight_s,peak_tilt_deg,miss_m,solves,within_budget,between_nodes');
     expect(csv).toHaveLength(11);
-    expect(csv[2]).toBe('-100,-100,reachable,200,40,12.5,0,4,1');
-    expect(csv[8]).toBe('-100,100,reachable,260,40,12.5,0,4,0');
-    expect(csv[10]).toBe('100,100,unreachable,,,,35.5,4,0');
+    expect(csv[2]).toBe('-100,-100,reachable,200,40,12.5,0,4,1,');
+    expect(csv[8]).toBe('-100,100,reachable,260,40,12.5,0,4,0,');
+    expect(csv[10]).toBe('100,100,unreachable,,,,35.5,4,0,');
   });
 
   it('CSV of a partial field (a run stopped early) says so under the caution, counting the targets not computed', () => {

@@ -6,7 +6,7 @@ import type { FootprintSummary } from '../../../../core/study/footprintExport.ts
 import type { PickedTrajectory } from '../../../../core/footprint/pickedTrajectory.ts';
 
 const summary: FootprintSummary = {
-  targets: 49, reachable: 30, unreachable: 5, failed: 0, pending: 14, overBudget: 0, relaxationGap: 0,
+  targets: 49, reachable: 30, unreachable: 5, failed: 0, pending: 14, overBudget: 0, relaxationGap: 0, betweenNodesMissed: 0,
   usablePropellant_kg: 500, reserve_kg: 20, budget_kg: 480,
   reachableArea_m2: 12_345_678, guaranteedDivertRadius_m: 1234.6, divertRadiusLimitedByGrid: true,
   minPropellant_kg: 201.319, maxPropellant_kg: 282.921, solves: 300, cancelled: true,
@@ -89,7 +89,7 @@ describe('workspace study → core study', () => {
 
 describe('relaxation-gap targets are shown apart', () => {
   it('the footprint figures list them when there are any', () => {
-    const base: FootprintSummary = { targets: 9, reachable: 7, unreachable: 0, failed: 0, pending: 0, overBudget: 0, relaxationGap: 2, usablePropellant_kg: 480, reserve_kg: 20, budget_kg: 460, reachableArea_m2: 1e6, guaranteedDivertRadius_m: 500, divertRadiusLimitedByGrid: false, minPropellant_kg: 200, maxPropellant_kg: 260, solves: 30, cancelled: false };
+    const base: FootprintSummary = { targets: 9, reachable: 7, unreachable: 0, failed: 0, pending: 0, overBudget: 0, relaxationGap: 2, betweenNodesMissed: 0, usablePropellant_kg: 480, reserve_kg: 20, budget_kg: 460, reachableArea_m2: 1e6, guaranteedDivertRadius_m: 500, divertRadiusLimitedByGrid: false, minPropellant_kg: 200, maxPropellant_kg: 260, solves: 30, cancelled: false };
     expect(footprintFigureList(base).find((f) => f.label === 'Relaxation gap')?.value).toBe('2 targets');
     expect(footprintFigureList({ ...base, relaxationGap: 0 }).find((f) => f.label === 'Relaxation gap')).toBeUndefined();
   });
