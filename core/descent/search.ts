@@ -176,7 +176,9 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
   const maxSolves = options.maxSolves ?? 60;
   const startSolves = solver.solves;
   const budget = () => maxSolves - (solver.solves - startSolves);
-  const probes = [...new Set((options.probes ?? DEFAULT_PROBES).map((f) => Math.min(br.lower * f, br.upper - tol)))];
+  // Capped below the upper bound, but never below the lower one (a bracket narrower than tol: a few kg of
+  // usable propellant at a high lowest thrust) — a probe must be a positive time of flight.
+  const probes = [...new Set((options.probes ?? DEFAULT_PROBES).map((f) => Math.max(br.lower, Math.min(br.lower * f, br.upper - tol))))];
   const starts = options.tfGuess !== undefined && options.tfGuess > br.lower && options.tfGuess < br.upper ? [options.tfGuess, ...probes] : probes;
   const warnings: string[] = [];
   const result = (partial: Partial<DescentResult> & Pick<DescentResult, 'status'>): DescentResult => ({
