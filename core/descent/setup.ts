@@ -155,16 +155,6 @@ export function validateIgnition(state: IgnitionState, s: DescentSetup): void {
       'ignition.mass', `${state.mass} kg`, `must be above the dry mass ${s.vehicle.dryMass} kg and at most the wet mass ${s.vehicle.wetMass} kg`,
     );
   }
-  // The speed limit holds from the first node after ignition (program.ts): a faster ignition would be
-  // slowed within one node step, an answer that depends on the number of nodes rather than on physics.
-  const speed = norm3(state.velocity);
-  const limit = s.constraints.maxSpeed;
-  if (limit !== null && speed > limit) {
-    throw new DescentInputError(
-      'ignition.velocity', `[${state.velocity.join(', ')}] m/s`,
-      `its speed ${speed.toFixed(1)} m/s is above the speed limit maxSpeed ${limit} m/s, which the descent could not meet from its start; raise the limit or start slower`,
-    );
-  }
 }
 
 /** Checks a target position (relative to the nominal target, m) against the model's range. */
@@ -175,12 +165,24 @@ export function validateTarget(target: Vec3): void {
 }
 
 /**
- * Checks that need the landing plane's height (the target's height plus the gate): throws
- * DescentInputError when the gate is above the ignition, or when no burn the propellant allows can reach
- * the plane at all (landingWindow.ts: necessary conditions, so nothing valid is refused).
+ * Checks of one descent case, run when a study is read (not by DescentSolver's constructor): throws
+ * DescentInputError when the ignition is faster than the speed limit, the gate is above the ignition, or
+ * no burn the propellant allows can reach the landing plane (the target's height plus the gate) at all
+ * (landingWindow.ts: necessary conditions, so nothing valid is refused).
  */
 export function validateLanding(s: DescentSetup, state: IgnitionState, targetHeight_m: number): void {
   const c = s.constraints;
+  // The speed limit holds from the first node after ignition (program.ts): a faster ignition would be
+  // slowed within one node step, an answer that depends on the number of nodes rather than on physics.
+  // (Checked here, not by the solver's constructor: a dispersed sample of a study may start faster, and
+  // the solver still answers for it as before.)
+  const speed = norm3(state.velocity);
+  if (c.maxSpeed !== null && speed > c.maxSpeed) {
+    throw new DescentInputError(
+      'ignition.velocity', `[${state.velocity.join(', ')}] m/s`,
+      `its speed ${speed.toFixed(1)} m/s is above the speed limit maxSpeed ${c.maxSpeed} m/s, which the descent could not meet from its start; raise the limit or start slower`,
+    );
+  }
   if (!(Math.abs(targetHeight_m) <= MAX_DISTANCE_M)) {
     throw new DescentInputError('target.height', `${targetHeight_m} m`, `must be within ${MAX_DISTANCE_M / 1000} km of the nominal target (the flat-planet model's range)`);
   }

@@ -83,8 +83,8 @@ describe('burn time against the landing plane', () => {
 describe('constraints the descent could not meet from its start or at its end', () => {
   it('an ignition speed above maxSpeed is refused; equal to it is accepted', () => {
     const s = setupWith({}, { maxSpeed: 50 });
-    expect(fieldOf(() => validateIgnition({ position: [0, 0, 500], velocity: [30, 0, -40.0001], mass: 1100 }, s))).toBe('ignition.velocity');
-    expect(fieldOf(() => validateIgnition({ position: [0, 0, 500], velocity: [30, 0, -40], mass: 1100 }, s))).toBeNull(); // |(30, 40)| = 50
+    expect(fieldOf(() => validateLanding(s, { position: [0, 0, 500], velocity: [30, 0, -40.0001], mass: 1100 }, 0))).toBe('ignition.velocity');
+    expect(fieldOf(() => validateLanding(s, { position: [0, 0, 500], velocity: [30, 0, -40], mass: 1100 }, 0))).toBeNull(); // |(30, 40)| = 50
   });
 
   it('a gate above the ignition altitude is refused, at it is accepted', () => {
