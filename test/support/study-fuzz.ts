@@ -3,6 +3,9 @@
  * (exit 0), an input error that names a field (exit 2, "  field: value — message"), or anything else — an
  * internal error, which the study fuzz test forbids. A study the command accepts must also be accepted by
  * the footprint's setup (the same validation for every command and the app).
+ *
+ * `--no-refine`: the 2N − 1-node check refuses studies of 1,001 to 2,000 nodes with exit 1 (issue 11, a
+ * separate defect); drop the flag once that is fixed.
  */
 import { writeFileSync } from 'node:fs';
 import { main } from '../../core/cli/main.ts';
