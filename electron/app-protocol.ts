@@ -5,7 +5,9 @@
  * be requested. The resolver is pure and tested; main.ts registers the scheme with Electron.
  */
 import type { CustomScheme } from 'electron';
+import { readFile } from 'node:fs/promises';
 import * as path from 'node:path';
+import { APP_PAGE_CSP, APP_WORKER_CSP } from './content-policy.ts';
 
 export const APP_SCHEME = 'app';
 export const APP_HOST = 'landreach';
@@ -31,11 +33,27 @@ const CONTENT_TYPES: Record<string, string> = {
   '.woff2': 'font/woff2',
 };
 
+export interface AppResponse {
+  file: string;
+  contentType: string;
+  /** Response headers: content type, the content security policy, no MIME sniffing. */
+  headers: Record<string, string>;
+}
+
+/**
+ * The policy header of a response. A document's policy is the page's (the same as its <meta>, so the
+ * two agree); a script's matters only when it starts a worker, which inherits no <meta> policy and
+ * gets the worker policy (the page's plus WebAssembly compilation for the solver's kernels).
+ */
+function policyFor(contentType: string): string {
+  return contentType.startsWith('text/javascript') ? APP_WORKER_CSP : APP_PAGE_CSP;
+}
+
 /**
  * Map a request URL to a file inside `rootDir`, or null when the request must be refused: another
  * scheme or host, a path that escapes the folder (`..`, encoded or not), or a NUL byte.
  */
-export function resolveAppRequest(requestUrl: string, rootDir: string): { file: string; contentType: string } | null {
+export function resolveAppRequest(requestUrl: string, rootDir: string): AppResponse | null {
   let url: URL;
   try {
     url = new URL(requestUrl);
@@ -55,5 +73,22 @@ export function resolveAppRequest(requestUrl: string, rootDir: string): { file: 
   const file = path.resolve(root, `.${pathname}`);
   if (file !== root && !file.startsWith(root + path.sep)) return null;
   const contentType = CONTENT_TYPES[path.extname(file).toLowerCase()] ?? 'application/octet-stream';
-  return { file, contentType };
+  return {
+    file,
+    contentType,
+    headers: { 'content-type': contentType, 'content-security-policy': policyFor(contentType), 'x-content-type-options': 'nosniff' },
+  };
+}
+
+/** The app:// handler main.ts registers: the file with its headers, or 404 for anything refused or missing. */
+export function createAppRequestHandler(rootDir: string, read: (file: string) => Promise<Uint8Array> = readFile): (request: Request) => Promise<Response> {
+  return async (request) => {
+    const resolved = resolveAppRequest(request.url, rootDir);
+    if (!resolved) return new Response('Not found', { status: 404 });
+    try {
+      return new Response((await read(resolved.file)) as Uint8Array<ArrayBuffer>, { headers: resolved.headers });
+    } catch {
+      return new Response('Not found', { status: 404 });
+    }
+  };
 }

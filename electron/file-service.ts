@@ -12,6 +12,7 @@ import * as path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { checkEnvelope, describeEnvelopeProblem } from './study-envelope.ts';
 import { MAX_PAYLOAD_BYTES, MAX_TERRAIN_BYTES, TERRAIN_EXTENSIONS } from './bridge-api.ts';
+import { decodeUtf8Text } from './text-decode.ts';
 
 /** The subset of node:fs/promises this module uses. */
 export interface FileSystem {
@@ -20,6 +21,8 @@ export interface FileSystem {
   unlink: typeof nodeFs.unlink;
   readFile: typeof nodeFs.readFile;
   stat: typeof nodeFs.stat;
+  lstat: typeof nodeFs.lstat;
+  readlink: typeof nodeFs.readlink;
   mkdir: typeof nodeFs.mkdir;
 }
 
@@ -29,6 +32,8 @@ export const realFileSystem: FileSystem = {
   unlink: nodeFs.unlink,
   readFile: nodeFs.readFile,
   stat: nodeFs.stat,
+  lstat: nodeFs.lstat,
+  readlink: nodeFs.readlink,
   mkdir: nodeFs.mkdir,
 };
 
@@ -40,19 +45,69 @@ function isMissing(error: unknown): boolean {
   return (error as NodeJS.ErrnoException)?.code === 'ENOENT';
 }
 
-/** Write `data` to `target` atomically (temp file in the same folder + fsync + rename + folder fsync). */
+/** Links followed at most, as POSIX's SYMLOOP_MAX is commonly 40 (Linux's limit). */
+const MAX_LINKS = 40;
+
+/**
+ * The file a write to `target` must replace: `target` itself, or, when it is a symbolic link, the file
+ * the chain of links ends at (which may not exist yet). Replacing the link itself would turn it into a
+ * regular file and leave the file it pointed to stale.
+ */
+async function resolveLinks(target: string, fs: FileSystem): Promise<string> {
+  let file = path.resolve(target);
+  for (let i = 0; i < MAX_LINKS; i++) {
+    let info;
+    try {
+      info = await fs.lstat(file);
+    } catch (error) {
+      if (isMissing(error)) return file;
+      throw error;
+    }
+    if (!info.isSymbolicLink()) return file;
+    file = path.resolve(path.dirname(file), await fs.readlink(file));
+  }
+  throw new FileServiceError(`Not saved: ${path.basename(target)} is a chain of more than ${MAX_LINKS} links (a loop?). Choose the file itself.`);
+}
+
+/** Whether the current user may write the existing file `info` describes (its owner's write bit when it is ours). */
+function writable(info: { mode: number; uid: number }): boolean {
+  const uid = typeof process.getuid === 'function' ? process.getuid() : undefined;
+  // As its owner (and as root, which file permissions would not stop), honour the owner's write bit:
+  // a file made read-only was made so on purpose. Windows reports read-only files as mode 0o444.
+  if (uid === undefined || uid === info.uid || uid === 0) return (info.mode & 0o200) !== 0;
+  return (info.mode & 0o002) !== 0 || (info.mode & 0o020) !== 0;
+}
+
+/**
+ * Write `data` to `target` atomically (temp file in the same folder + fsync + rename + folder fsync).
+ * A symbolic link is written through to the file it points to; a replaced file keeps its permission
+ * bits; a read-only file is not replaced (FileServiceError saying so).
+ */
 export async function atomicWriteFile(target: string, data: string | Uint8Array, fs: FileSystem = realFileSystem): Promise<void> {
-  const dir = path.dirname(target);
-  const temp = path.join(dir, `.${path.basename(target)}.${process.pid}.${randomBytes(6).toString('hex')}.tmp`);
+  const file = await resolveLinks(target, fs);
+  let mode = 0o644;
+  try {
+    const info = await fs.stat(file);
+    if (!writable(info)) {
+      throw new FileServiceError(`Not saved: ${path.basename(target)} is read-only. Make it writable first, or use Save As to choose another name.`);
+    }
+    mode = info.mode & 0o7777;
+  } catch (error) {
+    if (!isMissing(error)) throw error;
+  }
+  const dir = path.dirname(file);
+  const temp = path.join(dir, `.${path.basename(file)}.${process.pid}.${randomBytes(6).toString('hex')}.tmp`);
   let handle: nodeFs.FileHandle | undefined;
   try {
     // 'wx': fail rather than reuse a temp name that somehow exists.
     handle = await fs.open(temp, 'wx', 0o644);
+    // The replaced file's permission bits, exactly (the umask applies only to a new file's 0644).
+    if (mode !== 0o644) await handle.chmod(mode);
     await handle.writeFile(data);
     await handle.sync();
     await handle.close();
     handle = undefined;
-    await fs.rename(temp, target);
+    await fs.rename(temp, file);
   } catch (error) {
     if (handle) await handle.close().catch(() => undefined);
     await fs.unlink(temp).catch(() => undefined);
@@ -75,7 +130,7 @@ async function syncDirectory(dir: string, fs: FileSystem): Promise<void> {
   }
 }
 
-/** Read a text file, refusing anything larger than the IPC payload limit. */
+/** Read a text file, refusing anything larger than the IPC payload limit or not UTF-8 (decodeUtf8Text). */
 export async function readTextFile(file: string, fs: FileSystem = realFileSystem): Promise<string> {
   const info = await fs.stat(file);
   if (!info.isFile()) throw new FileServiceError(`${path.basename(file)} is not a file. Choose a study file.`);
@@ -84,7 +139,13 @@ export async function readTextFile(file: string, fs: FileSystem = realFileSystem
       `${path.basename(file)} is ${(info.size / 1048576).toFixed(1)} MiB, larger than the ${MAX_PAYLOAD_BYTES / 1048576} MiB a study may be. Choose the study file, not a data file.`,
     );
   }
-  return fs.readFile(file, 'utf8');
+  const decoded = decodeUtf8Text(new Uint8Array(await fs.readFile(file)));
+  if (!decoded.ok) {
+    throw new FileServiceError(
+      `${path.basename(file)} is not UTF-8 text (byte ${decoded.byte}, line ${decoded.line}). Save it as UTF-8 (any text editor can) and check the names near that line.`,
+    );
+  }
+  return decoded.text;
 }
 
 /** Read a study file and check its envelope; throws FileServiceError with a user-facing message. */

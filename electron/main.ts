@@ -3,7 +3,6 @@
  * imports 'electron' at run time (besides the preload); everything it calls is tested without it.
  */
 import { app, BrowserWindow, dialog, ipcMain, Menu, protocol, session as electronSession, type WebContents } from 'electron';
-import { readFile } from 'node:fs/promises';
 import * as path from 'node:path';
 import { MENU_CHANNEL, type MenuCommand, type MenuCommandDetail } from './bridge-api.ts';
 import { registerIpcHandlers, type Dialogs, type DocumentSession } from './ipc.ts';
@@ -13,7 +12,7 @@ import { RecoveryStore } from './recovery.ts';
 import { applyContentsRules, applySessionRules, type GuardedContents } from './security.ts';
 import { createWindowOptions } from './window-options.ts';
 import { closeDecision } from './close-guard.ts';
-import { APP_SCHEME, APP_SCHEME_PRIVILEGES, APP_URL, resolveAppRequest } from './app-protocol.ts';
+import { APP_SCHEME, APP_SCHEME_PRIVILEGES, APP_URL, createAppRequestHandler } from './app-protocol.ts';
 
 const here = import.meta.dirname;
 const rendererDir = path.join(here, '..', 'dist');
@@ -23,16 +22,8 @@ const appUrl = devUrl ?? APP_URL;
 // Must happen before the app is ready.
 protocol.registerSchemesAsPrivileged([APP_SCHEME_PRIVILEGES]);
 
-/** Serve app:// from the built renderer folder only (see app-protocol.ts). */
-async function serveAppRequest(request: Request): Promise<Response> {
-  const resolved = resolveAppRequest(request.url, rendererDir);
-  if (!resolved) return new Response('Not found', { status: 404 });
-  try {
-    return new Response(await readFile(resolved.file), { headers: { 'content-type': resolved.contentType } });
-  } catch {
-    return new Response('Not found', { status: 404 });
-  }
-}
+/** Serve app:// from the built renderer folder only, every response with its policy header (app-protocol.ts). */
+const serveAppRequest = createAppRequestHandler(rendererDir);
 
 const documentSession: DocumentSession = { currentPath: null, dirty: false, title: 'Untitled study' };
 let mainWindow: BrowserWindow | null = null;
@@ -96,7 +87,7 @@ async function start(): Promise<void> {
     onChange: (what) => (what === 'recent' ? rebuildMenu(recent) : retitle()),
   });
 
-  mainWindow = new BrowserWindow(createWindowOptions(path.join(here, 'preload.cjs')));
+  mainWindow = new BrowserWindow(createWindowOptions(path.join(here, 'preload.cjs'), { packaged: app.isPackaged }));
   mainWindow.once('ready-to-show', () => mainWindow?.show());
   mainWindow.on('close', (event) => {
     const choice = documentSession.dirty

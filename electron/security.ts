@@ -1,7 +1,7 @@
 /**
- * Security rules applied to every window: deny new windows, block navigation away from the app page,
- * refuse every permission, refuse <webview>. Takes Electron objects as parameters (structural types)
- * so it is tested without Electron.
+ * Security rules applied to every window: deny new windows, block navigation away from the app page (in
+ * any frame), refuse every permission, refuse <webview>. Takes Electron objects as parameters
+ * (structural types) so it is tested without Electron.
  */
 
 /** The part of Electron's WebContents these rules use. */
@@ -9,6 +9,7 @@ export interface GuardedContents {
   setWindowOpenHandler(handler: (details: { url: string }) => { action: 'deny' } | { action: 'allow' }): void;
   on(event: 'will-navigate' | 'will-redirect', listener: (event: { preventDefault(): void; url?: string }, url?: string) => void): unknown;
   on(event: 'will-attach-webview', listener: (event: { preventDefault(): void }) => void): unknown;
+  on(event: 'will-frame-navigate', listener: (event: { preventDefault(): void; url: string; isMainFrame: boolean }) => void): unknown;
 }
 
 /** The part of Electron's Session these rules use. */
@@ -62,6 +63,11 @@ export function applyContentsRules(contents: GuardedContents, appUrl: string): v
   };
   contents.on('will-navigate', blockForeign);
   contents.on('will-redirect', blockForeign);
+  // will-navigate covers the main frame only; will-frame-navigate covers every frame. The app has no
+  // frames of its own (its policy says frame-src 'none'), so a sub-frame navigating anywhere is refused.
+  contents.on('will-frame-navigate', (event) => {
+    if (!event.isMainFrame || !isAppPage(event.url, appUrl)) event.preventDefault();
+  });
   contents.on('will-attach-webview', (event) => event.preventDefault());
 }
 

@@ -16,6 +16,7 @@ import type {
 
 export type { ExportKind, MenuCommand, OpenStudyResult, OpenTerrainResult, WriteResult } from '../electron/bridge-api.ts';
 import { MAX_TERRAIN_FILE_BYTES as MAX_TERRAIN_BYTES, TERRAIN_FILE_EXTENSIONS as TERRAIN_EXTENSIONS } from './terrain/terrain-files.ts';
+import { openedStudyText } from './study/core-study.ts';
 
 declare global {
   interface Window {
@@ -79,7 +80,8 @@ export function createBrowserBridge(): LandreachBridge {
       const file = await pickFile('.json,application/json');
       if (!file) return { status: 'cancelled' };
       try {
-        return { status: 'opened', path: file.name, name: file.name, text: await file.text() };
+        // Bytes, not file.text(): that would replace invalid UTF-8 silently; core/study's decoding refuses it.
+        return openedStudyText(file.name, new Uint8Array(await file.arrayBuffer()));
       } catch (error) {
         return { status: 'error', message: `${file.name} cannot be read: ${(error as Error).message}.` };
       }

@@ -19,6 +19,14 @@ export const PRODUCTION_CSP = [
 ].join('; ');
 
 /**
+ * The policy of the app's worker scripts. A worker takes no policy from the page's <meta>; in the desktop
+ * app every app:// response carries a policy header (electron/app-protocol.ts), so workers get this one:
+ * the page's, plus WebAssembly compilation ('wasm-unsafe-eval' allows compiling WebAssembly and nothing
+ * else — no eval of JavaScript), which the solver's kernels need and the page itself does not.
+ */
+export const WORKER_CSP = PRODUCTION_CSP.replace("script-src 'self'", "script-src 'self' 'wasm-unsafe-eval'");
+
+/**
  * The dev server injects component styles as <style> elements for hot reload, which a strict
  * style-src refuses; `npm run web` therefore relaxes style-src only. Builds never use this.
  */

@@ -5,20 +5,23 @@
 import { createHash } from 'node:crypto';
 import { closeSync, existsSync, fsyncSync, openSync, readdirSync, readFileSync, renameSync, unlinkSync, writeSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
-import { parseStudyText, StudyError, type Study } from '../study/index.ts';
+import { decodeStudyBytes, parseStudyText, StudyError, type Study } from '../study/index.ts';
 import { APP_VERSION, CAUTION } from '../study/provenance.ts';
 import { UsageError } from './command.ts';
 
-/** Reads and validates a study file; every problem becomes a UsageError naming the field and the fix. */
+/**
+ * Reads and validates a study file (UTF-8, a byte-order mark allowed; core/study checks the values and
+ * the descent they describe); every problem becomes a UsageError naming the field and the fix.
+ */
 export function readStudy(path: string): Study {
-  let text: string;
+  let bytes: Uint8Array;
   try {
-    text = readFileSync(path, 'utf8');
+    bytes = readFileSync(path);
   } catch (err) {
     throw new UsageError(`cannot read study file '${path}': ${(err as NodeJS.ErrnoException).code ?? (err as Error).message} (check the path)`);
   }
   try {
-    return parseStudyText(text, path);
+    return parseStudyText(decodeStudyBytes(bytes, path), path);
   } catch (err) {
     if (err instanceof StudyError) throw new UsageError(err.message);
     throw err;

@@ -37,9 +37,11 @@ export function timeOfFlightBracket(setup: DescentSetup, ignition: IgnitionState
   const vf: Vec3 = [0, 0, -con.gateDescentRate];
   let upper: number;
   let upperIsBound = true;
-  if (rho1 > 0) {
-    upper = (m0 - veh.dryMass) / (alpha * rho1);
+  const bound = (m0 - veh.dryMass) / (alpha * rho1);
+  if (rho1 > 0 && Number.isFinite(bound)) {
+    upper = bound;
   } else {
+    // No bound (or one too large to represent, ρ1 almost 0): the heuristic below.
     const h = Math.max(0, ignition.position[2] - rf[2]);
     const vz = ignition.velocity[2];
     const fall = (vz + Math.sqrt(vz * vz + 2 * gMag * h)) / gMag;
@@ -53,14 +55,24 @@ export function timeOfFlightBracket(setup: DescentSetup, ignition: IgnitionState
     const dr = [0, 1, 2].map((i) => rf[i] - ignition.position[i] - ignition.velocity[i] * t - 0.5 * g[i] * t * t);
     return (landingFree ? Math.abs(dr[2]) : Math.hypot(dr[0], dr[1], dr[2])) <= 0.5 * a * t * t;
   };
+  // First time on a grid of 4000 steps over (0, upper]. When that is the grid's first point, the grid was
+  // too coarse (a huge upper bound, e.g. engines throttling almost to zero): zoom into the first step
+  // until the first admissible time is not the first point or the step is below a millisecond.
   const steps = 4000;
   let lower = upper;
-  for (let i = 1; i <= steps; i++) {
-    const t = (upper * i) / steps;
-    if (ok(t)) {
-      lower = t;
-      break;
+  let span = upper;
+  while (Number.isFinite(span) && span > 0) {
+    let first = 0;
+    for (let i = 1; i <= steps; i++) {
+      if (ok((span * i) / steps)) {
+        first = i;
+        break;
+      }
     }
+    if (first === 0) break;
+    lower = (span * first) / steps;
+    if (first > 1 || span / steps < 1e-3) break;
+    span /= steps;
   }
   lower = Math.max(lower * 0.98, 1e-3);
   return { lower, upper, upperIsBound };

@@ -7,6 +7,9 @@ export const G0 = 9.80665;
 
 export const DEG = Math.PI / 180;
 
+/** Speed of light in vacuum, m/s, exact by the SI definition of the metre (17th CGPM, 1983). */
+export const SPEED_OF_LIGHT = 299_792_458;
+
 export type Vec3 = readonly [number, number, number];
 
 export const norm3 = (v: Vec3): number => Math.hypot(v[0], v[1], v[2]);

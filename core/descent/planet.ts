@@ -7,6 +7,7 @@
  */
 import type { Vec3 } from './constants.ts';
 import { norm3 } from './constants.ts';
+import { DescentInputError } from './inputError.ts';
 
 export interface PlanetModel {
   /** Name for reports. */
@@ -55,17 +56,17 @@ export const MOON: PlanetModel = Object.freeze({
 export const PLANET_PRESETS = { mars: MARS, moon: MOON } as const;
 export type PlanetPresetName = keyof typeof PLANET_PRESETS;
 
-/** Checks a planet model; throws RangeError naming the field. */
+/** Checks a planet model; throws DescentInputError (a RangeError) naming the field. */
 export function validatePlanet(p: PlanetModel): void {
   for (const [field, v] of [['gravity', p.gravity], ['rotationRate', p.rotationRate]] as const) {
     if (v.length !== 3 || !v.every(Number.isFinite)) {
-      throw new RangeError(`planet.${field}: [${v.join(', ')}] (must be three finite numbers)`);
+      throw new DescentInputError(`planet.${field}`, `[${v.join(', ')}]`, 'must be three finite numbers');
     }
   }
   if (!(p.gravity[2] < 0) || norm3(p.gravity) === 0) {
-    throw new RangeError(`planet.gravity: [${p.gravity.join(', ')}] (the vertical component must be negative: gravity points down, z up)`);
+    throw new DescentInputError('planet.gravity', `[${p.gravity.join(', ')}]`, 'the vertical component must be negative: gravity points down, z up');
   }
   if (norm3(p.rotationRate) > 1e-2) {
-    throw new RangeError(`planet.rotationRate: |ω| = ${norm3(p.rotationRate)} rad/s (too fast for this flat-planet model; expected below 1e-2 rad/s)`);
+    throw new DescentInputError('planet.rotationRate', `|ω| = ${norm3(p.rotationRate)} rad/s`, 'too fast for this flat-planet model; expected below 1e-2 rad/s');
   }
 }

@@ -73,7 +73,7 @@ export interface ProgramScales {
 /** Nondimensional units: acceleration from the full-throttle thrust at ignition, a length from the geometry. */
 export function chooseScales(setup: DescentSetup, lengthHint: number): ProgramScales {
   const { rho2 } = deriveVehicle(setup.vehicle);
-  const accel = rho2 / setup.vehicle.wetMass;
+  const accel = Math.max(rho2 / setup.vehicle.wetMass, norm3(setup.planet.gravity));
   const length = Math.max(100, lengthHint);
   const time = Math.sqrt(length / accel);
   return { length, accel, velocity: length / time, time };

@@ -29,6 +29,7 @@ import { slopeMinimise } from './slopeMinimise.ts';
 import type { SlopePoint } from './slopeMinimise.ts';
 import type { ProgramKind } from './program.ts';
 import { NODE } from './program.ts';
+import { DescentInputError } from './inputError.ts';
 import type { IgnitionState } from './setup.ts';
 import type { DescentSolver, FixedTimeSolve } from './solver.ts';
 import type { DecodedTrajectory } from './trajectory.ts';
@@ -139,6 +140,16 @@ export interface DescentResult {
  */
 export const DEFAULT_PROBES: readonly number[] = [2.3, 1.9, 2.7, 1.6, 3.2, 1.35, 4, 1.15, 5.5, 8];
 
+/**
+ * Probe times inside the bracket: multiples of its lower bound, capped below the upper bound; a bracket
+ * narrower than that (a few kg of usable propellant at a high lowest thrust) gets its midpoint, so a
+ * probe is always a time of flight strictly inside it.
+ */
+function probeTimes(br: TimeBracket, multiples: readonly number[] | undefined, tol: number): number[] {
+  const inside = [...new Set((multiples ?? DEFAULT_PROBES).map((f) => Math.min(br.lower * f, br.upper - tol)))].filter((t) => t > br.lower && t < br.upper);
+  return inside.length > 0 ? inside : [0.5 * (br.lower + br.upper)];
+}
+
 interface Phase {
   best: FixedTimeSolve | null;
   /** Certified lower bound on the phase's cost over the window (cost units; −∞ if none). */
@@ -181,9 +192,10 @@ function peakTiltOf(solver: DescentSolver, r: FixedTimeSolve): number {
 export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignition: IgnitionState, options: SearchOptions = {}): DescentResult {
   const con = solver.setup.constraints;
   if (con.minAltitude !== null && ignition.position[2] < target[2] + con.minAltitude) {
-    throw new RangeError(
-      `ignition.position_m[2]: ${ignition.position[2]} m is below the altitude floor ${target[2] + con.minAltitude} m ` +
-      `(target height ${target[2]} m + minimum altitude ${con.minAltitude} m): raise the ignition point, or switch the floor off knowingly`,
+    throw new DescentInputError(
+      'ignition.position', `altitude ${ignition.position[2]} m`,
+      `below the altitude floor ${target[2] + con.minAltitude} m (target height ${target[2]} m + minimum altitude ${con.minAltitude} m): ` +
+      'raise the ignition point, or switch the floor off knowingly (constraints.stayAboveLandingPlane: false)',
     );
   }
   const br = options.bracket ?? timeOfFlightBracket(solver.setup, ignition, target);
@@ -196,7 +208,7 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
   const L = solver.scales.length;
   const m0 = ignition.mass;
   const warnings: string[] = [];
-  const probes = [...new Set((options.probes ?? DEFAULT_PROBES).map((f) => Math.min(br.lower * f, br.upper - tol)))].filter((t) => t > br.lower);
+  const probes = probeTimes(br, options.probes, tol);
   const guess = options.tfGuess !== undefined && options.tfGuess > br.lower && options.tfGuess < br.upper ? options.tfGuess : undefined;
   const half = options.probeHalfWidth;
   const pair = guess !== undefined && half !== undefined && half > 0 && guess - half > br.lower && guess + half < br.upper;
@@ -339,7 +351,7 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
   // The landing-error problem lands anywhere on the plane: its own bracket, so that a target beyond every
   // landing still gets a closest point (the target's bracket may be empty there).
   const free = options.bracket ?? timeOfFlightBracket(solver.setup, ignition, target, true);
-  const freeProbes = [...new Set((options.probes ?? DEFAULT_PROBES).map((f) => Math.min(free.lower * f, free.upper - tol)))].filter((t) => t > free.lower);
+  const freeProbes = probeTimes(free, options.probes, tol);
   const errStarts = [...guessStarts, ...freeProbes];
   const err = runPhase({ kind: 'min-landing-error', starts: errStarts, allStarts: false, stopBelow: missTolerance, knownInfeasible: [], window: free });
   if (!err.best) {

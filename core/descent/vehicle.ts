@@ -9,7 +9,8 @@
  *   α  = 1 / (Isp g0 cos φ)                     [s/m]  ṁ = −α ‖T‖
  *   ρ1 = n T_e cos φ · throttleMin,  ρ2 = n T_e cos φ · throttleMax   [N]  ρ1 ≤ ‖T‖ ≤ ρ2
  */
-import { DEG, G0 } from './constants.ts';
+import { DEG, G0, SPEED_OF_LIGHT } from './constants.ts';
+import { DescentInputError } from './inputError.ts';
 
 export interface VehicleModel {
   /** Mass at ignition with all propellant, kg. */
@@ -52,33 +53,36 @@ export function deriveVehicle(v: VehicleModel): VehicleDerived {
   };
 }
 
-function positive(field: string, value: number, unit: string): void {
+function positive(field: 'wetMass' | 'dryMass' | 'isp' | 'thrustPerEngine', value: number, unit: string): void {
   if (!Number.isFinite(value) || value <= 0) {
-    throw new RangeError(`vehicle.${field}: ${value} (must be a positive number of ${unit})`);
+    throw new DescentInputError(`vehicle.${field}`, String(value), `must be a positive number of ${unit}`);
   }
 }
 
-/** Checks a vehicle model; throws RangeError naming the field, the value and the fix. */
+/** Checks a vehicle model; throws DescentInputError (a RangeError) naming the field, the value and the fix. */
 export function validateVehicle(v: VehicleModel): void {
   positive('wetMass', v.wetMass, 'kg');
   positive('dryMass', v.dryMass, 'kg');
   positive('isp', v.isp, 's');
   positive('thrustPerEngine', v.thrustPerEngine, 'N');
+  // The exhaust speed Isp·g0 of any engine is below the speed of light (299,792,458 m/s, exact by the SI
+  // definition of the metre): Isp < 3.06e7 s.
+  if (v.isp * G0 >= SPEED_OF_LIGHT) {
+    throw new DescentInputError('vehicle.isp', `${v.isp} s`, `gives an exhaust speed Isp·g0 = ${(v.isp * G0).toPrecision(3)} m/s, faster than light; a rocket engine's Isp is at most a few thousand seconds`);
+  }
   if (!(v.dryMass < v.wetMass)) {
-    throw new RangeError(`vehicle.dryMass: ${v.dryMass} kg (must be below the wet mass ${v.wetMass} kg)`);
+    throw new DescentInputError('vehicle.dryMass', `${v.dryMass} kg`, `must be below the wet mass ${v.wetMass} kg`);
   }
   if (!Number.isInteger(v.engineCount) || v.engineCount < 1) {
-    throw new RangeError(`vehicle.engineCount: ${v.engineCount} (must be a whole number ≥ 1)`);
+    throw new DescentInputError('vehicle.engineCount', String(v.engineCount), 'must be a whole number ≥ 1');
   }
   if (!(v.cantAngle >= 0 && v.cantAngle < 80 * DEG)) {
-    throw new RangeError(`vehicle.cantAngle: ${v.cantAngle / DEG}° (must be in [0°, 80°))`);
+    throw new DescentInputError('vehicle.cantAngle', `${v.cantAngle / DEG}°`, 'must be in [0°, 80°)');
   }
   if (!(v.throttleMin >= 0 && v.throttleMin < v.throttleMax && v.throttleMax <= 1)) {
-    throw new RangeError(
-      `vehicle throttle range: [${v.throttleMin}, ${v.throttleMax}] (need 0 ≤ throttleMin < throttleMax ≤ 1)`,
-    );
+    throw new DescentInputError('vehicle.throttleMin', `throttle range [${v.throttleMin}, ${v.throttleMax}]`, 'need 0 ≤ throttleMin < throttleMax ≤ 1');
   }
   if (!(v.pointingLimit > 0)) {
-    throw new RangeError(`vehicle.pointingLimit: ${v.pointingLimit / DEG}° (must be positive; 180° leaves the thrust direction free)`);
+    throw new DescentInputError('vehicle.pointingLimit', `${v.pointingLimit / DEG}°`, 'must be positive; 180° leaves the thrust direction free');
   }
 }

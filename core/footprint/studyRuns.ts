@@ -5,7 +5,7 @@
  * dispersed sample, and the studies' default inputs. Footprints themselves run through engine.ts.
  */
 import type { Study } from '../study/schema.ts';
-import { studyToDescent } from '../study/toDescent.ts';
+import { studyDescentProblem, studyToDescent } from '../study/toDescent.ts';
 import { DescentSolver } from '../descent/solver.ts';
 import { searchFreeFinalTime } from '../descent/search.ts';
 import { landreachConicBackend } from '../descent/conicBackend.ts';
@@ -34,10 +34,17 @@ export const DEFAULT_SIGMAS: DispersionSigmas = { position_m: 50, velocity_mps: 
 /** Monte Carlo defaults of the dispersion study: samples, seed, and the ellipse probability (2-D 3.409σ). */
 export const DEFAULT_DISPERSION = { samples: 1000, seed: 1, probability: 0.997 } as const;
 
-/** The study with its ignition state moved to `altitude_m` by the rule (ignitionAtAltitude). */
+/**
+ * The study with its ignition state moved to `altitude_m` by the rule (ignitionAtAltitude). Throws a
+ * RangeError naming the field when the moved study is no longer a descent the model can be asked about
+ * (the checks every study meets when it is read, core/study studyDescentProblem), e.g. below the gate.
+ */
 export function studyAtAltitude(study: Study, altitude_m: number, rule: IgnitionRule): Study {
   const state = ignitionAtAltitude(study.ignition.position_m, study.ignition.velocity_mps, altitude_m, rule);
-  return { ...study, ignition: { ...study.ignition, position_m: [...state.position], velocity_mps: [...state.velocity] } };
+  const moved: Study = { ...study, ignition: { ...study.ignition, position_m: [...state.position], velocity_mps: [...state.velocity] } };
+  const p = studyDescentProblem(moved);
+  if (p) throw new RangeError(`at an ignition altitude of ${altitude_m} m, ${p.field} (${JSON.stringify(p.value)}) ${p.message}`);
+  return moved;
 }
 
 /**

@@ -4,6 +4,8 @@ import { DEG } from '../descent/constants.ts';
 import { MARS_SIDEREAL_RATE, MARS_SURFACE_GRAVITY, MOON_SIDEREAL_RATE, MOON_SURFACE_GRAVITY, rotationAtLatitude } from '../descent/planet.ts';
 import type { PlanetModel } from '../descent/planet.ts';
 import type { DescentSetup, IgnitionState } from '../descent/setup.ts';
+import { validateIgnition, validateLanding, validateSetup, validateTarget } from '../descent/setup.ts';
+import { DescentInputError, type DescentField } from '../descent/inputError.ts';
 import type { Study } from './schema.ts';
 import { altitudeFloor_m } from './schema.ts';
 
@@ -57,4 +59,79 @@ export function studyToDescent(study: Study): StudyDescent {
     mass: study.ignition.mass_kg ?? v.wetMass_kg,
   };
   return { setup, ignition, target: [study.target.x_m, study.target.y_m, study.target.z_m] };
+}
+
+/** Where each descent-model field comes from in the study file. */
+const STUDY_FIELD: Record<DescentField, string> = {
+  'planet.gravity': 'planet.gravity_mps2',
+  'planet.rotationRate': 'planet.siderealPeriod_h',
+  'vehicle.wetMass': 'vehicle.wetMass_kg',
+  'vehicle.dryMass': 'vehicle.dryMass_kg',
+  'vehicle.isp': 'vehicle.isp_s',
+  'vehicle.engineCount': 'vehicle.engineCount',
+  'vehicle.thrustPerEngine': 'vehicle.thrustPerEngine_N',
+  'vehicle.cantAngle': 'vehicle.cantAngle_deg',
+  'vehicle.throttleMin': 'vehicle.throttleMin',
+  'vehicle.throttleMax': 'vehicle.throttleMax',
+  'vehicle.pointingLimit': 'vehicle.pointingLimit_deg',
+  'constraints.glideSlope': 'constraints.glideSlope_deg',
+  'constraints.maxSpeed': 'constraints.maxSpeed_mps',
+  'constraints.gateHeight': 'constraints.gateHeight_m',
+  'constraints.gateDescentRate': 'constraints.gateDescentRate_mps',
+  'constraints.minAltitude': 'constraints.minAltitude_m',
+  nodes: 'discretisation.nodes',
+  hold: 'discretisation.hold',
+  'ignition.position': 'ignition.position_m',
+  'ignition.velocity': 'ignition.velocity_mps',
+  'ignition.mass': 'ignition.mass_kg',
+  'target.position': 'target',
+  'target.height': 'target.z_m',
+};
+
+/** A problem with a study as a model of a descent: the study field, its value in the file, what to do. */
+export interface StudyDescentProblem {
+  field: string;
+  value: unknown;
+  message: string;
+  /** Set when a derived rule failed rather than one field's own range ('burn-time': no burn reaches the landing plane). */
+  rule?: 'burn-time';
+}
+
+function valueAt(study: Study, path: string): unknown {
+  return path.split('.').reduce<unknown>((node, key) => (node !== null && typeof node === 'object' ? (node as Record<string, unknown>)[key] : undefined), study);
+}
+
+/** The descent model's checks on a study (validateSetup, validateIgnition, validateTarget, validateLanding), or null. */
+function descentCheck(study: Study, target: Vec3): DescentInputError | null {
+  const d = studyToDescent(study);
+  try {
+    validateSetup(d.setup);
+    validateIgnition(d.ignition, d.setup);
+    validateTarget(target);
+    validateLanding(d.setup, d.ignition, target[2]);
+    return null;
+  } catch (err) {
+    if (err instanceof DescentInputError) return err;
+    throw err;
+  }
+}
+
+/**
+ * The one place where a study is checked as a descent: every command and the app read studies through
+ * parseStudy, which runs this after the schema. The checks themselves are the descent model's
+ * (core/descent/setup.ts), so a setup built any other way meets the same rules. `target` (default: the
+ * study's) sets the landing plane's height. Returns null when the study describes a descent the solver
+ * can be asked about.
+ */
+export function studyDescentProblem(study: Study, target: Vec3 = [study.target.x_m, study.target.y_m, study.target.z_m]): StudyDescentProblem | null {
+  const err = descentCheck(study, target);
+  if (!err) return null;
+  let field = STUDY_FIELD[err.field];
+  if (err.rule === 'burn-time') {
+    // Too little burn time: name the reserve or the ignition mass when restoring it alone would do.
+    const v = study.vehicle;
+    if (v.propellantReserve_kg > 0 && !descentCheck({ ...study, vehicle: { ...v, propellantReserve_kg: 0 } }, target)) field = 'vehicle.propellantReserve_kg';
+    else if (study.ignition.mass_kg !== undefined && !descentCheck({ ...study, ignition: { ...study.ignition, mass_kg: undefined } }, target)) field = 'ignition.mass_kg';
+  }
+  return { field, value: valueAt(study, field), message: err.fix, ...(err.rule ? { rule: err.rule } : {}) };
 }

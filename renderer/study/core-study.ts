@@ -2,7 +2,7 @@
  * The workspace's inputs as a core/study Study, validated by core/study's zod schema: what every
  * computation starts from. Errors name the field, the value and the fix (core/study's StudyError).
  */
-import { parseStudyText, StudyError, type Study } from '../../core/study/index.ts';
+import { decodeStudyBytes, parseStudyText, StudyError, type Study } from '../../core/study/index.ts';
 
 export type CoreStudyResult = { ok: true; study: Study; text: string } | { ok: false; message: string };
 
@@ -15,6 +15,16 @@ export function coreStudy(studyText: { ok: true; text: string } | { ok: false; m
     if (error instanceof StudyError) {
       return { ok: false, message: `Not computed: ${error.problems.map((p) => `${p.field} = ${p.value}: ${p.message}`).join('; ')}.` };
     }
+    throw error;
+  }
+}
+
+/** A study file's bytes as the app opens them (browser fallback): core/study's decoding, its errors as a message. */
+export function openedStudyText(name: string, bytes: Uint8Array): { status: 'opened'; path: string; name: string; text: string } | { status: 'error'; message: string } {
+  try {
+    return { status: 'opened', path: name, name, text: decodeStudyBytes(bytes, name) };
+  } catch (error) {
+    if (error instanceof StudyError) return { status: 'error', message: `${name}: ${error.problems.map((p) => `${p.value} ${p.message}`).join('; ')}.` };
     throw error;
   }
 }

@@ -9,6 +9,7 @@
 import { FIELDS, GROUPS, type FieldSpec, type GroupSpec } from './field-table.ts';
 import { STUDY_FORMAT, STUDY_VERSION } from '../../core/study/schema.ts';
 import { MARS_SURFACE_GRAVITY, MOON_SURFACE_GRAVITY } from '../../core/descent/planet.ts';
+import { parseStudyJson, StudyError } from '../../core/study/load.ts';
 
 export { STUDY_FORMAT, STUDY_VERSION };
 
@@ -211,9 +212,12 @@ export function createLocalStudyModel(): StudyModel {
     fromText(text) {
       let doc: unknown;
       try {
-        doc = JSON.parse(text);
+        // core/study's reading: a byte-order mark allowed, nesting bounded (JSON.stringify below would overflow).
+        doc = parseStudyJson(text);
       } catch (error) {
-        throw new StudyFormatError(`The study is not valid JSON (${(error as Error).message}).`);
+        if (!(error instanceof StudyError)) throw error;
+        const p = error.problems[0];
+        throw new StudyFormatError(p.value === 'not JSON' ? `The study is not valid JSON (${p.message.replace(/; fix the JSON syntax$/, '')}).` : `The study cannot be opened: ${p.field} holds ${p.value}; ${p.message}.`);
       }
       if (doc === null || typeof doc !== 'object' || Array.isArray(doc)) throw new StudyFormatError('This is not a Landreach study (it is not a JSON object).');
       const record = doc as Record<string, unknown>;

@@ -185,20 +185,23 @@ async function runAltitude(o: Common, study: Study, io: CliIo, signal: AbortSign
   if (!Number.isInteger(directions) || directions < 3 || directions > 720) {
     throw new UsageError(`--directions ${o.values.directions}: must be a whole number from 3 to 720`);
   }
+  // Every altitude's study is built (and checked) before anything is computed.
+  const studies = altitudes.map((h) => {
+    try {
+      return studyAtAltitude(study, h, rule);
+    } catch (err) {
+      throw new UsageError(`--altitudes ${h}: ${(err as Error).message}`);
+    }
+  });
   const rows: AltitudeStudyRow[] = [];
   let cancelled = false;
-  for (const h of altitudes) {
+  for (const [k, h] of altitudes.entries()) {
     await signalsHandled();
     if (signal.aborted) {
       cancelled = true;
       break;
     }
-    let at: Study;
-    try {
-      at = studyAtAltitude(study, h, rule);
-    } catch (err) {
-      throw new UsageError(`--altitudes ${h}: ${(err as Error).message}`);
-    }
+    const at: Study = studies[k];
     io.stderr(`ignition altitude ${h} m (${ruleName}): position [${at.ignition.position_m.map((v) => v.toFixed(0)).join(', ')}] m\n`);
     if (method === 'directions') {
       rows.push(altitudeRowByDirections(at, h, usable - reserve, directions, o.nodes));

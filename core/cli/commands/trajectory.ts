@@ -7,7 +7,7 @@
 import { readStudy, writeFilesAtomically } from '../files.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
-import { studyToDescent } from '../../study/index.ts';
+import { studyDescentProblem, studyToDescent } from '../../study/index.ts';
 import type { Study } from '../../study/index.ts';
 import { DescentSolver } from '../../descent/solver.ts';
 import { searchFreeFinalTime } from '../../descent/search.ts';
@@ -280,6 +280,14 @@ export const trajectoryCommand: CliCommand = {
     const study = readStudy(o.study);
     const d = studyToDescent(study);
     const target = o.target ?? d.target;
+    if (o.target) {
+      // The study was checked against its own target's height; another height is another landing plane.
+      const p = studyDescentProblem(study, target);
+      if (p) {
+        const about = p.field.startsWith('target') ? '' : ` with this target, ${p.field} (${JSON.stringify(p.value)})`;
+        throw new UsageError(`--target ${o.target.join(',')}:${about} ${p.message}`);
+      }
+    }
     let solver: DescentSolver;
     try {
       solver = new DescentSolver(d.setup, landreachConicBackend(), d.ignition);

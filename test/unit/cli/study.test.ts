@@ -90,6 +90,14 @@ describe('landreach study', () => {
     expect(rows.find(([e, n]) => e === 3500 && n === 3500)?.[2]).toBe(0);
   }, 120_000);
 
+  it('ignition-altitude: an altitude below the gate is an input error naming it, before anything is computed', async () => {
+    // The demo's gate is 20 m above the target: an ignition at 10 m would have to climb to its gate.
+    const h = io();
+    const code = await main(['study', 'ignition-altitude', DEMO, '--out', dir, '--altitudes', '10,1800', '--workers', '1'], h.io);
+    expect(code).toBe(2);
+    expect(h.err.join('')).toMatch(/--altitudes 10: .*constraints\.gateHeight_m .*above the ignition altitude 10 m/);
+  });
+
   it('rejects an unknown study and options of the other study', async () => {
     const h = io();
     expect(await main(['study', 'dispersal', DEMO, '--out', dir], h.io)).toBe(2);

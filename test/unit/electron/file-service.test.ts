@@ -136,6 +136,83 @@ describe('study files', () => {
   });
 });
 
+describe('replacing a file keeps what the user set up (issue 12)', () => {
+  const posix = process.platform !== 'win32';
+
+  it.runIf(posix)('keeps a 0600 study 0600 (and a 0640 export 0640)', async () => {
+    const target = path.join(dir, 'private.landreach.json');
+    await fs.writeFile(target, study({ name: 'first' }), { mode: 0o600 });
+    await fs.chmod(target, 0o600);
+    await writeStudyFile(target, study({ name: 'second' }));
+    expect((await fs.stat(target)).mode & 0o777).toBe(0o600);
+    expect(JSON.parse(await fs.readFile(target, 'utf8')).name).toBe('second');
+    const exported = path.join(dir, 'map.csv');
+    await fs.writeFile(exported, 'old');
+    await fs.chmod(exported, 0o640);
+    await atomicWriteFile(exported, 'new');
+    expect((await fs.stat(exported)).mode & 0o777).toBe(0o640);
+  });
+
+  it('gives a new file the usual 0644 (before the umask)', async () => {
+    const target = path.join(dir, 'new.landreach.json');
+    await writeStudyFile(target, study());
+    const umask = process.umask();
+    if (posix) expect((await fs.stat(target)).mode & 0o777).toBe(0o644 & ~umask);
+  });
+
+  it('refuses to replace a read-only study, says so, and leaves it as it was', async () => {
+    const target = path.join(dir, 'locked.landreach.json');
+    await fs.writeFile(target, study({ name: 'locked' }));
+    await fs.chmod(target, 0o444);
+    const error = await writeStudyFile(target, study({ name: 'other' })).catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(FileServiceError);
+    expect((error as Error).message).toMatch(/Not saved: locked\.landreach\.json is read-only.*Save As/);
+    expect(JSON.parse(await fs.readFile(target, 'utf8')).name).toBe('locked');
+    expect((await fs.stat(target)).mode & 0o777).toBe(0o444);
+    expect(await fs.readdir(dir)).toEqual(['locked.landreach.json']);
+  });
+
+  it.runIf(posix)('writes through a symlink to its target, leaving the link a link', async () => {
+    const realDir = path.join(dir, 'shared');
+    await fs.mkdir(realDir);
+    const real = path.join(realDir, 'site.landreach.json');
+    await fs.writeFile(real, study({ name: 'old' }));
+    const link = path.join(dir, 'site-link.landreach.json');
+    await fs.symlink(path.join('shared', 'site.landreach.json'), link);
+    await writeStudyFile(link, study({ name: 'new' }));
+    expect((await fs.lstat(link)).isSymbolicLink()).toBe(true);
+    expect(JSON.parse(await fs.readFile(real, 'utf8')).name).toBe('new');
+    expect((await fs.readdir(dir)).sort()).toEqual(['shared', 'site-link.landreach.json']);
+    expect(await fs.readdir(realDir)).toEqual(['site.landreach.json']);
+  });
+
+  it.runIf(posix)('follows a chain of links, and a link to a file not yet written', async () => {
+    const real = path.join(dir, 'figure.png');
+    await fs.symlink('figure.png', path.join(dir, 'b.png'));
+    await fs.symlink(path.join(dir, 'b.png'), path.join(dir, 'a.png'));
+    await atomicWriteFile(path.join(dir, 'a.png'), new Uint8Array([1, 2, 3]));
+    expect((await fs.lstat(path.join(dir, 'a.png'))).isSymbolicLink()).toBe(true);
+    expect((await fs.lstat(path.join(dir, 'b.png'))).isSymbolicLink()).toBe(true);
+    expect(new Uint8Array(await fs.readFile(real))).toEqual(new Uint8Array([1, 2, 3]));
+  });
+});
+
+describe('study text as other tools write it', () => {
+  it('opens a study that starts with a UTF-8 byte-order mark (and hands on the text without it)', async () => {
+    const file = path.join(dir, 'bom.landreach.json');
+    await fs.writeFile(file, Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(study())]));
+    expect(await readStudyFile(file)).toBe(study());
+  });
+
+  it('refuses invalid UTF-8 naming the byte and the line, instead of replacing it', async () => {
+    const file = path.join(dir, 'latin1.landreach.json');
+    const text = study({ name: 'XX' });
+    const at = text.indexOf('XX');
+    await fs.writeFile(file, Buffer.concat([Buffer.from(text.slice(0, at)), Buffer.from([0xe9]), Buffer.from(text.slice(at))]));
+    await expect(readStudyFile(file)).rejects.toThrow(new RegExp(`latin1\\.landreach\\.json is not UTF-8 text \\(byte ${at}, line 1\\).*UTF-8`));
+  });
+});
+
 describe('file names', () => {
   it('adds an extension only when missing', () => {
     expect(withExtension('site', 'png')).toBe('site.png');

@@ -144,6 +144,54 @@ describe('export', () => {
     expect(new Uint8Array(await fs.readFile(file))).toEqual(PNG);
   });
 
+  it('writes through the atomic write: temp file in the folder, flushed, renamed over the chosen file', async () => {
+    // Injected file system that records what the handler does; a direct write to the chosen path (or a
+    // write through another module) would leave no temp file, sync or rename in the record.
+    const calls: string[] = [];
+    const real = await import('../../../electron/file-service.ts');
+    const traced = {
+      ...real.realFileSystem,
+      open: (async (file: string, flags?: string, mode?: number) => {
+        const handle = await real.realFileSystem.open(file, flags, mode);
+        calls.push(`open ${path.basename(file)} ${flags}`);
+        const sync = handle.sync.bind(handle);
+        handle.sync = async () => {
+          calls.push(`sync ${path.basename(file)}`);
+          return sync();
+        };
+        return handle;
+      }) as typeof real.realFileSystem.open,
+      rename: async (from: Parameters<typeof fs.rename>[0], to: Parameters<typeof fs.rename>[1]) => {
+        calls.push(`rename ${path.basename(String(from))} -> ${path.basename(String(to))}`);
+        if (String(to).endsWith('fails.csv')) throw new Error('simulated crash before rename');
+        return real.realFileSystem.rename(from, to);
+      },
+    };
+    const withTrace = createIpcHandlers({
+      appUrl: APP, appVersion: '1', session,
+      dialogs: { chooseOpenPath: async () => null, chooseSavePath: async () => nextSave },
+      recent: new RecentFiles(path.join(dir, 'settings', 'recent.json')), recovery: new RecoveryStore(path.join(dir, 'settings', 'recovery.json')),
+      fs: traced,
+    });
+    nextSave = path.join(dir, 'table.csv');
+    await fs.writeFile(nextSave, 'old table');
+    await withTrace[INVOKE_CHANNELS.exportFile](trusted, { kind: 'csv', suggestedName: 'table', data: 'a,b\n1,2\n' });
+    expect(await fs.readFile(nextSave, 'utf8')).toBe('a,b\n1,2\n');
+    const temp = calls.find((c) => /^open \.table\.csv\..*\.tmp wx$/.test(c));
+    expect(temp, calls.join('; ')).toBeDefined();
+    const tempName = temp!.split(' ')[1];
+    expect(calls.indexOf(`sync ${tempName}`)).toBeGreaterThan(calls.indexOf(temp!));
+    expect(calls.indexOf(`rename ${tempName} -> table.csv`)).toBeGreaterThan(calls.indexOf(`sync ${tempName}`));
+    expect(calls.some((c) => c.startsWith('open table.csv'))).toBe(false);
+    // A crash before the rename leaves the old export whole and no temporary file.
+    nextSave = path.join(dir, 'fails.csv');
+    await fs.writeFile(nextSave, 'old');
+    const result = await withTrace[INVOKE_CHANNELS.exportFile](trusted, { kind: 'csv', suggestedName: 'fails', data: 'new' });
+    expect(result).toMatchObject({ status: 'error' });
+    expect(await fs.readFile(nextSave, 'utf8')).toBe('old');
+    expect((await fs.readdir(dir)).filter((f) => f.endsWith('.tmp'))).toEqual([]);
+  });
+
   it('rejects unknown kinds, wrong data types and bytes that are not PNG', async () => {
     await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'exe', suggestedName: 'a', data: 'x' })).rejects.toThrow(/invalid export kind: "exe"/);
     await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'csv', suggestedName: 'a', data: PNG })).rejects.toThrow(/csv export data: expected a string/);

@@ -108,6 +108,8 @@ describe('main process wiring', () => {
     expect(fake.state.windows).toHaveLength(1);
     const web = fake.state.windows[0].options.webPreferences as Record<string, unknown>;
     expect(web).toMatchObject({ contextIsolation: true, sandbox: true, nodeIntegration: false, webSecurity: true });
+    // The stand-in app is not packaged (development): DevTools follow app.isPackaged.
+    expect(web.devTools).toBe(!fake.electron.app.isPackaged);
     expect(String(web.preload)).toMatch(/preload\.cjs$/);
   });
 
@@ -125,7 +127,7 @@ describe('main process wiring', () => {
     const events: string[] = [];
     created({}, { setWindowOpenHandler: (h: typeof openHandler) => (openHandler = h), on: (e: string) => events.push(e) });
     expect(openHandler!({ url: 'https://example.invalid/' })).toEqual({ action: 'deny' });
-    expect(events).toEqual(expect.arrayContaining(['will-navigate', 'will-redirect', 'will-attach-webview']));
+    expect(events).toEqual(expect.arrayContaining(['will-navigate', 'will-frame-navigate', 'will-redirect', 'will-attach-webview']));
   });
 
   it('denies every permission on the default session', () => {

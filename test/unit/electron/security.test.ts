@@ -42,6 +42,24 @@ describe('window and navigation rules', () => {
     expect(f.fire('will-navigate', `${APP}#top`)).toBe(false);
   });
 
+  it('blocks every frame navigation (will-frame-navigate) but the main frame going to the app page', () => {
+    const f = fakeContents();
+    applyContentsRules(f.contents, APP);
+    const frame = (url: string, isMainFrame: boolean) => {
+      let prevented = false;
+      for (const l of f.listeners.get('will-frame-navigate') ?? []) {
+        (l as unknown as (e: { url: string; isMainFrame: boolean; preventDefault(): void }) => void)({ url, isMainFrame, preventDefault: () => (prevented = true) });
+      }
+      return prevented;
+    };
+    expect(f.listeners.get('will-frame-navigate')?.length).toBe(1);
+    expect(frame('https://example.invalid/', true)).toBe(true);
+    expect(frame('https://example.invalid/', false)).toBe(true);
+    // The app has no frames (its CSP says frame-src 'none'): a sub-frame navigating anywhere is refused.
+    expect(frame(APP, false)).toBe(true);
+    expect(frame(`${APP}#top`, true)).toBe(false);
+  });
+
   it('refuses <webview> attachment', () => {
     const f = fakeContents();
     applyContentsRules(f.contents, APP);

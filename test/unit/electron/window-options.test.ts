@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { createWindowOptions } from '../../../electron/window-options.ts';
 
 describe('main window options', () => {
-  const options = createWindowOptions('/app/dist-electron/preload.cjs');
+  const options = createWindowOptions('/app/dist-electron/preload.cjs', { packaged: true });
   const web = options.webPreferences!;
 
   it('isolates the page from Node and Electron (Electron security checklist)', () => {
@@ -23,7 +23,12 @@ describe('main window options', () => {
 
   it('loads the compiled CommonJS preload and rejects anything else', () => {
     expect(web.preload).toBe('/app/dist-electron/preload.cjs');
-    expect(() => createWindowOptions('/app/electron/preload.cts')).toThrow(/invalid preloadPath.*preload\.cjs/);
+    expect(() => createWindowOptions('/app/electron/preload.cts', { packaged: true })).toThrow(/invalid preloadPath.*preload\.cjs/);
+  });
+
+  it('has no DevTools in a packaged (production) build, and DevTools while developing', () => {
+    expect(web.devTools).toBe(false);
+    expect(createWindowOptions('/app/dist-electron/preload.cjs', { packaged: false }).webPreferences!.devTools).toBe(true);
   });
 
   it('starts hidden so the first paint is the finished page', () => {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { BASE_DOCUMENT_KEY, createLocalStudyModel, formatNumber, STUDY_FORMAT, STUDY_VERSION } from '../../../renderer/study/study-model.ts';
+import { BASE_DOCUMENT_KEY, createLocalStudyModel, formatNumber, STUDY_FORMAT, STUDY_VERSION, StudyFormatError } from '../../../renderer/study/study-model.ts';
+import { openedStudyText } from '../../../renderer/study/core-study.ts';
 import { parseStudy, parseStudyText } from '../../../core/study/index.ts';
 import { readFileSync } from 'node:fs';
 import * as envelope from '../../../electron/study-envelope.ts';
@@ -106,6 +107,22 @@ describe('study documents', () => {
     expect(back.raw['vehicle.isp_s']).toBe('301.5');
     expect(back.missing).toBeUndefined();
     expect(JSON.parse(text).vehicle.isp_s).toBe(301.5);
+  });
+
+  it('opens a study with a byte-order mark, and names deep nesting instead of overflowing the stack', () => {
+    const text = JSON.stringify(model.toDocument('Rim trade (invented)', defaults()));
+    expect(model.fromText(`\uFEFF${text}`).name).toBe('Rim trade (invented)');
+    const deep = text.replace(/^\{/, `{"notes": ${'['.repeat(50_000)}${']'.repeat(50_000)}, `);
+    expect(() => model.fromText(deep)).toThrow(StudyFormatError);
+    expect(() => model.fromText(deep)).toThrow(/notes.*nested more than 32 levels/);
+  });
+
+  it('the browser fallback decodes file bytes as the CLI does: byte-order mark dropped, invalid UTF-8 refused', () => {
+    const text = JSON.stringify(model.toDocument('Rim trade (invented)', defaults()));
+    const bom = new Uint8Array([0xef, 0xbb, 0xbf, ...new TextEncoder().encode(text)]);
+    expect(openedStudyText('rim.json', bom)).toEqual({ status: 'opened', path: 'rim.json', name: 'rim.json', text });
+    const bad = new Uint8Array([...new TextEncoder().encode('{"name": "'), 0xff, ...new TextEncoder().encode('"}')]);
+    expect(openedStudyText('rim.json', bad)).toEqual({ status: 'error', message: 'rim.json: byte 10 (line 1) is not valid UTF-8 text; save the file as UTF-8 (any text editor can) and check the names near that line.' });
   });
 
   it('fills missing inputs with defaults and lists them', () => {
