@@ -56,7 +56,6 @@ export interface BetweenNodesReport {
   violations: string[];
 }
 
-const cross = (a: Vec3, b: Vec3): Vec3 => [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
 
 export function verifyBetweenNodes(setup: DescentSetup, traj: DecodedTrajectory, target: Vec3): BetweenNodesReport {
   const s = traj.series;
@@ -66,25 +65,21 @@ export function verifyBetweenNodes(setup: DescentSetup, traj: DecodedTrajectory,
   const w = setup.planet.rotationRate;
   const g = setup.planet.gravity;
   const dt = traj.timeOfFlight / (N - 1);
-  const u = (k: number): Vec3 => [s.thrustX[k] / s.mass[k], s.thrustY[k] / s.mass[k], s.thrustZ[k] / s.mass[k]];
-  const uNodes = Array.from({ length: N }, (_, k) => u(k));
+  const uNodes = Array.from({ length: N }, (_, k): Vec3 => [s.thrustX[k] / s.mass[k], s.thrustY[k] / s.mass[k], s.thrustZ[k] / s.mass[k]]);
   const foh = setup.hold === 'foh';
-  const uAt = (k: number, frac: number): Vec3 => {
-    const a = uNodes[k];
-    if (!foh || k + 1 >= N) return a;
-    const b = uNodes[k + 1];
-    return [a[0] + (b[0] - a[0]) * frac, a[1] + (b[1] - a[1]) * frac, a[2] + (b[2] - a[2]) * frac];
-  };
-  // state: r(3), v(3), m
-  const deriv = (x: number[], uc: Vec3): number[] => {
-    const r: Vec3 = [x[0], x[1], x[2]];
-    const v: Vec3 = [x[3], x[4], x[5]];
-    const cor = cross(w, v);
-    const cen = cross(w, cross(w, r));
-    const un = Math.hypot(uc[0], uc[1], uc[2]);
-    return [v[0], v[1], v[2],
-      uc[0] + g[0] - 2 * cor[0] - cen[0], uc[1] + g[1] - 2 * cor[1] - cen[1], uc[2] + g[2] - 2 * cor[2] - cen[2],
-      -veh.alpha * x[6] * un];
+  // State r(3), v(3), m in preallocated arrays (the footprint runs this for every target: no allocation per step).
+  const [wx, wy, wz] = w;
+  const deriv = (x: Float64Array, ux: number, uy: number, uz: number, out: Float64Array): void => {
+    const vx = x[3], vy = x[4], vz = x[5];
+    // ω × v and ω × (ω × r)
+    const cvx = wy * vz - wz * vy, cvy = wz * vx - wx * vz, cvz = wx * vy - wy * vx;
+    const ax = wy * x[2] - wz * x[1], ay = wz * x[0] - wx * x[2], az = wx * x[1] - wy * x[0];
+    const cx = wy * az - wz * ay, cy = wz * ax - wx * az, cz = wx * ay - wy * ax;
+    out[0] = vx; out[1] = vy; out[2] = vz;
+    out[3] = ux + g[0] - 2 * cvx - cx;
+    out[4] = uy + g[1] - 2 * cvy - cy;
+    out[5] = uz + g[2] - 2 * cvz - cz;
+    out[6] = -veh.alpha * x[6] * Math.sqrt(ux * ux + uy * uy + uz * uz);
   };
   const landing: Vec3 = [target[0], target[1], target[2]];
   const gateTop: Vec3 = [target[0], target[1], target[2] + con.gateHeight];
@@ -97,36 +92,51 @@ export function verifyBetweenNodes(setup: DescentSetup, traj: DecodedTrajectory,
   let thrustLo = Infinity;
   let thrustHi = Infinity;
   let point = pointing ? Infinity : NaN;
-  const observe = (x: number[], uc: Vec3, interior: boolean) => {
+  const observe = (x: Float64Array, ux: number, uy: number, uz: number, interior: boolean) => {
     const m = x[6];
-    const un = Math.hypot(uc[0], uc[1], uc[2]);
+    const un = Math.sqrt(ux * ux + uy * uy + uz * uz);
     const thrust = m * un;
     thrustLo = Math.min(thrustLo, (thrust - veh.rho1) / veh.fullThrust);
     thrustHi = Math.min(thrustHi, (veh.rho2 - thrust) / veh.fullThrust);
-    if (pointing && un > 0) point = Math.min(point, setup.vehicle.pointingLimit - Math.acos(Math.max(-1, Math.min(1, uc[2] / un))));
-    if (con.maxSpeed !== null) speed = Math.min(speed, con.maxSpeed - Math.hypot(x[3], x[4], x[5]));
+    if (pointing && un > 0) point = Math.min(point, setup.vehicle.pointingLimit - Math.acos(Math.max(-1, Math.min(1, uz / un))));
+    if (con.maxSpeed !== null) speed = Math.min(speed, con.maxSpeed - Math.sqrt(x[3] * x[3] + x[4] * x[4] + x[5] * x[5]));
     if (!interior) return;
     if (floor !== null) altitude = Math.min(altitude, x[2] - target[2] - floor);
     if (con.glideSlope !== null) {
-      glide = Math.min(glide, (x[2] - landing[2]) * cot - Math.hypot(x[0] - landing[0], x[1] - landing[1]));
+      const de = x[0] - landing[0];
+      const dn = x[1] - landing[1];
+      glide = Math.min(glide, (x[2] - landing[2]) * cot - Math.sqrt(de * de + dn * dn));
     }
   };
-  let x = [s.x[0], s.y[0], s.z[0], s.vx[0], s.vy[0], s.vz[0], s.mass[0]];
+  const x = Float64Array.of(s.x[0], s.y[0], s.z[0], s.vx[0], s.vy[0], s.vz[0], s.mass[0]);
+  const k1 = new Float64Array(7), k2 = new Float64Array(7), k3 = new Float64Array(7), k4 = new Float64Array(7), y = new Float64Array(7);
   const h = dt / SUBSTEPS;
-  observe(x, uAt(0, 0), false);
+  // Thrust acceleration at fraction f of interval k under the program's hold (FOH: linear; ZOH: constant).
+  const u = [0, 0, 0];
+  const uAt = (k: number, f: number) => {
+    const a = uNodes[k];
+    if (!foh || k + 1 >= N) { u[0] = a[0]; u[1] = a[1]; u[2] = a[2]; return; }
+    const b = uNodes[k + 1];
+    u[0] = a[0] + (b[0] - a[0]) * f; u[1] = a[1] + (b[1] - a[1]) * f; u[2] = a[2] + (b[2] - a[2]) * f;
+  };
+  uAt(0, 0);
+  observe(x, u[0], u[1], u[2], false);
   for (let k = 0; k + 1 < N; k++) {
     for (let j = 0; j < SUBSTEPS; j++) {
-      const f0 = j / SUBSTEPS;
-      const fm = (j + 0.5) / SUBSTEPS;
-      const f1 = (j + 1) / SUBSTEPS;
-      const k1 = deriv(x, uAt(k, f0));
-      const k2 = deriv(x.map((v, i) => v + 0.5 * h * k1[i]), uAt(k, fm));
-      const k3 = deriv(x.map((v, i) => v + 0.5 * h * k2[i]), uAt(k, fm));
-      const k4 = deriv(x.map((v, i) => v + h * k3[i]), uAt(k, f1));
-      x = x.map((v, i) => v + (h / 6) * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i]));
+      uAt(k, j / SUBSTEPS);
+      deriv(x, u[0], u[1], u[2], k1);
+      for (let i = 0; i < 7; i++) y[i] = x[i] + 0.5 * h * k1[i];
+      uAt(k, (j + 0.5) / SUBSTEPS);
+      deriv(y, u[0], u[1], u[2], k2);
+      for (let i = 0; i < 7; i++) y[i] = x[i] + 0.5 * h * k2[i];
+      deriv(y, u[0], u[1], u[2], k3);
+      for (let i = 0; i < 7; i++) y[i] = x[i] + h * k3[i];
+      uAt(k, (j + 1) / SUBSTEPS);
+      deriv(y, u[0], u[1], u[2], k4);
+      for (let i = 0; i < 7; i++) x[i] += (h / 6) * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i]);
       const last = k + 2 === N && j + 1 === SUBSTEPS;
       // The altitude floor and the glide slope hold between ignition and the gate; the end point is the gate.
-      observe(x, uAt(k, f1), !last);
+      observe(x, u[0], u[1], u[2], !last);
     }
   }
   const posErr = Math.hypot(x[0] - gateTop[0], x[1] - gateTop[1], x[2] - gateTop[2]);
