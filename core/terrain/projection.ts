@@ -126,9 +126,9 @@ export function projectedCrsFromGeoKeys(keys: Record<string, unknown>, source: s
   return checkedCrs({ proj4: writeProj(m), name }, source);
 }
 
-function describeChecked(): string {
-  return [...new Set(Object.values(PROJECTIONS_CHECKED))].join(', ');
-}
+/** The checked projection methods in words, for messages. */
+export const CHECKED_PROJECTIONS_TEXT = [...new Set(Object.values(PROJECTIONS_CHECKED))].join(', ');
+const describeChecked = () => CHECKED_PROJECTIONS_TEXT;
 
 /** The CRS itself, refused (TerrainInputError naming it) unless its method is in PROJECTIONS_CHECKED and proj4js parses it. */
 export function checkedCrs(crs: ProjectedCrs, source: string): ProjectedCrs {
@@ -139,7 +139,7 @@ export function checkedCrs(crs: ProjectedCrs, source: string): ProjectedCrs {
     );
   }
   try {
-    proj4.Proj(crs.proj4);
+    makeProjection(crs);
   } catch (err) {
     throw new TerrainInputError(`${source}: projected CRS ${crs.name} (${crs.proj4}) cannot be set up: ${err instanceof Error ? err.message : String(err)}; reproject the DEM (gdalwarp -t_srs …)`);
   }
@@ -168,14 +168,38 @@ export interface Projection {
 /** Keys of a PROJ string that define the body (figure and datum), copied to the geographic CRS. */
 const FIGURE_KEYS = ['a', 'b', 'R', 'rf', 'f', 'es', 'e', 'ellps', 'datum', 'towgs84', 'pm'];
 
+/**
+ * Sets a PROJ string up for proj4js 2.22.0, without changing the projection:
+ * - the false easting/northing (+x_0, +y_0, metres in PROJ) are taken out and added by makeProjection:
+ *   proj4js's sinusoidal forward leaves them out while its inverse subtracts them (and without them its
+ *   inverse returns NaN), so applying the offset ourselves is the same map for every method;
+ * - transverse Mercator: proj4js's default (Poder/Engsager) refuses a sphere, its "+approx" series is exact
+ *   on one; on an ellipsoid the default is kept (the converter adds +approx to every user-defined tmerc).
+ */
+function forProj4js(def: string): { def: string; x0: number; y0: number } {
+  const m = parseProj(def);
+  const x0 = Number(m.get('x_0') ?? 0);
+  const y0 = Number(m.get('y_0') ?? 0);
+  m.set('x_0', '0');
+  m.set('y_0', '0');
+  if (m.get('proj') === 'tmerc') {
+    m.set('approx', true);
+    const sphere = (proj4.Proj(writeProj(m)) as unknown as { es: number }).es === 0;
+    if (!sphere) m.delete('approx');
+  }
+  return { def: writeProj(m), x0, y0 };
+}
+
 export function makeProjection(crs: ProjectedCrs): Projection {
-  const m = parseProj(crs.proj4);
+  const { def, x0, y0 } = forProj4js(crs.proj4);
+  if (!Number.isFinite(x0) || !Number.isFinite(y0)) throw new TerrainInputError(`projected CRS ${crs.name}: false easting/northing ${x0}, ${y0} are not numbers`);
+  const m = parseProj(def);
   const geo: Params = new Map([['proj', 'longlat']]);
   for (const k of FIGURE_KEYS) if (m.has(k)) geo.set(k, m.get(k)!);
   geo.set('no_defs', true);
   // Same body on both sides, so proj4js applies no datum shift: longitude/latitude are the CRS's own.
-  const conv = proj4(writeProj(geo), crs.proj4);
-  const P = proj4.Proj(crs.proj4) as unknown as { a: number; b: number; to_meter?: number };
+  const conv = proj4(writeProj(geo), def);
+  const P = proj4.Proj(def) as unknown as { a: number; b: number; to_meter?: number };
   const unit = P.to_meter ?? 1;
   return {
     crs,
@@ -184,10 +208,10 @@ export function makeProjection(crs: ProjectedCrs): Projection {
     unit_m: unit,
     forward: (lon, lat) => {
       const [x, y] = conv.forward([lon, lat]);
-      return [x * unit, y * unit];
+      return [x0 + x * unit, y0 + y * unit];
     },
     inverse: (e, n) => {
-      const [lon, lat] = conv.inverse([e / unit, n / unit]);
+      const [lon, lat] = conv.inverse([(e - x0) / unit, (n - y0) / unit]);
       return [lon, lat];
     },
   };

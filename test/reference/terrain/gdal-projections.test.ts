@@ -63,13 +63,13 @@ function destination(lon: number, lat: number, az: number, d: number, R: number)
 interface Case { name: string; srs: string; R: number; lon: number; lat: number }
 
 const userDefined = (body: string, R: number): Case[] => [
-  { name: `${body} equirectangular, standard parallel −4.5°`, srs: `+proj=eqc +lat_ts=-4.5 +lon_0=137.4 +R=${R} +units=m +no_defs`, R, lon: 137.6, lat: -4.6 },
-  { name: `${body} sinusoidal`, srs: `+proj=sinu +lon_0=77 +R=${R} +units=m +no_defs`, R, lon: 77.3, lat: 20 },
+  { name: `${body} equirectangular, standard parallel −4.5°, false origin`, srs: `+proj=eqc +lat_ts=-4.5 +lon_0=137.4 +x_0=250000 +y_0=-125000 +R=${R} +units=m +no_defs`, R, lon: 137.6, lat: -4.6 },
+  { name: `${body} sinusoidal (false origin 1 km E, −2 km N)`, srs: `+proj=sinu +lon_0=77 +x_0=1000 +y_0=-2000 +R=${R} +units=m +no_defs`, R, lon: 77.3, lat: 20 },
   { name: `${body} south polar stereographic (variant A, k at the pole)`, srs: `+proj=stere +lat_0=-90 +lon_0=45 +k=1 +R=${R} +units=m +no_defs`, R, lon: 30, lat: -85 },
   { name: `${body} south polar stereographic (variant B, true scale at −80°)`, srs: `+proj=stere +lat_0=-90 +lat_ts=-80 +lon_0=0 +R=${R} +units=m +no_defs`, R, lon: -60, lat: -88.5 },
   { name: `${body} north polar stereographic (k 0.994, λ0 −20°)`, srs: `+proj=stere +lat_0=90 +lon_0=-20 +k=0.994 +R=${R} +units=m +no_defs`, R, lon: 40, lat: 87 },
   { name: `${body} transverse Mercator (φ0 10°, λ0 20°, k 0.9999, false origin)`, srs: `+proj=tmerc +lat_0=10 +lon_0=20 +k=0.9999 +x_0=100 +y_0=200 +R=${R} +units=m +no_defs`, R, lon: 20.4, lat: 12 },
-  { name: `${body} orthographic (centre −60°, 30°)`, srs: `+proj=ortho +lat_0=-60 +lon_0=30 +R=${R} +units=m +no_defs`, R, lon: 31, lat: -59 },
+  { name: `${body} orthographic (centre −60°, 30°, false origin)`, srs: `+proj=ortho +lat_0=-60 +lon_0=30 +x_0=-300 +y_0=700 +R=${R} +units=m +no_defs`, R, lon: 31, lat: -59 },
 ];
 
 const iau: Case[] = [
@@ -138,8 +138,9 @@ describe.runIf(gdalAvailable())('planetary projected DEMs against GDAL/PROJ (< 1
 
   it.each([
     ['a Robinson PROJ string', `+proj=robin +R=${MARS_R} +units=m +no_defs`, /projection "robin"/],
-    ['IAU_2015:49950 (Mars Robinson)', 'IAU_2015:49950', /projection "robin".*Mars \(2015\)/],
-    ['IAU_2015:49940 (Mars Mollweide)', 'IAU_2015:49940', /projection "moll"/],
+    ['IAU_2015:49950 (Mars Robinson)', 'IAU_2015:49950', /Mars \(2015\) - Sphere \/ Ocentric \/ Robinson.*projection "robin"/],
+    // GDAL cannot write Mollweide as GeoKeys: it writes a user-defined model type and the CRS as text.
+    ['IAU_2015:49940 (Mars Mollweide)', 'IAU_2015:49940', /GTModelTypeGeoKey 32767 \(user-defined model, CRS "Mars \(2015\) - Sphere \/ Ocentric \/ Mollweide/],
   ])('refuses %s when read, naming the CRS and the projection', async (_name, srs, message) => {
     const asc = tmp.path('r.asc');
     writeAsciiGrid(asc, 4, 4, new Float64Array(16).fill(1));
@@ -148,6 +149,6 @@ describe.runIf(gdalAvailable())('planetary projected DEMs against GDAL/PROJ (< 1
     const read = readGeoTiff(new Uint8Array(readFileSync(tif)), { sourceName: 'site.tif' });
     await expect(read).rejects.toThrow(TerrainInputError);
     await expect(readGeoTiff(new Uint8Array(readFileSync(tif)), { sourceName: 'site.tif' })).rejects.toThrow(message);
-    await expect(readGeoTiff(new Uint8Array(readFileSync(tif)), { sourceName: 'site.tif' })).rejects.toThrow(/^site\.tif: projected CRS .*gdalwarp -t_srs/);
+    await expect(readGeoTiff(new Uint8Array(readFileSync(tif)), { sourceName: 'site.tif' })).rejects.toThrow(/^site\.tif: .*(projected CRS|GTModelTypeGeoKey).*gdalwarp -t_srs/);
   });
 });
