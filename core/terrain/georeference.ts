@@ -118,7 +118,7 @@ export function terrainLonLat(georeference: GridGeoreference | undefined, source
   const wgs84 = onWgs84(p.crs.proj4);
   if (!wgs84 && isEarthSized(p.a)) {
     throw new TerrainInputError(
-      `${source}: projected CRS ${name} cannot be converted to WGS 84 longitude/latitude here: it is on another Earth datum (${p.crs.proj4}) and no datum shift is made; reproject the DEM (gdalwarp -t_srs EPSG:4326, or to its UTM zone)`,
+      `${source}: projected CRS ${name} cannot be converted to longitude/latitude on WGS 84 here: it is on another Earth datum (${p.crs.proj4}) and no datum shift is made; reproject the DEM (gdalwarp -t_srs EPSG:4326, or to its UTM zone)`,
     );
   }
   const epsg = georeference.projectedEpsg;

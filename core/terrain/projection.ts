@@ -17,8 +17,6 @@ const DEG = Math.PI / 180;
 /** PROJ projection names this program accepts, each checked against GDAL/PROJ on Mars- and Moon-sized bodies (and UTM / Lambert conformal conic on Earth). */
 export const PROJECTIONS_CHECKED: Readonly<Record<string, string>> = Object.freeze({
   tmerc: 'transverse Mercator',
-  utm: 'transverse Mercator',
-  etmerc: 'transverse Mercator',
   stere: 'polar stereographic',
   eqc: 'equirectangular',
   sinu: 'sinusoidal',

@@ -1,7 +1,8 @@
 /**
  * Planetary projected DEMs (core/terrain/projection.ts, georeference.ts, groundFrame.ts) against PROJ
  * through GDAL 3.6's tools (Debian gdal-bin). For every projection family planetary DEMs use —
- * equirectangular, sinusoidal, polar stereographic (variants A and B), transverse Mercator, orthographic —
+ * equirectangular, sinusoidal, polar stereographic (variants A and B), transverse Mercator, orthographic,
+ * and Lambert conformal conic —
  * on a Mars-sized sphere (R = 3 396 190 m) and a Moon-sized sphere (R = 1 737 400 m), GeoTIFFs are written
  * by gdal_translate -a_srs, both from a PROJ string (user-defined GeoKeys) and from an IAU_2015 code (the
  * GeoKeys GDAL writes for it). The radii are the IAU_2015 spheres as `gdalsrsinfo IAU_2015:49910 / 30110`
@@ -69,6 +70,7 @@ const userDefined = (body: string, R: number): Case[] => [
   { name: `${body} south polar stereographic (variant B, true scale at −80°)`, srs: `+proj=stere +lat_0=-90 +lat_ts=-80 +lon_0=0 +R=${R} +units=m +no_defs`, R, lon: -60, lat: -88.5 },
   { name: `${body} north polar stereographic (k 0.994, λ0 −20°)`, srs: `+proj=stere +lat_0=90 +lon_0=-20 +k=0.994 +R=${R} +units=m +no_defs`, R, lon: 40, lat: 87 },
   { name: `${body} transverse Mercator (φ0 10°, λ0 20°, k 0.9999, false origin)`, srs: `+proj=tmerc +lat_0=10 +lon_0=20 +k=0.9999 +x_0=100 +y_0=200 +R=${R} +units=m +no_defs`, R, lon: 20.4, lat: 12 },
+  { name: `${body} Lambert conformal conic (standard parallels 20°, 60°)`, srs: `+proj=lcc +lat_0=40 +lon_0=10 +lat_1=20 +lat_2=60 +R=${R} +units=m +no_defs`, R, lon: 14, lat: 35 },
   { name: `${body} orthographic (centre −60°, 30°, false origin)`, srs: `+proj=ortho +lat_0=-60 +lon_0=30 +x_0=-300 +y_0=700 +R=${R} +units=m +no_defs`, R, lon: 31, lat: -59 },
 ];
 
@@ -79,6 +81,7 @@ const iau: Case[] = [
   { name: 'IAU_2015:49935 Mars south polar stereographic', srs: 'IAU_2015:49935', R: MARS_R, lon: -60, lat: -88.5 },
   { name: 'IAU_2015:49960 Mars transverse Mercator', srs: 'IAU_2015:49960', R: MARS_R, lon: 5, lat: 10 },
   { name: 'IAU_2015:49965 Mars orthographic', srs: 'IAU_2015:49965', R: MARS_R, lon: -8, lat: 15 },
+  { name: 'IAU_2015:49975 Mars Lambert conformal conic', srs: 'IAU_2015:49975', R: MARS_R, lon: -20, lat: 45 },
   { name: 'IAU_2015:30110 Moon equirectangular', srs: 'IAU_2015:30110', R: MOON_R, lon: -3, lat: 25 },
   { name: 'IAU_2015:30120 Moon sinusoidal', srs: 'IAU_2015:30120', R: MOON_R, lon: 60, lat: -30 },
   { name: 'IAU_2015:30130 Moon north polar stereographic', srs: 'IAU_2015:30130', R: MOON_R, lon: 40, lat: 87 },

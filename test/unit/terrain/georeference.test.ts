@@ -122,7 +122,7 @@ describe('terrainLonLat', () => {
 
   it.each([
     // EPSG:2227 is Lambert conformal conic on NAD83 (in US survey feet): another Earth datum, no datum shift here.
-    [{ model: 'projected', geoTransform, projectedEpsg: 2227 }, /projected CRS EPSG:2227 cannot be converted to WGS 84.*another Earth datum.*gdalwarp -t_srs EPSG:4326/],
+    [{ model: 'projected', geoTransform, projectedEpsg: 2227 }, /projected CRS EPSG:2227 cannot be converted to longitude\/latitude on WGS 84.*another Earth datum.*gdalwarp -t_srs EPSG:4326/],
     [{ model: 'projected', geoTransform }, /projected CRS without an EPSG code or projection parameters cannot be converted/],
     // EPSG:3857 is a projection method not checked against PROJ here (Mercator): refused, naming it.
     [{ model: 'projected', geoTransform, projectedEpsg: 3857 }, /projected CRS EPSG:3857 uses the projection "merc".*not among those checked/],
