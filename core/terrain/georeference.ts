@@ -123,7 +123,7 @@ export function terrainLonLat(georeference: GridGeoreference | undefined, source
   }
   const epsg = georeference.projectedEpsg;
   const utmZone = epsg !== undefined && ((epsg >= 32601 && epsg <= 32660) || (epsg >= 32701 && epsg <= 32760)) ? `UTM zone ${epsg % 100}${epsg < 32700 ? 'N' : 'S'} ` : '';
-  const figure = p.a === p.b ? `sphere of radius ${p.a} m` : `ellipsoid a = ${p.a} m, b = ${p.b} m`;
+  const figure = p.a === p.b ? `sphere of radius ${p.a} m` : `ellipsoid a = ${p.a} m, b = ${p.b} m, ${p.crs.planetocentric ? 'planetocentric' : 'planetographic (geodetic)'} latitude`;
   // The reader's frame for a projected DEM is the CRS's own easting/northing, in metres.
   return {
     toLonLat: (e, n) => p.inverse(e, n),

@@ -42,11 +42,11 @@ export interface GroundFrame {
 /** J at the target of a projected DEM; throws TerrainInputError when it cannot be formed there. */
 function projectedJacobian(georeference: GridGeoreference, target_m: readonly [number, number], source: string): [number, number, number, number] {
   const p = terrainProjection(georeference, source)!;
-  const [lon, lat] = p.inverse(target_m[0], target_m[1]);
+  const [lon, lat] = p.inverseGeodetic(target_m[0], target_m[1]);
   const where = `the nominal target (${target_m[0]} m E, ${target_m[1]} m N in ${p.crs.name})`;
   // proj4js may answer a point outside the projection's domain with a clamped one (orthographic: the rim)
   // instead of NaN: require the round trip to come back (to 1 mm, far above its rounding).
-  const [backE, backN] = Number.isFinite(lon) && Number.isFinite(lat) ? p.forward(lon, lat) : [NaN, NaN];
+  const [backE, backN] = Number.isFinite(lon) && Number.isFinite(lat) ? p.forwardGeodetic(lon, lat) : [NaN, NaN];
   if (!(Math.hypot(backE - target_m[0], backN - target_m[1]) < 1e-3)) {
     throw new TerrainInputError(`${source}: ${where} is outside the projection's domain (no longitude/latitude there); give a target on the DEM`);
   }
@@ -57,10 +57,10 @@ function projectedJacobian(georeference: GridGeoreference, target_m: readonly [n
   // rounding of coordinates of up to 10⁷ m (≈ 10⁻⁹ m) stays below 10⁻⁸ of it.
   const dLon = 1 / (N * cosLat) / DEG;
   const dLat = 1 / M / DEG;
-  const [eE1, eN1] = p.forward(lon + dLon / 2, lat);
-  const [eE0, eN0] = p.forward(lon - dLon / 2, lat);
-  const [nE1, nN1] = p.forward(lon, lat + dLat / 2);
-  const [nE0, nN0] = p.forward(lon, lat - dLat / 2);
+  const [eE1, eN1] = p.forwardGeodetic(lon + dLon / 2, lat);
+  const [eE0, eN0] = p.forwardGeodetic(lon - dLon / 2, lat);
+  const [nE1, nN1] = p.forwardGeodetic(lon, lat + dLat / 2);
+  const [nE0, nN0] = p.forwardGeodetic(lon, lat - dLat / 2);
   const J: [number, number, number, number] = [eE1 - eE0, nE1 - nE0, eN1 - eN0, nN1 - nN0];
   const det = J[0] * J[3] - J[1] * J[2];
   if (!J.every(Number.isFinite) || !(det > 0)) {

@@ -36,6 +36,11 @@ export interface ProjectedCrs {
   readonly proj4: string;
   /** e.g. "EPSG:32633" or the file's citation "Moon (2015) - Sphere / Ocentric / South Polar". */
   readonly name: string;
+  /**
+   * True when the CRS's latitudes are planetocentric on an ellipsoid (the IAU "Ocentric" CRSs): PROJ strings
+   * cannot say it and proj4js's latitudes are geodetic (planetographic), so makeProjection converts.
+   */
+  readonly planetocentric?: boolean;
 }
 
 type Params = Map<string, string | true>;
@@ -121,7 +126,12 @@ export function projectedCrsFromGeoKeys(keys: Record<string, unknown>, source: s
   const m = parseProj(result.proj4);
   if (userDefined) correctUserDefined(m, keys);
   m.delete('axis'); // east, north is what a north-up GeoTIFF means
-  return checkedCrs({ proj4: writeProj(m), name }, source);
+  // GeoKeys cannot say that latitudes are planetocentric; the IAU CRSs say it in their names ("Ocentric"),
+  // which GDAL writes into the citations and reads back the same way. It matters only on an ellipsoid.
+  const citations = [keys.GTCitationGeoKey, keys.GeogCitationGeoKey, keys.PCSCitationGeoKey].filter((c) => typeof c === 'string').join(' ');
+  const a = Number(m.get('a')), b = Number(m.get('b'));
+  const planetocentric = /\bocentric\b/i.test(citations) && Number.isFinite(a) && Number.isFinite(b) && a !== b;
+  return checkedCrs({ proj4: writeProj(m), name, ...(planetocentric ? { planetocentric: true } : {}) }, source);
 }
 
 /** The checked projection methods in words, for messages. */
@@ -157,10 +167,14 @@ export interface Projection {
   readonly b: number;
   /** Metres per CRS unit (1 for metres; 0.3048006096 for US survey feet). */
   readonly unit_m: number;
-  /** [longitude, latitude] (degrees) → [easting, northing] in metres. */
+  /** [longitude, latitude] (degrees, latitude as the CRS defines it) → [easting, northing] in metres. */
   forward(lon_deg: number, lat_deg: number): [number, number];
-  /** [easting, northing] in metres → [longitude, latitude] (degrees). */
+  /** [easting, northing] in metres → [longitude, latitude] (degrees, latitude as the CRS defines it). */
   inverse(east_m: number, north_m: number): [number, number];
+  /** As forward, with the geodetic (planetographic) latitude whatever the CRS's: for ground metres (M, N). */
+  forwardGeodetic(lon_deg: number, lat_deg: number): [number, number];
+  /** As inverse, giving the geodetic (planetographic) latitude. */
+  inverseGeodetic(east_m: number, north_m: number): [number, number];
 }
 
 /** Keys of a PROJ string that define the body (figure and datum), copied to the geographic CRS. */
@@ -199,19 +213,32 @@ export function makeProjection(crs: ProjectedCrs): Projection {
   const conv = proj4(writeProj(geo), def);
   const P = proj4.Proj(def) as unknown as { a: number; b: number; to_meter?: number };
   const unit = P.to_meter ?? 1;
+  const forwardGeodetic = (lon: number, lat: number): [number, number] => {
+    const [x, y] = conv.forward([lon, lat]);
+    return [x0 + x * unit, y0 + y * unit];
+  };
+  const inverseGeodetic = (e: number, n: number): [number, number] => {
+    const [lon, lat] = conv.inverse([(e - x0) / unit, (n - y0) / unit]);
+    return [lon, lat];
+  };
+  // Planetocentric ψ and geodetic φ on the ellipsoid: tan ψ = (b²/a²) tan φ (Snyder 1987, eq. 3-28).
+  const q = (P.b * P.b) / (P.a * P.a);
+  const toCentric = (lat: number) => Math.atan(q * Math.tan(lat * DEG)) / DEG;
+  const toGeodetic = (lat: number) => Math.atan(Math.tan(lat * DEG) / q) / DEG;
   return {
     crs,
     a: P.a,
     b: P.b,
     unit_m: unit,
-    forward: (lon, lat) => {
-      const [x, y] = conv.forward([lon, lat]);
-      return [x0 + x * unit, y0 + y * unit];
-    },
-    inverse: (e, n) => {
-      const [lon, lat] = conv.inverse([(e - x0) / unit, (n - y0) / unit]);
-      return [lon, lat];
-    },
+    forwardGeodetic,
+    inverseGeodetic,
+    forward: crs.planetocentric ? (lon, lat) => forwardGeodetic(lon, toGeodetic(lat)) : forwardGeodetic,
+    inverse: crs.planetocentric
+      ? (e, n) => {
+        const [lon, lat] = inverseGeodetic(e, n);
+        return [lon, toCentric(lat)];
+      }
+      : inverseGeodetic,
   };
 }
 

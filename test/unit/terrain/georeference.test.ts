@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import {
-  TerrainInputError, cellEast, cellNorth, geographicToLocal, localToGeographic, makeProjection, projectedCrsFromEpsg, readGeoTiff,
+  TerrainInputError, cellEast, cellNorth, geographicToLocal, localToGeographic, makeProjection, projectedCrsFromEpsg, projectedCrsFromGeoKeys, readGeoTiff,
   terrainLonLat, writeGeoTiff, type GridGeoreference,
 } from '../../../core/terrain/index.ts';
 
@@ -131,5 +131,39 @@ describe('terrainLonLat', () => {
   ] as [GridGeoreference, RegExp][])('refuses %o with an error naming the CRS and the fix', (g, message) => {
     expect(() => terrainLonLat(g, 'dem.tif')).toThrow(TerrainInputError);
     expect(() => terrainLonLat(g, 'dem.tif')).toThrow(message);
+  });
+});
+
+describe('planetocentric latitudes on an ellipsoid', () => {
+  // GeoKeys as GDAL writes them for IAU_2015:49912 (Mars ellipsoid, planetocentric; test/reference/terrain/
+  // gdal-projections.test.ts reads such files against GDAL): only the citations say "Ocentric".
+  const keys = {
+    GTModelTypeGeoKey: 1, GTCitationGeoKey: 'Mars (2015) / Ocentric / Equirectangular, clon = 0', GeographicTypeGeoKey: 32767,
+    GeogCitationGeoKey: 'GCS Name = Mars (2015) / Ocentric|Datum = Mars (2015)|Ellipsoid = Mars (2015)|Primem = Reference Meridian|',
+    GeogGeodeticDatumGeoKey: 32767, GeogAngularUnitsGeoKey: 9102, GeogEllipsoidGeoKey: 32767, GeogSemiMajorAxisGeoKey: 3396190,
+    GeogInvFlatteningGeoKey: 169.8944472236118, ProjectedCSTypeGeoKey: 32767, ProjectionGeoKey: 32767, ProjCoordTransGeoKey: 17,
+    ProjLinearUnitsGeoKey: 9001, ProjStdParallel1GeoKey: 0, ProjFalseEastingGeoKey: 0, ProjFalseNorthingGeoKey: 0, ProjCenterLongGeoKey: 0, ProjCenterLatGeoKey: 0,
+  };
+
+  it('are recognised from the citation and converted: tan ψ = (b²/a²) tan φ (Snyder 1987, eq. 3-28)', () => {
+    const crs = projectedCrsFromGeoKeys(keys, 'mars.tif');
+    expect(crs.planetocentric).toBe(true);
+    const centric = makeProjection(crs);
+    const ographic = makeProjection({ ...crs, planetocentric: false });
+    const q = (centric.b / centric.a) ** 2;
+    for (const phi of [-80, -30, 0, 12.5, 50.5, 89]) {
+      const [E, N] = ographic.forward(20, phi); // geodetic latitude φ
+      const [, psi] = centric.inverse(E, N);
+      expect(psi).toBeCloseTo(Math.atan(q * Math.tan(phi * Math.PI / 180)) * 180 / Math.PI, 10);
+      const back = centric.forward(20, psi);
+      expect(back[0]).toBeCloseTo(E, 6);
+      expect(back[1]).toBeCloseTo(N, 6);
+    }
+    expect(terrainLonLat({ model: 'projected', geoTransform: [0, 1, 0, 0, 0, -1], projectedCrs: crs })!.datum).toMatch(/planetocentric latitude/);
+  });
+
+  it('on a sphere the flag is not set (the two latitudes are one)', () => {
+    const sphere = { ...keys, GeogInvFlatteningGeoKey: undefined, GeogSemiMinorAxisGeoKey: 3396190 };
+    expect(projectedCrsFromGeoKeys(sphere, 'mars.tif').planetocentric).toBeUndefined();
   });
 });
