@@ -24,11 +24,15 @@ export function footprintLonLat(grid: ElevationGrid, target_m: readonly [number,
   const toLonLat = (e: number, n: number) => ref.toLonLat(...ground.toDem(e, n));
   const notes = [`The nominal target is at ${metres(tE)} m east, ${metres(tN)} m north in the DEM's frame (${ref.sourceCrs}).`];
   const frame = grid.georeference?.localFrame;
-  if (ground.convergence_rad !== 0 || ground.scale !== 1) {
-    const c = ground.convergence_rad / (Math.PI / 180);
-    // c > 0: true north points grid-east, so grid north lies west of true north.
+  const [a, b, c, d] = ground.jacobian;
+  if (a !== 1 || b !== 0 || c !== 0 || d !== 1) {
+    const gamma = ground.convergence_rad / (Math.PI / 180);
+    // gamma > 0: true north points grid-east, so grid north lies west of true north.
+    const north = `grid north is ${Math.abs(gamma).toFixed(4)}° ${gamma > 0 ? 'west' : 'east'} of true north (meridian convergence)`;
     notes.push(
-      `At the target UTM grid north is ${Math.abs(c).toFixed(4)}° ${c > 0 ? 'west' : 'east'} of true north (meridian convergence) and grid metres are ${ground.scale.toFixed(6)} × ground metres (point scale); local metres are ground metres, rotated and scaled by these onto the grid (what remains is their change across the footprint).`,
+      ground.conformal
+        ? `At the target ${north} and grid metres are ${ground.scale.toFixed(6)} × ground metres (point scale); local metres are ground metres, rotated and scaled by these onto the grid (what remains is their change across the footprint).`
+        : `At the target ${north}; the projection is not conformal: one ground metre east is (${a.toFixed(6)}, ${c.toFixed(6)}) and one ground metre north is (${b.toFixed(6)}, ${d.toFixed(6)}) grid metres (east, north); local metres are ground metres, mapped onto the grid by this linear map (what remains is its change across the footprint).`,
     );
   } else if (frame) {
     notes.push(

@@ -1,12 +1,13 @@
 /**
  * Terrain frame ↔ longitude/latitude. The GeoTIFF reader maps every DEM into a local east–north frame in
  * metres; this module holds that map for geographic DEMs (one source of truth: the reader calls
- * `geographicToLocal` / `localFrameScale`) and its inverse, and the inverse of the projected CRSs whose
- * longitude/latitude this program can compute (UTM zones on WGS 84). Pure.
+ * `geographicToLocal` / `localFrameScale`) and its inverse, and, for projected DEMs, the CRS's projection
+ * both ways through proj4js (projection.ts): the DEM's frame is the CRS's own easting/northing in metres.
+ * Pure.
  */
 import type { GridGeoreference } from './grid.ts';
 import { TerrainInputError } from './grid.ts';
-import { transverseMercatorInverse, utmProjection } from './transverse-mercator.ts';
+import { checkedCrs, makeProjection, projectedCrsFromEpsg, type Projection } from './projection.ts';
 
 const DEG = Math.PI / 180;
 
@@ -46,12 +47,36 @@ export function localToGeographic(frame: GeographicFrame, east_m: number, north_
 export interface TerrainLonLat {
   /** Terrain-frame metres (the grid's east/north frame) → [longitude, latitude] in degrees. */
   toLonLat(east_m: number, north_m: number): [number, number];
+  /** [longitude, latitude] in degrees → terrain-frame metres: the inverse of toLonLat. */
+  fromLonLat(lon_deg: number, lat_deg: number): [number, number];
   /** True when the coordinates are WGS 84 (as RFC 7946 GeoJSON assumes). */
   readonly wgs84: boolean;
-  /** The DEM's CRS, e.g. "EPSG:32633", "EPSG:4326", "geographic CRS without an EPSG code". */
+  /** The DEM's CRS, e.g. "EPSG:32633", "EPSG:4326", "geographic CRS without an EPSG code", or a user-defined CRS's citation. */
   readonly sourceCrs: string;
   /** What the longitude/latitude refer to, in words. */
   readonly datum: string;
+}
+
+/**
+ * The projection of a projected terrain (its CRS from the file, else from its EPSG code), or null when the
+ * terrain is not projected. Throws TerrainInputError naming the CRS when it cannot be handled.
+ */
+export function terrainProjection(georeference: GridGeoreference | undefined, source = 'terrain'): Projection | null {
+  if (georeference?.model !== 'projected') return null;
+  const epsg = georeference.projectedEpsg;
+  if (georeference.projectedCrs) return makeProjection(checkedCrs(georeference.projectedCrs, source));
+  if (epsg !== undefined) return makeProjection(projectedCrsFromEpsg(epsg, source));
+  throw new TerrainInputError(
+    `${source}: projected CRS without an EPSG code or projection parameters cannot be converted to longitude/latitude; give the DEM its CRS (gdal_edit.py -a_srs …) or reproject it (gdalwarp -t_srs …)`,
+  );
+}
+
+/** An Earth-sized figure (semi-major axis within 6 370–6 390 km): Earth CRSs other than WGS 84 need a datum shift. */
+const isEarthSized = (a: number) => a > 6.37e6 && a < 6.39e6;
+
+/** WGS 84 per the PROJ string: +datum=WGS84, or +ellps=WGS84 with no +towgs84 (how EPSG codes on the WGS 84 datum come out of the converter). */
+function onWgs84(proj: string): boolean {
+  return /\+datum=WGS84\b/.test(proj) || (/\+ellps=WGS84\b/.test(proj) && !/\+towgs84=/.test(proj));
 }
 
 /**
@@ -60,8 +85,10 @@ export interface TerrainLonLat {
  * georeferenced in a CRS this module cannot invert.
  *
  * Supported: geographic DEMs in EPSG:4326 (WGS 84) and geographic DEMs on a sphere without an EPSG code
- * (another body: longitude/latitude on that sphere, as the file gives them); projected DEMs in UTM zones on
- * WGS 84 (EPSG:32601–32660, 32701–32760).
+ * (another body: longitude/latitude on that sphere, as the file gives them); projected DEMs in the
+ * projections of projection.ts (PROJECTIONS_CHECKED) on another body (longitude/latitude on that body's
+ * sphere or ellipsoid) or on WGS 84 (UTM and others). Earth CRSs on another datum are refused (no datum
+ * shifts here).
  */
 export function terrainLonLat(georeference: GridGeoreference | undefined, source = 'terrain'): TerrainLonLat | null {
   if (!georeference || georeference.model === 'none') return null;
@@ -77,6 +104,7 @@ export function terrainLonLat(georeference: GridGeoreference | undefined, source
     const sphere = `${frame.bodyRadius_m} m`;
     return {
       toLonLat: (e, n) => localToGeographic(frame, e, n),
+      fromLonLat: (lon, lat) => geographicToLocal(frame, lon, lat),
       wgs84: epsg === 4326,
       sourceCrs: epsg === 4326 ? 'EPSG:4326' : 'geographic CRS without an EPSG code',
       datum:
@@ -85,18 +113,25 @@ export function terrainLonLat(georeference: GridGeoreference | undefined, source
           : `longitude/latitude of the DEM's own geographic CRS, on a sphere of radius ${sphere} (not WGS 84)`,
     };
   }
-  const epsg = georeference.projectedEpsg;
-  const utm = epsg === undefined ? null : utmProjection(epsg);
-  if (!utm) {
+  const p = terrainProjection(georeference, source)!;
+  const name = p.crs.name;
+  const wgs84 = onWgs84(p.crs.proj4);
+  if (!wgs84 && isEarthSized(p.a)) {
     throw new TerrainInputError(
-      `${source}: projected CRS ${epsg === undefined ? 'without an EPSG code' : `EPSG:${epsg}`} cannot be converted to longitude/latitude here (supported: UTM zones on WGS 84, EPSG:32601–32660 and 32701–32760, and geographic EPSG:4326); reproject the DEM (gdalwarp -t_srs EPSG:4326, or to its UTM zone)`,
+      `${source}: projected CRS ${name} cannot be converted to longitude/latitude on WGS 84 here: it is on another Earth datum (${p.crs.proj4}) and no datum shift is made; reproject the DEM (gdalwarp -t_srs EPSG:4326, or to its UTM zone)`,
     );
   }
-  // The reader's frame for a projected DEM is the CRS's own easting/northing in metres (UTM is in metres).
+  const epsg = georeference.projectedEpsg;
+  const utmZone = epsg !== undefined && ((epsg >= 32601 && epsg <= 32660) || (epsg >= 32701 && epsg <= 32760)) ? `UTM zone ${epsg % 100}${epsg < 32700 ? 'N' : 'S'} ` : '';
+  const figure = p.a === p.b ? `sphere of radius ${p.a} m` : `ellipsoid a = ${p.a} m, b = ${p.b} m, ${p.crs.planetocentric ? 'planetocentric' : 'planetographic (geodetic)'} latitude`;
+  // The reader's frame for a projected DEM is the CRS's own easting/northing, in metres.
   return {
-    toLonLat: (e, n) => transverseMercatorInverse(utm, e, n),
-    wgs84: true,
-    sourceCrs: `EPSG:${epsg}`,
-    datum: `WGS 84 longitude/latitude from UTM zone ${utm.zone}${utm.hemisphere === 'north' ? 'N' : 'S'} (EPSG:${epsg}); local metres are UTM grid metres`,
+    toLonLat: (e, n) => p.inverse(e, n),
+    fromLonLat: (lon, lat) => p.forward(lon, lat),
+    wgs84,
+    sourceCrs: name,
+    datum: wgs84
+      ? `WGS 84 longitude/latitude from ${utmZone ? `${utmZone}(${name})` : name}; local metres are the projection's grid metres`
+      : `longitude/latitude on the DEM's own body (${figure}; not WGS 84), from ${name}; local metres are the projection's grid metres`,
   };
 }

@@ -10,6 +10,7 @@ import type { GeoTIFFImage } from 'geotiff';
 import type { ElevationGrid, GridGeoreference, GridSpec } from './grid.ts';
 import { MAX_GRID_CELLS, TerrainInputError, checkDimensions, makeGrid, requireSomeData } from './grid.ts';
 import { checkDirectory, noDataAsSample, readWindow, tiffLayout } from './tiff-blocks.ts';
+import { CHECKED_PROJECTIONS_TEXT, makeProjection, projectedCrsFromGeoKeys } from './projection.ts';
 import { WGS84_SEMI_MAJOR_AXIS_M, geographicToLocal, localFrameScale, type GeographicFrame } from './georeference.ts';
 
 /** Options for readGeoTiff; every field is optional. */
@@ -204,6 +205,12 @@ async function readImage(bytes: Uint8Array, buf: ArrayBuffer, source: string, op
     fail(source, 'has no georeferencing (ModelPixelScale/ModelTiepoint or ModelTransformation), so the pixel size is unknown; add it (gdal_translate -a_ullr … -a_srs …) or use a PNG heightmap with an explicit pixel size');
   }
   const modelType = Number(geoKeys.GTModelTypeGeoKey ?? 0);
+  if (modelType !== 0 && modelType !== 1 && modelType !== 2) {
+    // 3 is geocentric; 32767 is a user-defined model, which GDAL writes for a projection GeoTIFF keys cannot
+    // express (with the CRS only as text in a citation): either way no projection we can use.
+    const citation = [geoKeys.GTCitationGeoKey, geoKeys.PCSCitationGeoKey].find((c) => typeof c === 'string' && c !== '') as string | undefined;
+    fail(source, `GTModelTypeGeoKey ${modelType} (${modelType === 3 ? 'geocentric' : 'user-defined model'}${citation ? `, CRS "${citation.length > 160 ? `${citation.slice(0, 160)}…` : citation}"` : ''}) is not a projected or geographic CRS this reader can use; reproject the DEM to one of ${CHECKED_PROJECTIONS_TEXT} or to longitude/latitude (gdalwarp -t_srs …)`);
+  }
   const { sampleFormat, bitsPerSample: bits } = layout;
   const noData = gdalNoData(parseNoData(await tag(image, 'GDAL_NODATA')), sampleFormat, bits);
   const isNoData = isNoDataFactory(noData);
@@ -240,13 +247,25 @@ async function readImage(bytes: Uint8Array, buf: ArrayBuffer, source: string, op
     spec = geographicSpec(source, geoKeys, affine, { w, h, wx0, wy0 }, options);
   } else {
     const epsg = Number(geoKeys.ProjectedCSTypeGeoKey);
+    // A projected CRS is taken from the GeoKeys (EPSG code or user-defined keys) through the projection
+    // libraries, and refused here, naming it, when it cannot be handled (projection.ts): nothing is
+    // computed on a DEM whose metres we cannot place on its body.
+    const crs = modelType === 1 ? projectedCrsFromGeoKeys(geoKeys, source) : undefined;
     const georeference: GridGeoreference = {
       model: modelType === 1 ? 'projected' : 'none',
       geoTransform,
       ...(Number.isInteger(epsg) && epsg > 0 && epsg < 32767 ? { projectedEpsg: epsg } : {}),
+      ...(crs ? { projectedCrs: crs } : {}),
     };
     // Projected CRS in feet or kilometres: the local frame is in metres, the georeference keeps file units.
-    const f = modelType === 1 ? unitToMetres(source, 'ProjLinearUnitsGeoKey', geoKeys.ProjLinearUnitsGeoKey) : 1;
+    // Without ProjLinearUnitsGeoKey the unit is the CRS's own (an EPSG code in US feet is in feet, as GDAL
+    // reads it); with it, the two must agree.
+    const crsUnit = crs ? makeProjection(crs).unit_m : 1;
+    const unitKey = geoKeys.ProjLinearUnitsGeoKey;
+    const f = modelType === 1 && unitKey !== undefined ? unitToMetres(source, 'ProjLinearUnitsGeoKey', unitKey) : crsUnit;
+    if (Math.abs(crsUnit - f) > 1e-9 * f) {
+      fail(source, `ProjLinearUnitsGeoKey ${String(unitKey)} (${f} m) disagrees with the unit of the CRS ${crs?.name} (${crsUnit} m); re-save the file with GDAL`);
+    }
     spec = { width: w, height: h, pixelSizeX_m: affine.dx * f, pixelSizeY_m: affine.dy * f, originEast_m: wx0 * f, originNorth_m: wy0 * f, georeference };
   }
   const grid = makeGrid(spec, heights, mask);

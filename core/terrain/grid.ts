@@ -16,6 +16,11 @@ export interface GridGeoreference {
   readonly geoTransform: readonly [number, number, number, number, number, number];
   /** EPSG code of a projected CRS, when the file named one. */
   readonly projectedEpsg?: number;
+  /**
+   * Projected sources: the CRS as a PROJ string and a name (projection.ts), taken from the file's GeoKeys
+   * (EPSG code or user-defined keys). Without it a projected georeference falls back on `projectedEpsg`.
+   */
+  readonly projectedCrs?: { readonly proj4: string; readonly name: string };
   /** EPSG code of a geographic CRS, when the file named one. */
   readonly geographicEpsg?: number;
   /** 'projected' (metres), 'geographic' (degrees, converted to a local frame), or 'none' (no CRS). */

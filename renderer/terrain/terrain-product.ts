@@ -6,7 +6,7 @@
  * under it is). Pure: runs in the terrain worker and in unit tests. Analysis stays at DEM resolution.
  */
 import {
-  TerrainInputError, decimatedMesh, gridGeometry, hazardMap, readGeoTiff, readJsonGrid, readPngHeightmap, requireSomeData,
+  PROJECTIONS_CHECKED, TerrainInputError, decimatedMesh, gridGeometry, hazardMap, readGeoTiff, readJsonGrid, readPngHeightmap, requireSomeData,
   resampleHazardFlags, resampleHeights, validCount, type ElevationGrid, type GridGeoreference, type GridSpec, type HazardLimits,
 } from '../../core/terrain/index.ts';
 import type { ElevationGrid as DisplayGrid } from '../scene/elevation-grid.ts';
@@ -83,7 +83,11 @@ export function terrainExtent(facts: Pick<TerrainFacts, 'width' | 'height' | 'pi
 /** One-line CRS / georeference summary. */
 export function describeGeoreference(geo: GridGeoreference | null): string {
   if (!geo || geo.model === 'none') return 'no CRS: local east/north metres';
-  if (geo.model === 'projected') return `projected, ${geo.projectedEpsg ? `EPSG:${geo.projectedEpsg}` : 'CRS without an EPSG code'}`;
+  if (geo.model === 'projected') {
+    const method = /\+proj=(\S+)/.exec(geo.projectedCrs?.proj4 ?? '')?.[1];
+    const name = geo.projectedEpsg ? `EPSG:${geo.projectedEpsg}` : geo.projectedCrs?.name ?? 'CRS without an EPSG code';
+    return `projected, ${name}${method && PROJECTIONS_CHECKED[method] ? ` (${PROJECTIONS_CHECKED[method]})` : ''}`;
+  }
   const frame = geo.localFrame;
   const crs = geo.geographicEpsg ? `EPSG:${geo.geographicEpsg}` : 'body’s own sphere';
   return frame

@@ -1,5 +1,5 @@
 /**
- * Terrain frame → longitude/latitude (core/terrain/georeference.ts) checked against PROJ through GDAL 3.6's
+ * Terrain frame → longitude/latitude (core/terrain/georeference.ts, projection.ts) checked against PROJ through GDAL 3.6's
  * gdaltransform (Debian gdal-bin), on GeoTIFFs written by gdal_translate:
  *   1. exact representation: points of the DEM's frame against GDAL's own pixel/line → lon/lat;
  *   2. UTM on WGS 84 across a zone against PROJ's transverse Mercator;
@@ -8,7 +8,7 @@
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { cellEast, cellNorth, readGeoTiff, terrainLonLat, type ElevationGrid } from '../../../core/terrain/index.ts';
+import { cellEast, cellNorth, makeProjection, readGeoTiff, terrainLonLat, type ElevationGrid } from '../../../core/terrain/index.ts';
 import { footprintLonLat } from '../../../core/footprint/georeferencedFootprint.ts';
 import { gdal, gdalAvailable, tempDir, writeAsciiGrid } from './gdal.ts';
 
@@ -66,8 +66,9 @@ describe.runIf(gdalAvailable())('terrain frame → lon/lat against GDAL/PROJ', (
 
   it('UTM 33N DEM: frame points against GDAL, and UTM points across the zone against PROJ (< 1e-8° ≈ 1 mm)', async () => {
     const ref = await expectFrameMatchesGdal(gdalTif('utm', 'EPSG:32633', [350000, 4800000, 350000 + 25 * W, 4800000 - 25 * H]), 1e-8);
-    // Across the zone (± 3° and beyond at the equator) and from the equator to 80° N. Our series is good to
-    // ≈ 0.07 mm (third order in n, test/unit/terrain/georeference.test.ts); PROJ's to nanometres.
+    // Across the zone (± 3° and beyond at the equator) and from the equator to 80° N. Ours is proj4js's
+    // ellipsoidal transverse Mercator (Poder/Engsager series, core/terrain/projection.ts); PROJ's is good to
+    // nanometres.
     const utm = [];
     for (const E of [170000, 330000, 500000, 640000, 830000]) for (const N of [0, 1500000, 4500000, 7000000, 8880000]) utm.push([E, N]);
     const proj = transform(['-s_srs', 'EPSG:32633', '-t_srs', 'EPSG:4326'], utm);
@@ -84,6 +85,26 @@ describe.runIf(gdalAvailable())('terrain frame → lon/lat against GDAL/PROJ', (
       expect(Math.abs(ourLon - lon)).toBeLessThan(1e-8);
       expect(Math.abs(ourLat - lat)).toBeLessThan(1e-8);
     });
+  });
+
+  it('EPSG:2227 DEM (Lambert conformal conic, US survey feet): metres in the frame, the projection against PROJ, lon/lat export refused', async () => {
+    // GDAL-written file in feet: our frame is metres (1 US survey foot = 1200/3937 m, its definition).
+    const ft = 1200 / 3937;
+    const tif = gdalTif('lcc', 'EPSG:2227', [6000000, 2100000, 6000000 + 30 * W, 2100000 - 30 * H]);
+    const grid = await readGeoTiff(new Uint8Array(readFileSync(tif)));
+    expect(grid.pixelSizeX_m).toBeCloseTo(30 * ft, 12);
+    expect(grid.originEast_m).toBeCloseTo(6000000 * ft, 6);
+    // Our frame (metres) → lon/lat on the CRS's own datum, against PROJ's EPSG:2227 → EPSG:4269 (NAD83, the
+    // same datum: no shift) on the same points in feet.
+    const p = makeProjection(grid.georeference!.projectedCrs!);
+    const feet = [[6000000, 2100000], [5800000, 1900000], [6300000, 2400000]];
+    transform(['-s_srs', 'EPSG:2227', '-t_srs', 'EPSG:4269'], feet).forEach(([lon, lat], i) => {
+      const [ourLon, ourLat] = p.inverse(feet[i][0] * ft, feet[i][1] * ft);
+      expect(Math.abs(ourLon - lon)).toBeLessThan(1e-8);
+      expect(Math.abs(ourLat - lat)).toBeLessThan(1e-8);
+    });
+    // NAD83 is not WGS 84 and no datum shift is made: GeoJSON longitude/latitude are refused, naming the CRS.
+    expect(() => terrainLonLat(grid.georeference, 'lcc.tif')).toThrow(/lcc\.tif: projected CRS EPSG:2227 cannot be converted to longitude\/latitude on WGS 84/);
   });
 
   /**

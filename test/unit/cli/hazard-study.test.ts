@@ -6,7 +6,7 @@ import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { main } from '../../../core/cli/main.ts';
 import { captureIo } from '../../support/cli-io.ts';
-import { readGeoTiff, transverseMercatorInverse, utmProjection, writeGeoTiff } from '../../../core/terrain/index.ts';
+import { makeProjection, projectedCrsFromEpsg, readGeoTiff, writeGeoTiff } from '../../../core/terrain/index.ts';
 import { rfc7946Violations } from '../../support/rfc7946.ts';
 
 const DEM = fileURLToPath(new URL('../../../assets/demo/terrain/demo-site.tif', import.meta.url));
@@ -58,7 +58,7 @@ describe('landreach hazard --study', () => {
     const doc = JSON.parse(readFileSync(join(out, 'footprint.geojson'), 'utf8'));
     expect(rfc7946Violations(doc)).toEqual([]);
     const [tE, tN] = summary.safeReachable.nominalTargetOnDem_m;
-    const utm = utmProjection(32633)!;
+    const utm = makeProjection(projectedCrsFromEpsg(32633, 'test')); // checked against PROJ in test/reference/terrain
     const sites = doc.features.filter((f: { properties: { kind: string } }) => f.properties.kind === 'landing-site');
     expect(sites.length).toBe(summary.sites.length);
     expect(sites.length).toBeGreaterThan(0);
@@ -68,7 +68,7 @@ describe('landreach hazard --study', () => {
       const s = summary.sites[k];
       const E = 400000 + (s.col + 0.5) * 10;
       const N = 5000000 - (s.row + 0.5) * 10;
-      const [lon, lat] = transverseMercatorInverse(utm, E, N);
+      const [lon, lat] = utm.inverse(E, N);
       expect(f.geometry.coordinates[0]).toBeCloseTo(lon, 8);
       expect(f.geometry.coordinates[1]).toBeCloseTo(lat, 8);
       // The summary gives the site in ground metres from the target: the grid offset rotated back by the

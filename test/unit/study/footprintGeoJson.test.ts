@@ -94,6 +94,28 @@ describe('footprint GeoJSON', () => {
     expect(doc.features[0].properties.crs_note).toMatch(/on mars, a sphere of radius 3396190 m\. They are not WGS 84 coordinates/);
   });
 
+  it('on a sinusoidal Moon DEM: lon/lat on the Moon\'s sphere, and a note giving the non-conformal linear map', () => {
+    // Sinusoidal on a sphere (Snyder 1987, §30): x = R (λ − λ0) cos φ, y = R φ, so one ground metre east is
+    // (1, 0) grid metres and one ground metre north is (−(λ − λ0) sin φ, 1); here λ − λ0 = 2°, φ = −40°.
+    const R = 1737400;
+    const crs = { proj4: `+proj=sinu +lon_0=77 +x_0=0 +y_0=0 +a=${R} +b=${R}`, name: 'user-defined CRS "invented Moon sinusoidal"' };
+    const tE = R * 2 * (Math.PI / 180) * Math.cos(-40 * (Math.PI / 180)), tN = R * -40 * (Math.PI / 180);
+    const grid = makeGrid(
+      { width: 10, height: 10, pixelSizeX_m: 100, pixelSizeY_m: 100, originEast_m: tE - 500, originNorth_m: tN + 500, georeference: { model: 'projected', geoTransform: [tE - 500, 100, 0, tN + 500, 0, -100], projectedCrs: crs } },
+      new Float32Array(100),
+    );
+    const ll = footprintLonLat(grid, [tE, tN], 'moon')!;
+    expect(ll.wgs84).toBe(false);
+    expect(ll.body).toBe('moon');
+    const [lon, lat] = ll.toLonLat(0, 0);
+    expect(lon).toBeCloseTo(79, 9);
+    expect(lat).toBeCloseTo(-40, 9);
+    const shear = -(2 * Math.PI / 180) * Math.sin(-40 * Math.PI / 180);
+    expect(ll.note).toContain(`one ground metre east is (1.000000, 0.000000) and one ground metre north is (${shear.toFixed(6)}, 1.000000) grid metres`);
+    expect(ll.note).toMatch(/the projection is not conformal/);
+    expect(ll.note).toContain(`grid north is ${(Math.atan(shear) * 180 / Math.PI).toFixed(4)}° west of true north`);
+  });
+
   it('without a georeference: null geometry everywhere (§3.2), no crs_note, shapes in local_m', () => {
     const doc = JSON.parse(JSON.stringify(footprintGeoJson({ contours, reachable, reserve_kg: 20, sites: [{ east_m: 1, north_m: 2 }] })));
     expect(rfc7946Violations(doc)).toEqual([]);

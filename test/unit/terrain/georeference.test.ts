@@ -1,14 +1,14 @@
 /**
- * Terrain frame → longitude/latitude (core/terrain/georeference.ts, transverse-mercator.ts). Outside
- * sources: the GDAL geotransform convention (pixel-centre coordinates), Snyder's worked example of the
- * ellipsoidal transverse Mercator, and the UTM zone definition. GDAL itself is the reference in
- * test/reference/terrain/gdal-georeference.test.ts.
+ * Terrain frame → longitude/latitude (core/terrain/georeference.ts, projection.ts: proj4js through
+ * geotiff-geokeys-to-proj4). Outside sources: the GDAL geotransform convention (pixel-centre coordinates),
+ * Snyder's worked example of the ellipsoidal transverse Mercator, and the UTM zone definition. GDAL/PROJ
+ * itself is the reference in test/reference/terrain/gdal-georeference.test.ts and gdal-projections.test.ts.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import {
-  TerrainInputError, cellEast, cellNorth, geographicToLocal, localToGeographic, readGeoTiff, terrainLonLat,
-  transverseMercatorForward, transverseMercatorInverse, utmProjection, writeGeoTiff, type GridGeoreference,
+  TerrainInputError, cellEast, cellNorth, geographicToLocal, localToGeographic, makeProjection, projectedCrsFromEpsg, projectedCrsFromGeoKeys, readGeoTiff,
+  terrainLonLat, writeGeoTiff, type GridGeoreference,
 } from '../../../core/terrain/index.ts';
 
 describe('geographic DEM frame', () => {
@@ -47,43 +47,52 @@ describe('geographic DEM frame', () => {
   });
 });
 
-describe('transverse Mercator', () => {
+describe('transverse Mercator through proj4js', () => {
   it('matches Snyder\'s ellipsoidal worked example (Clarke 1866, φ 40°30′ N, λ 73°30′ W, λ0 75° W, k0 0.9996)', () => {
     // Snyder (1987), Map Projections — A Working Manual, USGS Prof. Paper 1395, numerical example for the
-    // ellipsoidal transverse Mercator: x = 127 106.5 m, y = 4 484 124.4 m (values quoted from memory).
-    const p = { ellipsoid: { a: 6378206.4, f: 1 / 294.9786982 }, centralMeridian_deg: -75, scaleFactor: 0.9996, falseEasting_m: 0, falseNorthing_m: 0 };
-    const [x, y] = transverseMercatorForward(p, -73.5, 40.5);
+    // ellipsoidal transverse Mercator: x = 127 106.5 m, y = 4 484 124.4 m (values quoted from memory; PROJ
+    // itself holds the projection in the reference tests).
+    const p = makeProjection({ proj4: '+proj=tmerc +lat_0=0 +lon_0=-75 +k_0=0.9996 +x_0=0 +y_0=0 +ellps=clrk66 +no_defs', name: 'Snyder example' });
+    const [x, y] = p.forward(-73.5, 40.5);
     expect(x).toBeCloseTo(127106.5, 0);
     expect(y).toBeCloseTo(4484124.4, 0);
-    const [lon, lat] = transverseMercatorInverse(p, x, y);
-    // Third-order series both ways: each truncated at O(n⁴)·a ≈ 0.05 mm ≈ 5e-10°.
+    const [lon, lat] = p.inverse(x, y);
     expect(Math.abs(lon + 73.5)).toBeLessThan(1e-9);
     expect(Math.abs(lat - 40.5)).toBeLessThan(1e-9);
   });
 
-  it('inverse undoes forward across a UTM zone, both hemispheres (property, < 1e-9° ≈ 0.1 mm: third-order series)', () => {
-    const zones = [utmProjection(32633)!, utmProjection(32719)!];
+  it('inverse undoes forward across a UTM zone, both hemispheres (property, < 1e-9° ≈ 0.1 mm)', () => {
+    const zones = [
+      { p: makeProjection(projectedCrsFromEpsg(32633, 'test')), cm: 15, north: true },
+      { p: makeProjection(projectedCrsFromEpsg(32719, 'test')), cm: -69, north: false },
+    ];
     fc.assert(
       fc.property(fc.integer({ min: 0, max: 1 }), fc.double({ min: -3.5, max: 3.5, noNaN: true }), fc.double({ min: 0, max: 80, noNaN: true }), (z, dLon, absLat) => {
-        const p = zones[z];
-        const lat = p.hemisphere === 'north' ? absLat : -absLat;
-        const [E, N] = transverseMercatorForward(p, p.centralMeridian_deg + dLon, lat);
-        const [lon, back] = transverseMercatorInverse(p, E, N);
-        expect(Math.abs(lon - (p.centralMeridian_deg + dLon))).toBeLessThan(1e-9);
+        const { p, cm, north } = zones[z];
+        const lat = north ? absLat : -absLat;
+        const [E, N] = p.forward(cm + dLon, lat);
+        const [lon, back] = p.inverse(E, N);
+        expect(Math.abs(lon - (cm + dLon))).toBeLessThan(1e-9);
         expect(Math.abs(back - lat)).toBeLessThan(1e-9);
       }),
     );
   });
 
-  it('UTM zones: EPSG 326zz / 327zz only (32661 is polar stereographic, not UTM)', () => {
-    // UTM definition (NIMA TM8358.2): zone z central meridian 6z − 183°, k0 0.9996, E0 500 km, N0 0 / 10 000 km.
-    expect(utmProjection(32633)).toMatchObject({ zone: 33, centralMeridian_deg: 15, hemisphere: 'north', falseNorthing_m: 0, scaleFactor: 0.9996, falseEasting_m: 500000 });
-    expect(utmProjection(32701)).toMatchObject({ zone: 1, centralMeridian_deg: -177, hemisphere: 'south', falseNorthing_m: 10000000 });
-    expect(utmProjection(32760)?.centralMeridian_deg).toBe(177);
-    for (const code of [32600, 32661, 32700, 32761, 4326, 2227, 3857]) expect(utmProjection(code)).toBeNull();
-    // On the central meridian at the equator: E = 500 000 m, N = 0 (north) / 10 000 000 m (south).
-    expect(transverseMercatorForward(utmProjection(32633)!, 15, 0)).toEqual([500000, 0]);
-    expect(transverseMercatorForward(utmProjection(32733)!, 15, 0)).toEqual([500000, 10000000]);
+  it('UTM zones by EPSG code: 326zz / 327zz (UTM definition, NIMA TM8358.2)', () => {
+    // Zone z: central meridian 6z − 183°, k0 0.9996, E0 500 km, N0 0 (north) / 10 000 km (south). On the
+    // central meridian at the equator: E = 500 000 m, N = N0; 1° east of it the easting grows.
+    for (const [code, cm, N0] of [[32633, 15, 0], [32701, -177, 10000000], [32760, 177, 10000000], [32601, -177, 0]]) {
+      const p = makeProjection(projectedCrsFromEpsg(code, 'test'));
+      const [E, N] = p.forward(cm, 0);
+      expect(E).toBeCloseTo(500000, 6);
+      expect(N).toBeCloseTo(N0, 6);
+      expect(p.forward(cm + 1, 0)[0]).toBeGreaterThan(500000);
+      // k0: a short step along the central meridian at the equator is 0.9996 × its ground length (the
+      // WGS 84 meridian radius there, a(1 − e²)).
+      const a = 6378137, e2 = (1 / 298.257223563) * (2 - 1 / 298.257223563);
+      const step = p.forward(cm, 1e-4)[1] - N;
+      expect(step / (a * (1 - e2) * 1e-4 * (Math.PI / 180))).toBeCloseTo(0.9996, 8);
+    }
   });
 });
 
@@ -112,11 +121,49 @@ describe('terrainLonLat', () => {
   });
 
   it.each([
-    [{ model: 'projected', geoTransform, projectedEpsg: 2227 }, /projected CRS EPSG:2227 cannot be converted.*UTM zones on WGS 84.*gdalwarp -t_srs EPSG:4326/],
-    [{ model: 'projected', geoTransform }, /projected CRS without an EPSG code cannot be converted/],
+    // EPSG:2227 is Lambert conformal conic on NAD83 (in US survey feet): another Earth datum, no datum shift here.
+    [{ model: 'projected', geoTransform, projectedEpsg: 2227 }, /projected CRS EPSG:2227 cannot be converted to longitude\/latitude on WGS 84.*another Earth datum.*gdalwarp -t_srs EPSG:4326/],
+    [{ model: 'projected', geoTransform }, /projected CRS without an EPSG code or projection parameters cannot be converted/],
+    // EPSG:3857 is a projection method not checked against PROJ here (Mercator): refused, naming it.
+    [{ model: 'projected', geoTransform, projectedEpsg: 3857 }, /projected CRS EPSG:3857 uses the projection "merc".*not among those checked/],
+    [{ model: 'projected', geoTransform, projectedCrs: { proj4: '+proj=robin +R=3396190', name: 'user-defined CRS "invented"' } }, /user-defined CRS "invented" uses the projection "robin"/],
     [{ model: 'geographic', geoTransform, geographicEpsg: 4269, localFrame: { originLatitude_deg: 0, originLongitude_deg: 0, bodyRadius_m: 6378137, maxEastScaleError: 0 } }, /geographic CRS EPSG:4269 is not WGS 84.*gdalwarp -t_srs EPSG:4326/],
   ] as [GridGeoreference, RegExp][])('refuses %o with an error naming the CRS and the fix', (g, message) => {
     expect(() => terrainLonLat(g, 'dem.tif')).toThrow(TerrainInputError);
     expect(() => terrainLonLat(g, 'dem.tif')).toThrow(message);
+  });
+});
+
+describe('planetocentric latitudes on an ellipsoid', () => {
+  // GeoKeys as GDAL writes them for IAU_2015:49912 (Mars ellipsoid, planetocentric; test/reference/terrain/
+  // gdal-projections.test.ts reads such files against GDAL): only the citations say "Ocentric".
+  const keys = {
+    GTModelTypeGeoKey: 1, GTCitationGeoKey: 'Mars (2015) / Ocentric / Equirectangular, clon = 0', GeographicTypeGeoKey: 32767,
+    GeogCitationGeoKey: 'GCS Name = Mars (2015) / Ocentric|Datum = Mars (2015)|Ellipsoid = Mars (2015)|Primem = Reference Meridian|',
+    GeogGeodeticDatumGeoKey: 32767, GeogAngularUnitsGeoKey: 9102, GeogEllipsoidGeoKey: 32767, GeogSemiMajorAxisGeoKey: 3396190,
+    GeogInvFlatteningGeoKey: 169.8944472236118, ProjectedCSTypeGeoKey: 32767, ProjectionGeoKey: 32767, ProjCoordTransGeoKey: 17,
+    ProjLinearUnitsGeoKey: 9001, ProjStdParallel1GeoKey: 0, ProjFalseEastingGeoKey: 0, ProjFalseNorthingGeoKey: 0, ProjCenterLongGeoKey: 0, ProjCenterLatGeoKey: 0,
+  };
+
+  it('are recognised from the citation and converted: tan ψ = (b²/a²) tan φ (Snyder 1987, eq. 3-28)', () => {
+    const crs = projectedCrsFromGeoKeys(keys, 'mars.tif');
+    expect(crs.planetocentric).toBe(true);
+    const centric = makeProjection(crs);
+    const ographic = makeProjection({ ...crs, planetocentric: false });
+    const q = (centric.b / centric.a) ** 2;
+    for (const phi of [-80, -30, 0, 12.5, 50.5, 89]) {
+      const [E, N] = ographic.forward(20, phi); // geodetic latitude φ
+      const [, psi] = centric.inverse(E, N);
+      expect(psi).toBeCloseTo(Math.atan(q * Math.tan(phi * Math.PI / 180)) * 180 / Math.PI, 10);
+      const back = centric.forward(20, psi);
+      expect(back[0]).toBeCloseTo(E, 6);
+      expect(back[1]).toBeCloseTo(N, 6);
+    }
+    expect(terrainLonLat({ model: 'projected', geoTransform: [0, 1, 0, 0, 0, -1], projectedCrs: crs })!.datum).toMatch(/planetocentric latitude/);
+  });
+
+  it('on a sphere the flag is not set (the two latitudes are one)', () => {
+    const sphere = { ...keys, GeogInvFlatteningGeoKey: undefined, GeogSemiMinorAxisGeoKey: 3396190 };
+    expect(projectedCrsFromGeoKeys(sphere, 'mars.tif').planetocentric).toBeUndefined();
   });
 });

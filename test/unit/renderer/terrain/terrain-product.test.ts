@@ -98,6 +98,9 @@ describe('reading a DEM', () => {
 
   it('summarises a projected and a geographic georeference', () => {
     expect(describeGeoreference({ model: 'projected', projectedEpsg: 32633, geoTransform: [0, 1, 0, 0, 0, -1] })).toBe('projected, EPSG:32633');
+    // A user-defined planetary CRS: its name (the file's citation) and its projection method.
+    const polar = { proj4: '+proj=stere +lat_0=-90 +lon_0=0 +k_0=1 +x_0=0 +y_0=0 +a=1737400 +b=1737400', name: 'user-defined CRS "Moon (2015) - Sphere / Ocentric / South Polar"' };
+    expect(describeGeoreference({ model: 'projected', projectedCrs: polar, geoTransform: [0, 1, 0, 0, 0, -1] })).toBe('projected, user-defined CRS "Moon (2015) - Sphere / Ocentric / South Polar" (polar stereographic)');
     expect(describeGeoreference({ model: 'geographic', geographicEpsg: 4326, geoTransform: [0, 1, 0, 0, 0, -1], localFrame: { originLatitude_deg: 45, originLongitude_deg: 7.5, bodyRadius_m: 6378137, maxEastScaleError: 0 } })).toMatch(/^geographic \(EPSG:4326\), flat local frame about 45\.0000°, 7\.5000° on a 6378\.1 km radius$/);
   });
 });
