@@ -5,7 +5,7 @@
  * - byte order: samples and the horizontal predictor (Predictor 2) are handled in the file's byte order;
  *   the floating-point predictor (Predictor 3) works on byte planes, most significant first, whatever the
  *   byte order (libtiff tif_predict.c, fpAcc);
- * - Predictor is only read for the codecs libtiff applies it to (LZW, Deflate); values other than 1, 2, 3
+ * - Predictor is only read for the codecs libtiff applies it to (LZW, Deflate, ZSTD); values other than 1, 2, 3
  *   are refused there, as libtiff refuses them;
  * - a block whose byte count is 0 was never written (GDAL's SPARSE_OK files): it reads as the no-data value
  *   cast to the sample type if there is one, else 0 — GDAL's rule (GTiffRasterBand::NullBlock);
@@ -78,7 +78,7 @@ export function tiffLayout(image: GeoTIFFImage, source: string): TiffLayout {
   if (planarTag !== 1 && planarTag !== 2) fail(source, `invalid PlanarConfiguration: ${planarTag} (must be 1 or 2); ${resave}`);
   const compression = Number(get('Compression') ?? 1);
   if (!(compression in TIFF_COMPRESSIONS)) {
-    fail(source, `uses TIFF compression ${compression}${compression === 50000 ? ' (ZSTD)' : ''}, which this reader does not decode (it reads none, LZW, Deflate, PackBits and LERC); re-save it, e.g. gdal_translate -co COMPRESS=DEFLATE`);
+    fail(source, `uses TIFF compression ${compression}, which this reader does not decode (it reads none, LZW, Deflate, PackBits, LERC and ZSTD); re-save it, e.g. gdal_translate -co COMPRESS=DEFLATE`);
   }
   const bitsPerSample = allSame(source, 'BitsPerSample', get('BitsPerSample')) ?? 1;
   const sampleFormat = allSame(source, 'SampleFormat', get('SampleFormat')) ?? 1;
