@@ -9,7 +9,8 @@
  * - the reserved header bit and reserved block type are refused (RFC 8878 3.1.1.1.1, 3.1.1.2.2);
  * - Window_Size at most 2^27 = 128 MiB: libzstd's default limit for streaming decompression
  *   (ZSTD_WINDOWLOG_LIMIT_DEFAULT), which is how GDAL's libtiff decodes, so GDAL refuses larger windows too.
- *   No window is allocated here: the frame is decoded in one pass into the block's own buffer;
+ *   No window is allocated here: the frame is decoded in one pass into the block's buffer (the block plus
+ *   128 KiB, see decodeSized);
  * - every block's size at most Block_Maximum_Size = min(Window_Size, 128 KiB) (RFC 8878 3.1.1.2.4);
  * - Frame_Content_Size, when present, equals the block's size (ZSTD) or fits the LERC bound;
  * - the most a frame can decode to — raw and RLE blocks their size, compressed blocks Block_Maximum_Size
@@ -94,19 +95,24 @@ export function zstdFrame(input: Uint8Array, expectedBytes: number): ZstdFrame {
   return { contentSize, windowSize, end: p, maxOutput };
 }
 
-/** Decodes one checked frame into `out` and tells whether it filled `out` to its last byte. */
-function decodeInto(frame: Uint8Array, out: Uint8Array): boolean {
-  // fzstd writes the frame's output as one run from the start of `out` (dropping what falls past its
-  // end), so the output is complete exactly when the last byte was written. Which it was, is told by a
-  // marker there, checked with two different markers (a written byte may equal one of them).
-  const last = out.length - 1;
+/**
+ * Decodes one checked frame into a buffer of `size` bytes plus Block_Maximum_Size (128 KiB); returns the
+ * first `size` bytes, or null when the frame's output ends before them.
+ */
+function decodeSized(frame: Uint8Array, size: number): Uint8Array | null {
+  // fzstd writes the frame's output as one run from the start of the buffer (dropping what falls past
+  // its end), but parks each block's literals at the buffer's end before moving them into place: with
+  // 128 KiB to spare past `size`, nothing but the output itself lands before `size`. Whether the output
+  // reached the last byte is told by a marker there, checked with two different markers (a written
+  // byte may equal one of them; decoding is deterministic, so it writes the same byte both times).
+  const out = new Uint8Array(size + MAX_ZSTD_BLOCK);
   for (const marker of [0xa5, 0x5a]) {
     out.fill(0);
-    out[last] = marker;
+    out[size - 1] = marker;
     decompress(frame, out);
-    if (out[last] !== marker) return true;
+    if (out[size - 1] !== marker) return out.subarray(0, size);
   }
-  return false;
+  return null;
 }
 
 function fzstdError(err: unknown): Error {
@@ -123,14 +129,13 @@ export function zstdExactly(input: Uint8Array, expectedBytes: number): Uint8Arra
     throw new Error(`ZSTD frame declares ${f.contentSize} bytes of content, but the block holds ${expectedBytes}`);
   }
   if (f.maxOutput < expectedBytes) throw new Error(`ZSTD data decodes to at most ${f.maxOutput} of the block's ${expectedBytes} bytes`);
-  const out = new Uint8Array(expectedBytes);
-  let full: boolean;
+  let out: Uint8Array | null;
   try {
-    full = decodeInto(input.subarray(0, f.end), out);
+    out = decodeSized(input.subarray(0, f.end), expectedBytes);
   } catch (err) {
     throw fzstdError(err);
   }
-  if (!full) throw new Error(`ZSTD data ends before filling the block's ${expectedBytes} bytes`);
+  if (!out) throw new Error(`ZSTD data ends before filling the block's ${expectedBytes} bytes`);
   return out;
 }
 
@@ -144,13 +149,12 @@ export function zstdUpTo(input: Uint8Array, limit: number, what: string): Uint8A
   const size = f.contentSize;
   if (size > limit) throw new Error(`${what} frame declares ${size} bytes, more than the block can hold (${limit})`);
   if (size === 0 || f.maxOutput < size) throw new Error(`${what} frame declares ${size} bytes but its blocks hold at most ${f.maxOutput}`);
-  const out = new Uint8Array(size);
-  let full: boolean;
+  let out: Uint8Array | null;
   try {
-    full = decodeInto(input.subarray(0, f.end), out);
+    out = decodeSized(input.subarray(0, f.end), size);
   } catch (err) {
     throw fzstdError(err);
   }
-  if (!full) throw new Error(`${what} frame ends before its declared ${size} bytes`);
+  if (!out) throw new Error(`${what} frame ends before its declared ${size} bytes`);
   return out;
 }

@@ -6,6 +6,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { constants, deflateRawSync } from 'node:zlib';
+import { execFileSync } from 'node:child_process';
 import { TerrainInputError, readGeoTiff } from '../../../core/terrain/index.ts';
 import { GdalOracle, gdalPythonAvailable, judge, readOurs, type GdalRead, type GdalWrite } from './dem-oracle.ts';
 import { TAG, TiffEditor, append, retypeAsDouble } from './tiff-edit.ts';
@@ -153,4 +154,77 @@ describe.skipIf(!available)('damaged and unusual GeoTIFFs, GDAL as the oracle', 
     ed.set(TAG.TileLength, 0, 32768);
     await expect(readGeoTiff(huge)).rejects.toThrow(/TileWidth × TileLength = 32768 × 32768 pixels of 4 bytes make 4294967296 bytes per block, over the limit of 268435456 \(256 MiB\); re-tile it/);
   });
+
+  describe('ZSTD blocks (RFC 8878) read as GDAL reads them, or refused within the block', () => {
+    /** The zstd command-line tool (libzstd, the library GDAL's libtiff uses) from stdin: no content size, no checksum. */
+    const zstdCli = (data: Uint8Array) => new Uint8Array(execFileSync('zstd', ['-c', '-q', '--no-check', '-19'], { input: data }));
+    /** Replaces strip 0 of `file` with `data`. */
+    const withStrip0 = (file: Uint8Array, data: Uint8Array) => {
+      const { bytes, at } = append(file, data);
+      const ed = new TiffEditor(bytes);
+      ed.set(TAG.StripOffsets, 0, at);
+      ed.set(TAG.StripByteCounts, 0, data.length);
+      return bytes;
+    };
+    const strip0 = (file: Uint8Array) => { const b = new TiffEditor(file).blocks()[0]; return file.slice(b.offset, b.offset + b.count); };
+    const raw = (n: number) => Uint8Array.from({ length: n }, (_, k) => (k * 7 + (k >> 8)) & 0xff);
+
+    it('a window over libzstd\'s default 128 MiB limit is refused, as GDAL refuses it', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', 'BLOCKYSIZE=8'] });
+      const b = new TiffEditor(file).blocks()[0];
+      expect(file[b.offset + 4] & 0x20).toBe(0); // GDAL writes a Window_Descriptor (no single segment)
+      const bad = file.slice();
+      bad[b.offset + 5] = 18 << 3; // Window_Size = 2^(10 + 18) = 256 MiB
+      expect((await gdalReads(bad)).ok, 'GDAL refuses a 256 MiB window').toBe(false);
+      await expect(readGeoTiff(bad)).rejects.toThrow(/strip 0: ZSTD frame asks for a 268435456-byte window, over libzstd's default limit of 134217728/);
+      bad[b.offset + 5] = 17 << 3; // 128 MiB: allowed (GDAL's own ZSTD_LEVEL=22 files use it)
+      await expectAgreement(bad);
+    });
+
+    it('a frame cut short, or decoding to less than the block, is refused as GDAL refuses it', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
+      const cut = file.slice();
+      const ed = new TiffEditor(cut);
+      ed.set(TAG.StripByteCounts, 0, ed.get(TAG.StripByteCounts, 0) - 3);
+      expect((await gdalReads(cut)).ok).toBe(false);
+      await expect(readGeoTiff(cut)).rejects.toThrow(/strip 0: ZSTD frame is cut off/);
+      const short = withStrip0(file, zstdCli(raw(W * H * 2 - 2))); // 2 bytes short of the 8 KiB strip
+      expect((await gdalReads(short)).ok).toBe(false); // libtiff: "Not enough data"
+      await expect(readGeoTiff(short)).rejects.toThrow(/strip 0: ZSTD data ends before filling the block's 8192 bytes/);
+    });
+
+    it('a frame longer than its block reads the block as GDAL reads it (libtiff stops when the block is full)', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
+      const data = raw(W * H * 2 + 5000);
+      const long = withStrip0(file, zstdCli(data));
+      await expectAgreement(long);
+      expect((await readGeoTiff(long)).heights[1]).toBe(new DataView(data.buffer).getInt16(2, true));
+      // The same strip as GDAL wrote it, decoded by libzstd's own tool, is what we decode.
+      const ours = await readGeoTiff(file);
+      const ref = new Uint8Array(execFileSync('zstd', ['-d', '-c', '-q'], { input: strip0(file) }));
+      expect(ref.length).toBe(W * H * 2);
+      expect(ours.heights[W * H - 1]).toBe(new DataView(ref.buffer).getInt16(2 * (W * H - 1), true));
+    });
+
+    it('a small frame of many RLE blocks (32 GiB for an 8 KiB strip) is refused from its block headers, without decoding', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
+      const blocks = 262144; // each RLE block: 3 header bytes + 1 byte standing for 128 KiB (RFC 8878 3.1.1.2)
+      const frame = new Uint8Array(6 + 4 * blocks);
+      frame.set([0x28, 0xb5, 0x2f, 0xfd, 0x00, 7 << 3]); // magic; no content size; Window_Size 128 KiB
+      for (let i = 0; i < blocks; i++) {
+        const h = (i === blocks - 1 ? 1 : 0) | (1 << 1) | (131072 << 3);
+        frame.set([h & 0xff, (h >> 8) & 0xff, (h >> 16) & 0xff, 9], 6 + 4 * i);
+      }
+      await expect(readGeoTiff(withStrip0(file, frame))).rejects.toThrow(/strip 0: ZSTD frame's blocks may decode to more than 393216 bytes \(32 times the block's 8192 plus 128 KiB\)/);
+    });
+
+    it('skippable frames, checksums and dictionaries (never written by GDAL) are refused with the reason', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
+      const skippable = Uint8Array.from([0x50, 0x2a, 0x4d, 0x18, 0, 0, 0, 0, ...strip0(file)]);
+      await expect(readGeoTiff(withStrip0(file, skippable))).rejects.toThrow(/skippable frame/);
+      const checked = new Uint8Array(execFileSync('zstd', ['-c', '-q', '--check'], { input: raw(W * H * 2) }));
+      await expect(readGeoTiff(withStrip0(file, checked))).rejects.toThrow(/content checksum/);
+    });
+  });
 });
+
