@@ -165,9 +165,14 @@ function isNoDataFactory(noData: number | null): (v: number) => boolean {
  */
 function checkNoAlpha(image: GeoTIFFImage, samples: number, source: string): void {
   const fd = image.getFileDirectory();
-  if (samples < 2 || !fd.hasTag('ExtraSamples' as never)) return;
+  if (!fd.hasTag('ExtraSamples' as never)) return;
   const extra = numbers(fd.getValue('ExtraSamples' as never)) ?? [];
-  const i = extra.findIndex((v) => v === 1 || v === 2);
+  // libtiff's rules (tif_dir.c, setExtraSamples), which make GDAL refuse the file: no more extra samples
+  // than samples, and each one 0 (unspecified), 1 (associated alpha) or 2 (unassociated alpha).
+  if (extra.length > samples) fail(source, `ExtraSamples lists ${extra.length} extra samples but SamplesPerPixel is ${samples} (GDAL refuses it too); re-save the file from its source`);
+  const bad = extra.find((v) => !(v === 0 || v === 1 || v === 2 || v === 999));
+  if (bad !== undefined) fail(source, `invalid ExtraSamples value ${bad} (TIFF 6.0 defines 0, 1, 2; GDAL refuses others too); re-save the file from its source`);
+  const i = extra.findIndex((v) => v === 1 || v === 2 || v === 999); // libtiff reads 999 as unassociated alpha
   if (i >= 0) {
     const band = samples - extra.length + i + 1;
     fail(source, `band ${band} is an alpha band (ExtraSamples ${extra[i]}), which GDAL uses as band 1's mask and this reader does not read; keep the elevation band and give its voids a no-data value: gdal_translate -b 1 -a_nodata VALUE`);

@@ -15,6 +15,7 @@
 import type { GeoTIFFImage } from 'geotiff';
 import { TerrainInputError } from './grid.ts';
 import { TIFF_COMPRESSIONS, codecUsesPredictor, decodeBlock } from './tiff-codecs.ts';
+import { zstdReady } from './zstd.ts';
 
 /**
  * Largest decoded strip or tile: 256 MiB. Above it a file is refused before decoding (re-tile it:
@@ -214,6 +215,13 @@ export async function readWindow(
   for (let by = by0; by < by1; by++) total += (bx1 - bx0) * bw * rowsOf(by) * pixelSamples * bytes;
   if (total > MAX_DECODED_BYTES) {
     fail(source, `reading window [${c0}, ${r0}, ${c1}, ${r1}] would decode ${total} bytes of ${layout.tiled ? 'tiles' : 'strips'}, over the limit of ${MAX_DECODED_BYTES} (1 GiB); read a smaller window, or re-tile the file (gdal_translate -co TILED=YES)`);
+  }
+  if (layout.compression === 50000 || (layout.compression === 34887 && layout.lercParameters?.[1] === 2)) {
+    try {
+      await zstdReady();
+    } catch (err) {
+      fail(source, `is ZSTD-compressed, but ${err instanceof Error ? err.message : String(err)}; re-save it with gdal_translate -co COMPRESS=DEFLATE`);
+    }
   }
   const offsetsTag = layout.tiled ? 'TileOffsets' : 'StripOffsets';
   const countsTag = layout.tiled ? 'TileByteCounts' : 'StripByteCounts';

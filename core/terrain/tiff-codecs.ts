@@ -6,7 +6,7 @@
  * - too little data for the block is an error (libtiff: "Not enough data");
  * - data beyond the block is ignored (libtiff stops decoding when the block is full).
  * Decompression itself is done by libraries: pako (a port of zlib) for Deflate, lerc (Esri's decoder) for
- * LERC, fzstd for ZSTD (behind the frame checks of zstd.ts); LZW (lzw.ts) and PackBits are small enough to
+ * LERC, libzstd (zstddec, WebAssembly) for ZSTD behind the frame checks of zstd.ts; LZW (lzw.ts) and PackBits are small enough to
  * hold here with libtiff's rules.
  */
 import { Inflate } from 'pako';

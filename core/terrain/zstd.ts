@@ -1,44 +1,57 @@
 /**
  * Zstandard (RFC 8878) for TIFF blocks (Compression 50000, GDAL's ZSTD) and LERC_ZSTD blobs, bounded by
- * the block. Decompression is done by fzstd (pure JavaScript, so it also runs in the app's worker, whose
- * content policy allows no fetch of inline WebAssembly); fzstd neither reports how much it wrote nor
- * bounds its own work, so the frame is checked first by `zstdFrame` (RFC 8878, 3.1.1):
- * - one Zstandard frame: skippable frames, content checksums and dictionaries are refused (GDAL's writer,
- *   libtiff's tif_zstd.c and tif_lerc.c, writes none of them); bytes after the frame are ignored, as
- *   libtiff ignores them (it stops at the end of the first frame);
- * - the reserved header bit and reserved block type are refused (RFC 8878 3.1.1.1.1, 3.1.1.2.2);
+ * the block. Decompression is done by libzstd itself — the library GDAL's libtiff decodes ZSTD with —
+ * compiled to WebAssembly (the zstddec package, also what the `geotiff` package uses), in one pass into a
+ * buffer of the block's size: libzstd refuses to write past it, checks every block and bitstream, and
+ * reports a short frame by the size it returns. A pure-JavaScript decoder (fzstd 0.1.1) was tried first:
+ * on 2,000 single-byte corruptions of a ZSTD strip it read 417 that libzstd (and so GDAL) refuses as
+ * corrupt. The frame is checked before decoding (`zstdFrame`, RFC 8878 3.1.1), for GDAL's behaviour where
+ * one-pass decoding differs from libtiff's streaming decoding, and for clear messages:
+ * - one Zstandard frame: a leading skippable frame and dictionaries are refused (GDAL's writers, libtiff's
+ *   tif_zstd.c and tif_lerc.c, write neither); bytes after the frame are ignored, as libtiff ignores them
+ *   (it stops at the end of the first frame);
+ * - the reserved header bit and the reserved block type are refused (RFC 8878 3.1.1.1.1, 3.1.1.2.2);
  * - Window_Size at most 2^27 = 128 MiB: libzstd's default limit for streaming decompression
  *   (ZSTD_WINDOWLOG_LIMIT_DEFAULT), which is how GDAL's libtiff decodes, so GDAL refuses larger windows too.
- *   No window is allocated here: the frame is decoded in one pass into the block's buffer (the block plus
- *   128 KiB, see decodeSized);
+ *   One-pass decoding allocates no window: memory is the block (and the compressed bytes) only;
  * - every block's size at most Block_Maximum_Size = min(Window_Size, 128 KiB) (RFC 8878 3.1.1.2.4);
- * - Frame_Content_Size, when present, equals the block's size (ZSTD) or fits the LERC bound;
- * - the most a frame can decode to — raw and RLE blocks their size, compressed blocks Block_Maximum_Size
- *   each — is at most MAX_ZSTD_WORK_FACTOR × the block + 128 KiB. fzstd keeps decoding past the end of the
- *   buffer (and drops those bytes), so this bounds its time by the block size. GDAL's level-22 files
- *   measured 3.75× at most (libzstd's block splitter makes many small blocks; 1024² Float32 terrain).
+ * - Frame_Content_Size, when present, equals the block's size (ZSTD) or fits the LERC bound.
+ * A frame that decodes to more than its block is refused (libtiff would keep the first block's worth).
  */
-import { decompress } from 'fzstd';
+import { ZSTDDecoder } from 'zstddec';
 
 /** libzstd's default window limit for streaming decompression (zstd.h, ZSTD_WINDOWLOG_LIMIT_DEFAULT = 27). */
 export const MAX_ZSTD_WINDOW_BYTES = 2 ** 27;
 /** Block_Maximum_Size cap (RFC 8878 3.1.1.2.4). */
 const MAX_ZSTD_BLOCK = 128 * 1024;
-/** A frame may declare at most this many times the block (plus 128 KiB) of output; see above. */
-export const MAX_ZSTD_WORK_FACTOR = 32;
 
 export interface ZstdFrame {
   /** Frame_Content_Size, or null when the frame does not declare it. */
   contentSize: number | null;
   windowSize: number;
-  /** Offset just past the frame (its last block). */
+  /** Offset just past the frame (its last block and checksum). */
   end: number;
-  /** Upper bound of the decoded size from the block headers. */
-  maxOutput: number;
+}
+
+let decoder: ZSTDDecoder | null = null;
+let starting: Promise<void> | null = null;
+
+/** Starts the WebAssembly decoder once (it is compiled from bytes held in the package); await before decoding. */
+export async function zstdReady(): Promise<void> {
+  if (decoder) return;
+  const d = new ZSTDDecoder();
+  starting ??= d.init();
+  try {
+    await starting;
+  } catch (err) {
+    starting = null;
+    throw new Error(`the ZSTD decoder (WebAssembly) could not start: ${err instanceof Error ? err.message : String(err)}`, { cause: err });
+  }
+  decoder = d;
 }
 
 /** Parses and checks one Zstandard frame's header and block headers (RFC 8878 3.1.1); throws on any problem. */
-export function zstdFrame(input: Uint8Array, expectedBytes: number): ZstdFrame {
+export function zstdFrame(input: Uint8Array): ZstdFrame {
   const n = input.length;
   if (n < 4) throw new Error(`ZSTD data is ${n} bytes long, too short for a frame`);
   const magic = (input[0] | (input[1] << 8) | (input[2] << 16) | (input[3] << 24)) >>> 0;
@@ -48,7 +61,6 @@ export function zstdFrame(input: Uint8Array, expectedBytes: number): ZstdFrame {
   const fhd = input[4];
   const fcsFlag = fhd >> 6, singleSegment = (fhd >> 5) & 1, reserved = (fhd >> 3) & 1, checksum = (fhd >> 2) & 1, didFlag = fhd & 3;
   if (reserved) throw new Error('ZSTD frame header has its reserved bit set (RFC 8878 3.1.1.1.1)');
-  if (checksum) throw new Error('ZSTD frame has a content checksum, which GDAL never writes in a TIFF block and this reader does not verify');
   let p = 5;
   let windowSize = 0;
   if (!singleSegment) {
@@ -75,8 +87,6 @@ export function zstdFrame(input: Uint8Array, expectedBytes: number): ZstdFrame {
     throw new Error(`ZSTD frame asks for a ${windowSize}-byte window, over libzstd's default limit of ${MAX_ZSTD_WINDOW_BYTES} (128 MiB) that GDAL decodes with`);
   }
   const blockMax = Math.min(windowSize, MAX_ZSTD_BLOCK);
-  const workLimit = MAX_ZSTD_WORK_FACTOR * expectedBytes + MAX_ZSTD_BLOCK;
-  let maxOutput = 0;
   for (;;) {
     if (p + 3 > n) throw new Error(`ZSTD frame is cut off after ${p} of its bytes (no last block)`);
     const h = input[p] | (input[p + 1] << 8) | (input[p + 2] << 16);
@@ -86,57 +96,36 @@ export function zstdFrame(input: Uint8Array, expectedBytes: number): ZstdFrame {
     if (size > blockMax) throw new Error(`ZSTD block of ${size} bytes is over the frame's Block_Maximum_Size of ${blockMax} (RFC 8878 3.1.1.2.4)`);
     p += type === 1 ? 1 : size;
     if (p > n) throw new Error('ZSTD frame is cut off inside a block');
-    maxOutput += type === 2 ? blockMax : size;
-    if (maxOutput > workLimit) {
-      throw new Error(`ZSTD frame's blocks may decode to more than ${workLimit} bytes (${MAX_ZSTD_WORK_FACTOR} times the block's ${expectedBytes} plus 128 KiB); re-save the file with a lower ZSTD_LEVEL or DEFLATE`);
-    }
     if (last) break;
   }
-  return { contentSize, windowSize, end: p, maxOutput };
-}
-
-/**
- * Decodes one checked frame into a buffer of `size` bytes plus Block_Maximum_Size (128 KiB); returns the
- * first `size` bytes, or null when the frame's output ends before them.
- */
-function decodeSized(frame: Uint8Array, size: number): Uint8Array | null {
-  // fzstd writes the frame's output as one run from the start of the buffer (dropping what falls past
-  // its end), but parks each block's literals at the buffer's end before moving them into place: with
-  // 128 KiB to spare past `size`, nothing but the output itself lands before `size`. Whether the output
-  // reached the last byte is told by a marker there, checked with two different markers (a written
-  // byte may equal one of them; decoding is deterministic, so it writes the same byte both times).
-  const out = new Uint8Array(size + MAX_ZSTD_BLOCK);
-  for (const marker of [0xa5, 0x5a]) {
-    out.fill(0);
-    out[size - 1] = marker;
-    decompress(frame, out);
-    if (out[size - 1] !== marker) return out.subarray(0, size);
+  if (checksum) {
+    p += 4; // Content_Checksum (XXH64, low 4 bytes), verified by libzstd
+    if (p > n) throw new Error('ZSTD frame is cut off in its checksum');
   }
-  return null;
+  return { contentSize, windowSize, end: p };
 }
 
-function fzstdError(err: unknown): Error {
-  return new Error(`ZSTD data is corrupt (${err instanceof Error ? err.message : String(err)})`, { cause: err });
+/** One checked frame → exactly `size` bytes, or an error saying how it differs. */
+function decodeSized(frame: Uint8Array, size: number, what: string): Uint8Array {
+  if (!decoder) throw new Error('the ZSTD decoder was not started (call zstdReady first)');
+  // zstddec hands libzstd's size_t result back as a signed 32-bit number: an error code is negative and
+  // gives an empty result (checked: a corrupt frame decodes to 0 bytes).
+  const out = decoder.decode(frame, size);
+  if (out.length === size) return out;
+  if (out.length === 0) throw new Error(`${what} data is corrupt or decodes to more than the block's ${size} bytes (libzstd refuses it)`);
+  throw new Error(`${what} data ends after ${out.length} of the block's ${size} bytes`);
 }
 
 /**
  * A TIFF block's ZSTD data → exactly `expectedBytes`. Too little data is an error (libtiff: "Not enough
- * data"); data past the block is dropped, as libtiff stops when the block is full.
+ * data"); so is more (see above).
  */
 export function zstdExactly(input: Uint8Array, expectedBytes: number): Uint8Array {
-  const f = zstdFrame(input, expectedBytes);
+  const f = zstdFrame(input);
   if (f.contentSize !== null && f.contentSize !== expectedBytes) {
     throw new Error(`ZSTD frame declares ${f.contentSize} bytes of content, but the block holds ${expectedBytes}`);
   }
-  if (f.maxOutput < expectedBytes) throw new Error(`ZSTD data decodes to at most ${f.maxOutput} of the block's ${expectedBytes} bytes`);
-  let out: Uint8Array | null;
-  try {
-    out = decodeSized(input.subarray(0, f.end), expectedBytes);
-  } catch (err) {
-    throw fzstdError(err);
-  }
-  if (!out) throw new Error(`ZSTD data ends before filling the block's ${expectedBytes} bytes`);
-  return out;
+  return decodeSized(input.subarray(0, f.end), expectedBytes, 'ZSTD');
 }
 
 /**
@@ -144,17 +133,10 @@ export function zstdExactly(input: Uint8Array, expectedBytes: number): Uint8Arra
  * compresses the LERC blob with ZSTD_compress, which always writes Frame_Content_Size).
  */
 export function zstdUpTo(input: Uint8Array, limit: number, what: string): Uint8Array {
-  const f = zstdFrame(input, limit);
+  const f = zstdFrame(input);
   if (f.contentSize === null) throw new Error(`${what} frame does not declare its content size (GDAL's writer always does)`);
   const size = f.contentSize;
   if (size > limit) throw new Error(`${what} frame declares ${size} bytes, more than the block can hold (${limit})`);
-  if (size === 0 || f.maxOutput < size) throw new Error(`${what} frame declares ${size} bytes but its blocks hold at most ${f.maxOutput}`);
-  let out: Uint8Array | null;
-  try {
-    out = decodeSized(input.subarray(0, f.end), size);
-  } catch (err) {
-    throw fzstdError(err);
-  }
-  if (!out) throw new Error(`${what} frame ends before its declared ${size} bytes`);
-  return out;
+  if (size === 0) throw new Error(`${what} frame is empty`);
+  return decodeSized(input.subarray(0, f.end), size, what);
 }

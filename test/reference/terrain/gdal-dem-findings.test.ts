@@ -190,23 +190,26 @@ describe.skipIf(!available)('damaged and unusual GeoTIFFs, GDAL as the oracle', 
       await expect(readGeoTiff(cut)).rejects.toThrow(/strip 0: ZSTD frame is cut off/);
       const short = withStrip0(file, zstdCli(raw(W * H * 2 - 2))); // 2 bytes short of the 8 KiB strip
       expect((await gdalReads(short)).ok).toBe(false); // libtiff: "Not enough data"
-      await expect(readGeoTiff(short)).rejects.toThrow(/strip 0: ZSTD data ends before filling the block's 8192 bytes/);
+      await expect(readGeoTiff(short)).rejects.toThrow(/strip 0: ZSTD data ends after 8190 of the block's 8192 bytes/);
     });
 
-    it('a frame longer than its block reads the block as GDAL reads it (libtiff stops when the block is full)', async () => {
+    it('a frame longer than its block is refused, not cut (libtiff would keep the first block\'s worth)', async () => {
       const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
-      const data = raw(W * H * 2 + 5000);
-      const long = withStrip0(file, zstdCli(data));
-      await expectAgreement(long);
-      expect((await readGeoTiff(long)).heights[1]).toBe(new DataView(data.buffer).getInt16(2, true));
-      // The same strip as GDAL wrote it, decoded by libzstd's own tool, is what we decode.
-      const ours = await readGeoTiff(file);
+      const long = withStrip0(file, zstdCli(raw(W * H * 2 + 5000)));
+      expect((await gdalReads(long)).ok).toBe(true);
+      await expect(readGeoTiff(long)).rejects.toThrow(/strip 0: ZSTD data is corrupt or decodes to more than the block's 8192 bytes/);
+    });
+
+    it('the strip GDAL wrote decodes to what libzstd\'s own tool decodes', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
       const ref = new Uint8Array(execFileSync('zstd', ['-d', '-c', '-q'], { input: strip0(file) }));
       expect(ref.length).toBe(W * H * 2);
-      expect(ours.heights[W * H - 1]).toBe(new DataView(ref.buffer).getInt16(2 * (W * H - 1), true));
+      const ours = await readGeoTiff(file);
+      const v = new DataView(ref.buffer);
+      expect(Array.from(ours.heights, (_, k) => v.getInt16(2 * k, true))).toEqual(Array.from(ours.heights));
     });
 
-    it('a small frame of many RLE blocks (32 GiB for an 8 KiB strip) is refused from its block headers, without decoding', async () => {
+    it('a small frame of many RLE blocks (32 GiB for an 8 KiB strip) is refused when the block is full', async () => {
       const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
       const blocks = 262144; // each RLE block: 3 header bytes + 1 byte standing for 128 KiB (RFC 8878 3.1.1.2)
       const frame = new Uint8Array(6 + 4 * blocks);
@@ -215,15 +218,25 @@ describe.skipIf(!available)('damaged and unusual GeoTIFFs, GDAL as the oracle', 
         const h = (i === blocks - 1 ? 1 : 0) | (1 << 1) | (131072 << 3);
         frame.set([h & 0xff, (h >> 8) & 0xff, (h >> 16) & 0xff, 9], 6 + 4 * i);
       }
-      await expect(readGeoTiff(withStrip0(file, frame))).rejects.toThrow(/strip 0: ZSTD frame's blocks may decode to more than 393216 bytes \(32 times the block's 8192 plus 128 KiB\)/);
+      await expect(readGeoTiff(withStrip0(file, frame))).rejects.toThrow(/strip 0: ZSTD data is corrupt or decodes to more than the block's 8192 bytes/);
     });
 
-    it('skippable frames, checksums and dictionaries (never written by GDAL) are refused with the reason', async () => {
+    it('content checksums are verified; skippable frames and reserved bits (never written by GDAL) are refused', async () => {
       const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
+      const data = raw(W * H * 2);
+      const checked = new Uint8Array(execFileSync('zstd', ['-c', '-q', '--check'], { input: data }));
+      expect(checked[4] & 0x04).toBe(0x04); // Content_Checksum_flag
+      const good = withStrip0(file, checked);
+      await expectAgreement(good);
+      const bad = good.slice();
+      bad[bad.length - 1] ^= 0xff; // the checksum is the strip's last 4 bytes, the file's last
+      expect((await gdalReads(bad)).ok).toBe(false);
+      await expect(readGeoTiff(bad)).rejects.toThrow(/strip 0: ZSTD data is corrupt/);
       const skippable = Uint8Array.from([0x50, 0x2a, 0x4d, 0x18, 0, 0, 0, 0, ...strip0(file)]);
       await expect(readGeoTiff(withStrip0(file, skippable))).rejects.toThrow(/skippable frame/);
-      const checked = new Uint8Array(execFileSync('zstd', ['-c', '-q', '--check'], { input: raw(W * H * 2) }));
-      await expect(readGeoTiff(withStrip0(file, checked))).rejects.toThrow(/content checksum/);
+      const reserved = strip0(file);
+      reserved[4] |= 0x08;
+      await expect(readGeoTiff(withStrip0(file, reserved))).rejects.toThrow(/reserved bit/);
     });
   });
 });
