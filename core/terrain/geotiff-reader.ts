@@ -103,7 +103,8 @@ function checkGeoKeyDirectory(image: GeoTIFFImage, source: string): void {
   const lengthOf = (tag: string) => {
     if (!fd.hasTag(tag as never)) return 0;
     const v = fd.getValue(tag as never) as unknown;
-    return typeof v === 'string' ? v.length : numbers(v)?.length ?? 0;
+    // libgeotiff takes GeoAsciiParams as a C string: it ends at the first NUL.
+    return typeof v === 'string' ? (v.includes('\0') ? v.indexOf('\0') : v.length) : numbers(v)?.length ?? 0;
   };
   const keys = dir[3] ?? 0;
   const asciiKeys = Array.from({ length: keys }, (_, i) => dir[5 + 4 * i]).some((loc) => loc === 34737);

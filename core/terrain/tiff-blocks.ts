@@ -81,6 +81,12 @@ export function tiffLayout(image: GeoTIFFImage, source: string): TiffLayout {
   if (!(compression in TIFF_COMPRESSIONS)) {
     fail(source, `uses TIFF compression ${compression}, which this reader does not decode (it reads none, LZW, Deflate, PackBits, LERC and ZSTD); re-save it, e.g. gdal_translate -co COMPRESS=DEFLATE`);
   }
+  // libtiff reads these per-sample tags with one value, or at least one per sample (TIFFReadDirEntryPersampleShort).
+  for (const name of ['BitsPerSample', 'SampleFormat']) {
+    const v = get(name);
+    const count = v === undefined || typeof v === 'number' ? 1 : (v as ArrayLike<number>).length;
+    if (count !== 1 && count < samplesPerPixel) fail(source, `${name} has ${count} values for ${samplesPerPixel} samples per pixel (TIFF 6.0 wants one per sample; GDAL refuses it too); re-save the file from its source`);
+  }
   const bitsPerSample = allSame(source, 'BitsPerSample', get('BitsPerSample')) ?? 1;
   const sampleFormat = allSame(source, 'SampleFormat', get('SampleFormat')) ?? 1;
   const supported = (sampleFormat === 1 || sampleFormat === 2) ? [8, 16, 32].includes(bitsPerSample) : sampleFormat === 3 && (bitsPerSample === 32 || bitsPerSample === 64);
@@ -245,6 +251,14 @@ export async function readWindow(
         continue;
       }
       const expectedBytes = bw * rows * pixelSamples * bytes;
+      // GDAL 3.6 reads an uncompressed tile of the last, partial tile row through libtiff's decoder for its
+      // valid rows only, and refuses it when the byte count is below them ("DumpModeDecode: Not enough
+      // data"); other uncompressed blocks are read at their declared size (measured with gdal_create tiles
+      // of 40 × 30 pixels, 16 × 16 tiles: short counts on full tiles and on strips read).
+      const validRows = Math.min(bh, layout.height - by * bh);
+      if (layout.compression === 1 && layout.tiled && validRows < bh && count < bw * validRows * pixelSamples * bytes) {
+        fail(source, `${at} = ${count} is less than the ${bw * validRows * pixelSamples * bytes} bytes of the tile's ${validRows} rows inside the image (GDAL refuses it too); the file is truncated or corrupt`);
+      }
       // Uncompressed blocks are read at their declared size, as libtiff does; others by their byte count.
       const end = layout.compression === 1 ? offset + expectedBytes : offset + count;
       if (!Number.isInteger(offset) || offset <= 0 || offset > file.length || end > file.length) {

@@ -134,6 +134,9 @@ export function zstdExactly(input: Uint8Array, expectedBytes: number): Uint8Arra
  */
 export function zstdUpTo(input: Uint8Array, limit: number, what: string): Uint8Array {
   const f = zstdFrame(input);
+  // GDAL's LERC codec decodes the whole block with ZSTD_decompress, which reads any bytes after the frame
+  // as another frame: GDAL refuses such a block, so do we.
+  if (f.end !== input.length) throw new Error(`${what} block holds ${input.length - f.end} bytes after its ZSTD frame`);
   if (f.contentSize === null) throw new Error(`${what} frame does not declare its content size (GDAL's writer always does)`);
   const size = f.contentSize;
   if (size > limit) throw new Error(`${what} frame declares ${size} bytes, more than the block can hold (${limit})`);

@@ -159,7 +159,7 @@ export async function fuzz(oracle: GdalOracle, dir: (name: string) => string, pe
         tally.counts[j.verdict]++;
         const k = (tally.byKind[p.kind] ??= {});
         k[j.verdict] = (k[j.verdict] ?? 0) + 1;
-        if (!['agree', 'both-refused', 'we-refused'].includes(j.verdict) && tally.examples.filter((e) => e.verdict === j.verdict).length < 8) {
+        if (!['agree', 'both-refused', 'we-refused'].includes(j.verdict) && tally.examples.filter((e) => e.verdict === j.verdict).length < Number(process.env.DEM_FUZZ_EXAMPLES ?? 8)) {
           tally.examples.push({ verdict: j.verdict, kind: p.kind, file: files[f].path.split('/').pop()!, detail: j.detail });
         }
       });

@@ -82,6 +82,20 @@ describe.skipIf(!available)('damaged and unusual GeoTIFFs, GDAL as the oracle', 
     await expect(readGeoTiff(deflated)).rejects.toThrow(/StripOffsets\[7\] = \d+ with StripByteCounts\[7\] = \d+ runs past the end of the \d+-byte file/);
   });
 
+  it('uncompressed tiles with short byte counts: read as GDAL reads them, refused on the last, partial tile row as GDAL refuses them', async () => {
+    // 64 × 64 cells in 16 × 48 tiles (3072 bytes): the last tile row holds 16 of 48 rows (1024 bytes).
+    const file = await gdalWritten({ type: 'Float32', values: terrain, options: ['TILED=YES', 'BLOCKXSIZE=16', 'BLOCKYSIZE=48'] });
+    for (const [tile, minus] of [[0, 300], [4, 10], [4, 2200]] as const) {
+      const bad = file.slice();
+      const ed = new TiffEditor(bad);
+      ed.set(TAG.TileByteCounts, tile, ed.get(TAG.TileByteCounts, tile) - minus);
+      const gdal = await gdalReads(bad);
+      const j = judge(await readOurs(bad), gdal);
+      expect(j.verdict, `tile ${tile} − ${minus} bytes: ${j.detail}`).toBe(gdal.ok ? 'agree' : 'both-refused');
+      if (!gdal.ok) expect(j.detail).toMatch(new RegExp(`TileByteCounts\\[${tile}\\] = \\d+ is less than the 1024 bytes of the tile's 16 rows inside the image`));
+    }
+  });
+
   it('invalid Predictor values (0, 4, 99) on Deflate and LZW data are refused, as GDAL refuses them', async () => {
     for (const compress of ['DEFLATE', 'LZW']) {
       const good = await gdalWritten({ type: 'Int16', values: terrain, options: [`COMPRESS=${compress}`, 'PREDICTOR=2'] });
