@@ -8,11 +8,14 @@
  * corrupt. The frame is checked before decoding (`zstdFrame`, RFC 8878 3.1.1), for GDAL's behaviour where
  * one-pass decoding differs from libtiff's streaming decoding, and for clear messages:
  * - one Zstandard frame: a leading skippable frame and dictionaries are refused (GDAL's writers, libtiff's
- *   tif_zstd.c and tif_lerc.c, write neither); bytes after the frame are ignored, as libtiff ignores them
- *   (it stops at the end of the first frame);
+ *   tif_zstd.c and tif_lerc.c, write neither); bytes after the frame are ignored in a ZSTD block, as
+ *   libtiff ignores them (it stops at the end of the first frame), and refused in a LERC_ZSTD block (GDAL's
+ *   one-pass ZSTD_decompress reads them as a further frame and fails);
  * - the reserved header bit and the reserved block type are refused (RFC 8878 3.1.1.1.1, 3.1.1.2.2);
  * - Window_Size at most 2^27 = 128 MiB: libzstd's default limit for streaming decompression
- *   (ZSTD_WINDOWLOG_LIMIT_DEFAULT), which is how GDAL's libtiff decodes, so GDAL refuses larger windows too.
+ *   (ZSTD_WINDOWLOG_LIMIT_DEFAULT, zstd.h — value from memory, confirmed against GDAL by
+ *   gdal-dem-findings.test.ts: a 256 MiB window is refused, 128 MiB read), which is how GDAL's libtiff
+ *   decodes, so GDAL refuses larger windows too.
  *   One-pass decoding allocates no window: memory is the block (and the compressed bytes) only;
  * - every block's size at most Block_Maximum_Size = min(Window_Size, 128 KiB) (RFC 8878 3.1.1.2.4);
  * - Frame_Content_Size, when present, equals the block's size (ZSTD) or fits the LERC bound.
