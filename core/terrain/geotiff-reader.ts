@@ -1,6 +1,6 @@
 /**
- * Single-band GeoTIFF (OGC GeoTIFF 1.1) elevation reader on top of the `geotiff` package: bytes in,
- * ElevationGrid out. Handles integer and float samples, the affine tags (ModelPixelScale +
+ * GeoTIFF (OGC GeoTIFF 1.1) elevation reader on top of the `geotiff` package: bytes in, ElevationGrid
+ * out; band 1 is the elevation (as GDAL reads it), pixel- or band-interleaved. Handles integer and float samples, the affine tags (ModelPixelScale +
  * ModelTiepoint, or a non-rotated ModelTransformation), GDAL_NODATA (including "nan"; float32 files are
  * compared after Math.fround), PixelIsPoint vs PixelIsArea, projected metres, and geographic degrees
  * converted to a flat local east–north frame around a chosen origin.
@@ -104,7 +104,8 @@ function checkGeoKeyDirectory(image: GeoTIFFImage, source: string): void {
   const lengthOf = (tag: string) => {
     if (!fd.hasTag(tag as never)) return 0;
     const v = fd.getValue(tag as never) as unknown;
-    return typeof v === 'string' ? v.length : numbers(v)?.length ?? 0;
+    // libgeotiff takes GeoAsciiParams as a C string: it ends at the first NUL.
+    return typeof v === 'string' ? (v.includes('\0') ? v.indexOf('\0') : v.length) : numbers(v)?.length ?? 0;
   };
   const keys = dir[3] ?? 0;
   const asciiKeys = Array.from({ length: keys }, (_, i) => dir[5 + 4 * i]).some((loc) => loc === 34737);
@@ -159,7 +160,28 @@ function isNoDataFactory(noData: number | null): (v: number) => boolean {
   return (v) => v === noData || Number.isNaN(v);
 }
 
-/** Reads band 1 of a single-band GeoTIFF into an ElevationGrid. Errors are TerrainInputError. */
+/**
+ * Band 1 is the elevation of a file with several bands, as GDAL reads it (gdaldem and GDAL's other DEM tools
+ * use band 1 by default); GDAL_NODATA applies to every band. An alpha band (ExtraSamples 1 or 2, TIFF 6.0
+ * Section 18) is refused: GDAL would use it as band 1's mask, which this reader does not read.
+ */
+function checkNoAlpha(image: GeoTIFFImage, samples: number, source: string): void {
+  const fd = image.getFileDirectory();
+  if (!fd.hasTag('ExtraSamples' as never)) return;
+  const extra = numbers(fd.getValue('ExtraSamples' as never)) ?? [];
+  // libtiff's rules (tif_dir.c, setExtraSamples), which make GDAL refuse the file: no more extra samples
+  // than samples, and each one 0 (unspecified), 1 (associated alpha) or 2 (unassociated alpha).
+  if (extra.length > samples) fail(source, `ExtraSamples lists ${extra.length} extra samples but SamplesPerPixel is ${samples} (GDAL refuses it too); re-save the file from its source`);
+  const bad = extra.find((v) => !(v === 0 || v === 1 || v === 2 || v === 999));
+  if (bad !== undefined) fail(source, `invalid ExtraSamples value ${bad} (TIFF 6.0 defines 0, 1, 2; GDAL refuses others too); re-save the file from its source`);
+  const i = extra.findIndex((v) => v === 1 || v === 2 || v === 999); // libtiff reads 999 as unassociated alpha
+  if (i >= 0) {
+    const band = samples - extra.length + i + 1;
+    fail(source, `band ${band} is an alpha band (ExtraSamples ${extra[i]}), which GDAL uses as band 1's mask and this reader does not read; keep the elevation band and give its voids a no-data value: gdal_translate -b 1 -a_nodata VALUE`);
+  }
+}
+
+/** Reads band 1 (the elevation) of a GeoTIFF into an ElevationGrid. Errors are TerrainInputError. */
 export async function readGeoTiff(bytes: Uint8Array | ArrayBuffer, options: GeoTiffReadOptions = {}): Promise<ElevationGrid> {
   const source = options.sourceName ?? 'GeoTIFF';
   // geotiff wants a whole ArrayBuffer: use the view's own buffer when it spans all of it, else copy
@@ -186,7 +208,7 @@ async function readImage(bytes: Uint8Array, buf: ArrayBuffer, source: string, op
   const image = await tiff.getImage(0);
   const layout = tiffLayout(image, source);
   const { width: fullW, height: fullH } = layout;
-  if (layout.samplesPerPixel !== 1) fail(source, `has ${layout.samplesPerPixel} bands; an elevation model must have exactly 1 (extract one with gdal_translate -b 1)`);
+  checkNoAlpha(image, layout.samplesPerPixel, source);
   const [c0, r0, c1, r1] = options.window ?? [0, 0, fullW, fullH];
   if (![c0, r0, c1, r1].every(Number.isInteger) || c0 < 0 || r0 < 0 || c1 > fullW || r1 > fullH || c1 <= c0 || r1 <= r0) {
     fail(source, `invalid window [${c0}, ${r0}, ${c1}, ${r1}] for a ${fullW} × ${fullH} image (need 0 ≤ col0 < col1 ≤ width, 0 ≤ row0 < row1 ≤ height)`);

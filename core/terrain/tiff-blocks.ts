@@ -5,7 +5,7 @@
  * - byte order: samples and the horizontal predictor (Predictor 2) are handled in the file's byte order;
  *   the floating-point predictor (Predictor 3) works on byte planes, most significant first, whatever the
  *   byte order (libtiff tif_predict.c, fpAcc);
- * - Predictor is only read for the codecs libtiff applies it to (LZW, Deflate); values other than 1, 2, 3
+ * - Predictor is only read for the codecs libtiff applies it to (LZW, Deflate, ZSTD); values other than 1, 2, 3
  *   are refused there, as libtiff refuses them;
  * - a block whose byte count is 0 was never written (GDAL's SPARSE_OK files): it reads as the no-data value
  *   cast to the sample type if there is one, else 0 — GDAL's rule (GTiffRasterBand::NullBlock);
@@ -15,6 +15,7 @@
 import type { GeoTIFFImage } from 'geotiff';
 import { TerrainInputError } from './grid.ts';
 import { TIFF_COMPRESSIONS, codecUsesPredictor, decodeBlock } from './tiff-codecs.ts';
+import { zstdReady } from './zstd.ts';
 
 /**
  * Largest decoded strip or tile: 256 MiB. Above it a file is refused before decoding (re-tile it:
@@ -78,7 +79,13 @@ export function tiffLayout(image: GeoTIFFImage, source: string): TiffLayout {
   if (planarTag !== 1 && planarTag !== 2) fail(source, `invalid PlanarConfiguration: ${planarTag} (must be 1 or 2); ${resave}`);
   const compression = Number(get('Compression') ?? 1);
   if (!(compression in TIFF_COMPRESSIONS)) {
-    fail(source, `uses TIFF compression ${compression}${compression === 50000 ? ' (ZSTD)' : ''}, which this reader does not decode (it reads none, LZW, Deflate, PackBits and LERC); re-save it, e.g. gdal_translate -co COMPRESS=DEFLATE`);
+    fail(source, `uses TIFF compression ${compression}, which this reader does not decode (it reads none, LZW, Deflate, PackBits, LERC and ZSTD); re-save it, e.g. gdal_translate -co COMPRESS=DEFLATE`);
+  }
+  // libtiff reads these per-sample tags with one value, or at least one per sample (TIFFReadDirEntryPersampleShort).
+  for (const name of ['BitsPerSample', 'SampleFormat']) {
+    const v = get(name);
+    const count = v === undefined || typeof v === 'number' ? 1 : (v as ArrayLike<number>).length;
+    if (count !== 1 && count < samplesPerPixel) fail(source, `${name} has ${count} values for ${samplesPerPixel} samples per pixel (TIFF 6.0 wants one per sample; GDAL refuses it too); re-save the file from its source`);
   }
   const bitsPerSample = allSame(source, 'BitsPerSample', get('BitsPerSample')) ?? 1;
   const sampleFormat = allSame(source, 'SampleFormat', get('SampleFormat')) ?? 1;
@@ -215,6 +222,13 @@ export async function readWindow(
   if (total > MAX_DECODED_BYTES) {
     fail(source, `reading window [${c0}, ${r0}, ${c1}, ${r1}] would decode ${total} bytes of ${layout.tiled ? 'tiles' : 'strips'}, over the limit of ${MAX_DECODED_BYTES} (1 GiB); read a smaller window, or re-tile the file (gdal_translate -co TILED=YES)`);
   }
+  if (layout.compression === 50000 || (layout.compression === 34887 && layout.lercParameters?.[1] === 2)) {
+    try {
+      await zstdReady();
+    } catch (err) {
+      fail(source, `is ZSTD-compressed, but ${err instanceof Error ? err.message : String(err)}; re-save it with gdal_translate -co COMPRESS=DEFLATE`);
+    }
+  }
   const offsetsTag = layout.tiled ? 'TileOffsets' : 'StripOffsets';
   const countsTag = layout.tiled ? 'TileByteCounts' : 'StripByteCounts';
   const read = sampleReader(layout);
@@ -237,6 +251,14 @@ export async function readWindow(
         continue;
       }
       const expectedBytes = bw * rows * pixelSamples * bytes;
+      // GDAL 3.6 reads an uncompressed tile of the last, partial tile row through libtiff's decoder for its
+      // valid rows only, and refuses it when the byte count is below them ("DumpModeDecode: Not enough
+      // data"); other uncompressed blocks are read at their declared size (measured with gdal_create tiles
+      // of 40 × 30 pixels, 16 × 16 tiles: short counts on full tiles and on strips read).
+      const validRows = Math.min(bh, layout.height - by * bh);
+      if (layout.compression === 1 && layout.tiled && validRows < bh && count < bw * validRows * pixelSamples * bytes) {
+        fail(source, `${at} = ${count} is less than the ${bw * validRows * pixelSamples * bytes} bytes of the tile's ${validRows} rows inside the image (GDAL refuses it too); the file is truncated or corrupt`);
+      }
       // Uncompressed blocks are read at their declared size, as libtiff does; others by their byte count.
       const end = layout.compression === 1 ? offset + expectedBytes : offset + count;
       if (!Number.isInteger(offset) || offset <= 0 || offset > file.length || end > file.length) {

@@ -6,18 +6,20 @@
  * - too little data for the block is an error (libtiff: "Not enough data");
  * - data beyond the block is ignored (libtiff stops decoding when the block is full).
  * Decompression itself is done by libraries: pako (a port of zlib) for Deflate, lerc (Esri's decoder) for
- * LERC; LZW (lzw.ts) and PackBits are small enough to hold here with libtiff's rules.
+ * LERC, libzstd (zstddec, WebAssembly) for ZSTD behind the frame checks of zstd.ts; LZW (lzw.ts) and PackBits are small enough to
+ * hold here with libtiff's rules.
  */
 import { Inflate } from 'pako';
 import Lerc from 'lerc';
 import { decodeTiffLzw } from './lzw.ts';
+import { zstdExactly, zstdUpTo } from './zstd.ts';
 
 /** TIFF Compression codes read, with their names. */
-export const TIFF_COMPRESSIONS: Readonly<Record<number, string>> = { 1: 'none', 5: 'LZW', 8: 'Deflate', 32946: 'Deflate', 32773: 'PackBits', 34887: 'LERC' };
+export const TIFF_COMPRESSIONS: Readonly<Record<number, string>> = { 1: 'none', 5: 'LZW', 8: 'Deflate', 32946: 'Deflate', 32773: 'PackBits', 34887: 'LERC', 50000: 'ZSTD' };
 
 /** Codecs that take a Predictor (libtiff sets up the predictor for LZW, Deflate, ZSTD and LZMA only). */
 export function codecUsesPredictor(compression: number): boolean {
-  return compression === 5 || compression === 8 || compression === 32946;
+  return compression === 5 || compression === 8 || compression === 32946 || compression === 50000;
 }
 
 /** What a block decoder needs to know about the block besides its bytes. */
@@ -51,6 +53,8 @@ export function decodeBlock(input: Uint8Array, ctx: BlockCodecContext): Uint8Arr
       return decodePackBits(input, ctx.expectedBytes);
     case 34887:
       return decodeLerc(input, ctx);
+    case 50000:
+      return zstdExactly(input, ctx.expectedBytes);
     default:
       throw new Error(`compression ${ctx.compression} is not decoded`);
   }
@@ -118,19 +122,19 @@ function lercType(sampleFormat: number, bits: number): number {
 }
 
 /**
- * One LERC2 blob (GDAL's LERC codec), optionally wrapped in Deflate (LercParameters[1] = 1). The blob's
+ * One LERC2 blob (GDAL's LERC codec), optionally wrapped in Deflate (LercParameters[1] = 1, LERC_DEFLATE)
+ * or ZSTD (2, LERC_ZSTD). The blob's
  * header is checked against the block before decoding, because the decoder sizes its output from it.
  * Masked pixels of float blocks read as NaN, as GDAL's codec writes them; others keep the decoded value.
  */
 function decodeLerc(input: Uint8Array, ctx: BlockCodecContext): Uint8Array {
   const extra = ctx.lercParameters?.[1] ?? 0;
   let blob = input;
-  if (extra === 1) {
-    // A LERC blob is at most its raw pixels plus a mask and headers; twice the block plus 64 KiB bounds it.
-    blob = inflateUpTo(input, 2 * ctx.expectedBytes + 65536, 'LERC_DEFLATE');
-  } else if (extra !== 0) {
-    throw new Error(`LERC with additional compression ${extra} (${extra === 2 ? 'ZSTD' : 'unknown'}) is not read; re-save with -co COMPRESS=LERC or LERC_DEFLATE`);
-  }
+  // A LERC blob is at most its raw pixels plus a mask and headers; twice the block plus 64 KiB bounds it.
+  const blobLimit = 2 * ctx.expectedBytes + 65536;
+  if (extra === 1) blob = inflateUpTo(input, blobLimit, 'LERC_DEFLATE');
+  else if (extra === 2) blob = zstdUpTo(input, blobLimit, 'LERC_ZSTD');
+  else if (extra !== 0) throw new Error(`LERC with additional compression ${extra} (GDAL writes 0 none, 1 Deflate, 2 ZSTD) is not read; re-save with -co COMPRESS=LERC`);
   const view = new DataView(blob.buffer, blob.byteOffset, blob.byteLength);
   if (blob.length < 66 || String.fromCharCode(...blob.subarray(0, 6)) !== 'Lerc2 ') throw new Error('LERC block does not start with a Lerc2 header');
   const version = view.getInt32(6, true);

@@ -1,6 +1,6 @@
 /**
  * Offline DEM fuzz run (not part of CI): `npx tsx test/fuzz/dem-fuzz.ts [perFile] [seed]` damages every
- * GDAL-written start file `perFile` times (default 1000: 12 000 streams), reads each with our reader and
+ * GDAL-written start file `perFile` times (default 1000: 17 000 streams), reads each with our reader and
  * with GDAL 3.6 (python3-gdal), and prints the verdicts (dem-oracle.ts `judge`), examples of anything
  * other than agreement or refusal, our slowest read and our peak memory.
  */

@@ -1,6 +1,7 @@
 /**
  * Seeded mutation fuzzing of the GeoTIFF reader with GDAL as the oracle. Start files are written by GDAL
- * (every codec we read, both byte orders, strips and tiles, BigTIFF, a sparse file); each mutation
+ * (every codec we read, ZSTD and LERC_ZSTD included, both byte orders, strips and tiles, BigTIFF, a sparse
+ * file, pixel- and band-interleaved files of several bands); each mutation
  * damages one in a named way — random bytes, bytes in the directory, truncation, a directory value, a
  * block's offset or byte count, the compressed data, the predictor, a size retyped as a DOUBLE, the no-data
  * text — and `judge` compares our outcome with GDAL's on the same bytes. The work is bounded by the number
@@ -39,6 +40,11 @@ export function startFiles(path: (name: string) => string): GdalWrite[] {
     { ...base, path: path('s-f32-sparse-nan.tif'), type: 'Float32', values: corner, nodata: NaN, sparse_blocks: true, options: ['COMPRESS=DEFLATE', ...tiles] },
     { ...base, path: path('s-i32-bigtiff-lzw-p2.tif'), type: 'Int32', values: ints, nodata: -1, options: ['BIGTIFF=YES', 'COMPRESS=LZW', 'PREDICTOR=2', ...tiles] },
     { ...base, path: path('s-byte-none.tif'), type: 'Byte', values: ints.map((v) => v % 256), nodata: 0, options: ['BLOCKYSIZE=5'] },
+    { ...base, path: path('s-i16-zstd-p2-strips.tif'), type: 'Int16', values: ints.map((v, k) => (holes.includes(k) ? -32768 : v)), nodata: -32768, options: ['COMPRESS=ZSTD', 'PREDICTOR=2', 'BLOCKYSIZE=8'] },
+    { ...base, path: path('s-f32-zstd-p3-be-tiles-nan.tif'), type: 'Float32', values: t, nan: holes, nodata: NaN, options: ['COMPRESS=ZSTD', 'PREDICTOR=3', 'ENDIANNESS=BIG', ...tiles] },
+    { ...base, path: path('s-f32-lerc-zstd-tiles.tif'), type: 'Float32', values: t, nodata: -9999, options: ['COMPRESS=LERC_ZSTD', 'MAX_Z_ERROR=0', ...tiles] },
+    { ...base, path: path('s-i16-3bands-pixel-deflate.tif'), type: 'Int16', values: ints, nodata: -9999, bands: 3, options: ['INTERLEAVE=PIXEL', 'COMPRESS=DEFLATE', 'PREDICTOR=2', 'BLOCKYSIZE=6'] },
+    { ...base, path: path('s-f32-2bands-band-zstd-tiles.tif'), type: 'Float32', values: t, nan: holes, nodata: NaN, bands: 2, options: ['INTERLEAVE=BAND', 'COMPRESS=ZSTD', ...tiles] },
   ];
 }
 
@@ -153,7 +159,7 @@ export async function fuzz(oracle: GdalOracle, dir: (name: string) => string, pe
         tally.counts[j.verdict]++;
         const k = (tally.byKind[p.kind] ??= {});
         k[j.verdict] = (k[j.verdict] ?? 0) + 1;
-        if (!['agree', 'both-refused', 'we-refused'].includes(j.verdict) && tally.examples.filter((e) => e.verdict === j.verdict).length < 8) {
+        if (!['agree', 'both-refused', 'we-refused'].includes(j.verdict) && tally.examples.filter((e) => e.verdict === j.verdict).length < Number(process.env.DEM_FUZZ_EXAMPLES ?? 8)) {
           tally.examples.push({ verdict: j.verdict, kind: p.kind, file: files[f].path.split('/').pop()!, detail: j.detail });
         }
       });

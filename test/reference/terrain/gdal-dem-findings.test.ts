@@ -81,6 +81,20 @@ describe.skipIf(!available)('damaged and unusual GeoTIFFs, GDAL as the oracle', 
     await expect(readGeoTiff(deflated)).rejects.toThrow(/StripOffsets\[7\] = \d+ with StripByteCounts\[7\] = \d+ runs past the end of the \d+-byte file/);
   });
 
+  it('uncompressed tiles with short byte counts: read as GDAL reads them, refused on the last, partial tile row as GDAL refuses them', async () => {
+    // 64 × 64 cells in 16 × 48 tiles (3072 bytes): the last tile row holds 16 of 48 rows (1024 bytes).
+    const file = await gdalWritten({ type: 'Float32', values: terrain, options: ['TILED=YES', 'BLOCKXSIZE=16', 'BLOCKYSIZE=48'] });
+    for (const [tile, minus] of [[0, 300], [4, 10], [4, 2200]] as const) {
+      const bad = file.slice();
+      const ed = new TiffEditor(bad);
+      ed.set(TAG.TileByteCounts, tile, ed.get(TAG.TileByteCounts, tile) - minus);
+      const gdal = await gdalReads(bad);
+      const j = judge(await readOurs(bad), gdal);
+      expect(j.verdict, `tile ${tile} − ${minus} bytes: ${j.detail}`).toBe(gdal.ok ? 'agree' : 'both-refused');
+      if (!gdal.ok) expect(j.detail).toMatch(new RegExp(`TileByteCounts\\[${tile}\\] = \\d+ is less than the 1024 bytes of the tile's 16 rows inside the image`));
+    }
+  });
+
   it('invalid Predictor values (0, 4, 99) on Deflate and LZW data are refused, as GDAL refuses them', async () => {
     for (const compress of ['DEFLATE', 'LZW']) {
       const good = await gdalWritten({ type: 'Int16', values: terrain, options: [`COMPRESS=${compress}`, 'PREDICTOR=2'] });
@@ -153,4 +167,78 @@ describe.skipIf(!available)('damaged and unusual GeoTIFFs, GDAL as the oracle', 
     ed.set(TAG.TileLength, 0, 32768);
     await expect(readGeoTiff(huge)).rejects.toThrow(/TileWidth × TileLength = 32768 × 32768 pixels of 4 bytes make 4294967296 bytes per block, over the limit of 268435456 \(256 MiB\); re-tile it/);
   });
+
+  describe('ZSTD blocks (RFC 8878) read as GDAL reads them, or refused within the block', () => {
+    /** Strip 0 of a one-strip ZSTD file GDAL writes with `rows` rows of the same terrain: a frame of rows × 128 bytes. */
+    const gdalFrame = async (rows: number) => {
+      const path = tmp.path(`rows${n++}.tif`);
+      const values = Array.from({ length: W * rows }, (_, k) => terrain[k % (W * H)]);
+      await oracle.write({ ...base, height: rows, path, type: 'Int16', values, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${rows}`] });
+      return strip0(new Uint8Array(readFileSync(path)));
+    };
+    /** Replaces strip 0 of `file` with `data`. */
+    const withStrip0 = (file: Uint8Array, data: Uint8Array) => {
+      const { bytes, at } = append(file, data);
+      const ed = new TiffEditor(bytes);
+      ed.set(TAG.StripOffsets, 0, at);
+      ed.set(TAG.StripByteCounts, 0, data.length);
+      return bytes;
+    };
+    const strip0 = (file: Uint8Array) => { const b = new TiffEditor(file).blocks()[0]; return file.slice(b.offset, b.offset + b.count); };
+
+    it('a window over libzstd\'s default 128 MiB limit is refused, as GDAL refuses it', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', 'BLOCKYSIZE=8'] });
+      const b = new TiffEditor(file).blocks()[0];
+      expect(file[b.offset + 4] & 0x20).toBe(0); // GDAL writes a Window_Descriptor (no single segment)
+      const bad = file.slice();
+      bad[b.offset + 5] = 18 << 3; // Window_Size = 2^(10 + 18) = 256 MiB
+      expect((await gdalReads(bad)).ok, 'GDAL refuses a 256 MiB window').toBe(false);
+      await expect(readGeoTiff(bad)).rejects.toThrow(/strip 0: ZSTD frame asks for a 268435456-byte window, over libzstd's default limit of 134217728/);
+      bad[b.offset + 5] = 17 << 3; // 128 MiB: allowed (GDAL's own ZSTD_LEVEL=22 files use it)
+      await expectAgreement(bad);
+    });
+
+    it('a frame cut short, or decoding to less than the block, is refused as GDAL refuses it', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
+      const cut = file.slice();
+      const ed = new TiffEditor(cut);
+      ed.set(TAG.StripByteCounts, 0, ed.get(TAG.StripByteCounts, 0) - 3);
+      expect((await gdalReads(cut)).ok).toBe(false);
+      await expect(readGeoTiff(cut)).rejects.toThrow(/strip 0: ZSTD frame is cut off/);
+      const short = withStrip0(file, await gdalFrame(H - 1)); // one row (128 bytes) short of the 8 KiB strip
+      expect((await gdalReads(short)).ok).toBe(false); // libtiff: "Not enough data"
+      await expect(readGeoTiff(short)).rejects.toThrow(/strip 0: ZSTD data ends after 8064 of the block's 8192 bytes/);
+    });
+
+    it('a frame longer than its block is refused, not cut (libtiff would keep the first block\'s worth)', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
+      const long = withStrip0(file, await gdalFrame(H + 3));
+      expect((await gdalReads(long)).ok).toBe(true);
+      await expect(readGeoTiff(long)).rejects.toThrow(/strip 0: ZSTD data is corrupt or decodes to more than the block's 8192 bytes/);
+    });
+
+    it('a small frame of many RLE blocks (32 GiB for an 8 KiB strip) is refused when the block is full', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
+      const blocks = 262144; // each RLE block: 3 header bytes + 1 byte standing for 128 KiB (RFC 8878 3.1.1.2)
+      const frame = new Uint8Array(6 + 4 * blocks);
+      frame.set([0x28, 0xb5, 0x2f, 0xfd, 0x00, 7 << 3]); // magic; no content size; Window_Size 128 KiB
+      for (let i = 0; i < blocks; i++) {
+        const h = (i === blocks - 1 ? 1 : 0) | (1 << 1) | (131072 << 3);
+        frame.set([h & 0xff, (h >> 8) & 0xff, (h >> 16) & 0xff, 9], 6 + 4 * i);
+      }
+      await expect(readGeoTiff(withStrip0(file, frame))).rejects.toThrow(/strip 0: ZSTD data is corrupt or decodes to more than the block's 8192 bytes/);
+    });
+
+    it('skippable frames and reserved bits (never written by GDAL) are refused with the reason', async () => {
+      const file = await gdalWritten({ type: 'Int16', values: terrain, options: ['COMPRESS=ZSTD', `BLOCKYSIZE=${H}`] });
+      const skippable = Uint8Array.from([0x50, 0x2a, 0x4d, 0x18, 0, 0, 0, 0, ...strip0(file)]);
+      await expect(readGeoTiff(withStrip0(file, skippable))).rejects.toThrow(/skippable frame/);
+      const reserved = strip0(file);
+      reserved[4] |= 0x08;
+      const bad = withStrip0(file, reserved);
+      expect((await gdalReads(bad)).ok).toBe(false);
+      await expect(readGeoTiff(bad)).rejects.toThrow(/reserved bit/);
+    });
+  });
 });
+
