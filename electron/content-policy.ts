@@ -18,4 +18,4 @@ export const APP_PAGE_CSP = [
   "frame-src 'none'",
 ].join('; ');
 
-export const APP_WORKER_CSP = APP_PAGE_CSP.replace("script-src 'self'", "script-src 'self' 'wasm-unsafe-eval'");
+export const APP_WORKER_CSP = APP_PAGE_CSP.replace("script-src 'self'", "script-src 'self' 'wasm-unsafe-eval'").replace("connect-src 'self'", "connect-src 'self' data:");

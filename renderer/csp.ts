@@ -22,9 +22,11 @@ export const PRODUCTION_CSP = [
  * The policy of the app's worker scripts. A worker takes no policy from the page's <meta>; in the desktop
  * app every app:// response carries a policy header (electron/app-protocol.ts), so workers get this one:
  * the page's, plus WebAssembly compilation ('wasm-unsafe-eval' allows compiling WebAssembly and nothing
- * else — no eval of JavaScript), which the solver's kernels need and the page itself does not.
+ * else — no eval of JavaScript), which the solver's kernels need and the page itself does not; and `data:`
+ * for connect, because the ZSTD decoder (zstddec, libzstd in WebAssembly) fetches its embedded module from a
+ * data: URL — a data: URL carries its content inline and reaches no server, so it opens no way out.
  */
-export const WORKER_CSP = PRODUCTION_CSP.replace("script-src 'self'", "script-src 'self' 'wasm-unsafe-eval'");
+export const WORKER_CSP = PRODUCTION_CSP.replace("script-src 'self'", "script-src 'self' 'wasm-unsafe-eval'").replace("connect-src 'self'", "connect-src 'self' data:");
 
 /**
  * The dev server injects component styles as <style> elements for hot reload, which a strict

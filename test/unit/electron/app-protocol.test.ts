@@ -49,7 +49,7 @@ describe('content security policy as a response header on app://', () => {
     expect(APP_WORKER_CSP).toBe(WORKER_CSP);
     // Workers get no policy from the page's <meta>: theirs is the page's plus WebAssembly compilation
     // (the solver's kernels compile in workers), nothing else.
-    expect(WORKER_CSP).toBe(PRODUCTION_CSP.replace("script-src 'self'", "script-src 'self' 'wasm-unsafe-eval'"));
+    expect(WORKER_CSP).toBe(PRODUCTION_CSP.replace("script-src 'self'", "script-src 'self' 'wasm-unsafe-eval'").replace("connect-src 'self'", "connect-src 'self' data:"));
   });
 
   it("every response carries it: the page's policy on documents, the worker policy on scripts", () => {
