@@ -64,3 +64,20 @@ export async function readDem(path: string, flags: Flags, geoTiffOnlyFor?: strin
   });
   return { grid, format: 'geotiff' };
 }
+
+/**
+ * The nominal target on a DEM, in the DEM's frame: `--target-east-m` / `--target-north-m`, else the DEM's
+ * centre; a point off the DEM is a usage error naming both options.
+ */
+export function nominalTargetOnDem(grid: ElevationGrid, flags: Flags): [number, number] {
+  const west = grid.originEast_m;
+  const east = west + grid.width * grid.pixelSizeX_m;
+  const north = grid.originNorth_m;
+  const south = north - grid.height * grid.pixelSizeY_m;
+  const tE = num(flags, 'target-east-m') ?? (west + east) / 2;
+  const tN = num(flags, 'target-north-m') ?? (south + north) / 2;
+  if (tE < west || tE > east || tN < south || tN > north) {
+    throw new UsageError(`--target-east-m ${tE}, --target-north-m ${tN}: the nominal target is outside the DEM (east ${west}…${east} m, north ${south}…${north} m); give a point on it`);
+  }
+  return [tE, tN];
+}

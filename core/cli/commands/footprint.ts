@@ -13,7 +13,7 @@ import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
-import { num, readDem, type Flags } from '../dem.ts';
+import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
 import { footprintLonLat } from '../../footprint/georeferencedFootprint.ts';
 import type { FootprintLonLat } from '../../study/footprintExport.ts';
 import { TerrainInputError } from '../../terrain/grid.ts';
@@ -181,15 +181,7 @@ function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): 
 async function terrainPlacement(path: string, flags: Flags, body: string): Promise<{ target_m: [number, number]; lonLat: FootprintLonLat }> {
   try {
     const { grid } = await readDem(path, flags, '--terrain');
-    const west = grid.originEast_m;
-    const east = west + grid.width * grid.pixelSizeX_m;
-    const north = grid.originNorth_m;
-    const south = north - grid.height * grid.pixelSizeY_m;
-    const tE = num(flags, 'target-east-m') ?? (west + east) / 2;
-    const tN = num(flags, 'target-north-m') ?? (south + north) / 2;
-    if (tE < west || tE > east || tN < south || tN > north) {
-      throw new UsageError(`--target-east-m ${tE}, --target-north-m ${tN}: the nominal target is outside the DEM (east ${west}…${east} m, north ${south}…${north} m); give a point on it`);
-    }
+    const [tE, tN] = nominalTargetOnDem(grid, flags);
     const lonLat = footprintLonLat(grid, [tE, tN], body, `--terrain ${path}`);
     if (!lonLat) throw new UsageError(`--terrain ${path}: has no georeference (no CRS), so there is no longitude/latitude to write; give a GeoTIFF with a CRS (gdal_translate -a_srs …)`);
     return { target_m: [tE, tN], lonLat };

@@ -19,7 +19,7 @@ import { polynomialGuidance } from '../../descent/baselines/polynomial.ts';
 import { gravityTurn } from '../../descent/baselines/gravityTurn.ts';
 import type { Vec3 } from '../../descent/constants.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { num, readDem, type Flags } from '../dem.ts';
+import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
 import { sampleBilinear, TerrainInputError } from '../../terrain/grid.ts';
 import { checkTerrainClearance } from '../../terrain/sites.ts';
 import { groundFrameOnDem } from '../../terrain/groundFrame.ts';
@@ -244,12 +244,7 @@ interface ClearanceFigures {
 async function terrainClearance(path: string, flags: Flags, clearance_m: number, traj: DecodedTrajectory): Promise<ClearanceFigures> {
   try {
     const { grid } = await readDem(path, flags);
-    const west = grid.originEast_m;
-    const east = west + grid.width * grid.pixelSizeX_m;
-    const north = grid.originNorth_m;
-    const south = north - grid.height * grid.pixelSizeY_m;
-    const tE = num(flags, 'target-east-m') ?? (west + east) / 2;
-    const tN = num(flags, 'target-north-m') ?? (south + north) / 2;
+    const [tE, tN] = nominalTargetOnDem(grid, flags);
     const ground = sampleBilinear(grid, tE, tN);
     if (!Number.isFinite(ground)) {
       throw new UsageError(`--target-east-m ${tE}, --target-north-m ${tN}: no terrain height at the nominal target on ${path} (outside the DEM or no-data); give a point on it`);
