@@ -113,7 +113,7 @@ describe.runIf(browser)('terrain in Chromium', () => {
     await chooser.setFiles(file);
     await page.waitForFunction(() => document.querySelector('[data-testid="terrain-name"]')?.textContent === 'ramp.tif');
     expect(await page.getByTestId('terrain-size').textContent()).toBe('161 × 161 cells (805 m × 805 m)');
-    expect(await page.getByTestId('terrain-crs').textContent()).toBe('projected, EPSG:32633');
+    expect(await page.getByTestId('terrain-crs').textContent()).toBe('projected, EPSG:32633 (transverse Mercator)');
     await page.waitForFunction(() => /ramp\.tif/.test(document.querySelector('.legend-title')?.textContent ?? ''));
     // Every cell shown (161² < the display limit); the target at the DEM's centre (500 402.5 m E, 4 499 597.5 m N).
     expect(await layout()).toEqual({ width: 161, height: 161, pixelSize_m: 5, west_m: -400, north_m: 400 });
