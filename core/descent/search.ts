@@ -29,7 +29,7 @@ import { slopeMinimise } from './slopeMinimise.ts';
 import type { SlopePoint } from './slopeMinimise.ts';
 import type { ProgramKind } from './program.ts';
 import { NODE } from './program.ts';
-import { DescentInputError } from './inputError.ts';
+import { validateAltitudeFloor } from './setup.ts';
 import type { IgnitionState } from './setup.ts';
 import type { DescentSolver, FixedTimeSolve } from './solver.ts';
 import type { DecodedTrajectory } from './trajectory.ts';
@@ -191,13 +191,7 @@ function peakTiltOf(solver: DescentSolver, r: FixedTimeSolve): number {
 
 export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignition: IgnitionState, options: SearchOptions = {}): DescentResult {
   const con = solver.setup.constraints;
-  if (con.minAltitude !== null && ignition.position[2] < target[2] + con.minAltitude) {
-    throw new DescentInputError(
-      'ignition.position', `altitude ${ignition.position[2]} m`,
-      `below the altitude floor ${target[2] + con.minAltitude} m (target height ${target[2]} m + minimum altitude ${con.minAltitude} m): ` +
-      'raise the ignition point, or switch the floor off knowingly (constraints.stayAboveLandingPlane: false)',
-    );
-  }
+  validateAltitudeFloor(solver.setup, ignition, target[2]);
   const br = options.bracket ?? timeOfFlightBracket(solver.setup, ignition, target);
   const tol = options.tfTolerance ?? 0.1;
   const propTol = options.propellantTolerance ?? 0.01;

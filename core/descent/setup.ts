@@ -177,7 +177,24 @@ export function validateTarget(target: Vec3): void {
  * no burn the propellant allows can reach the landing plane (the target's height plus the gate) at all
  * (landingWindow.ts: necessary conditions, so nothing valid is refused).
  */
+/**
+ * The ignition point must be at or above the altitude floor (the landing plane by default): the floor holds
+ * from the first node after ignition, so a start below it could only be "solved" by a jump. Also run by
+ * the free-final-time search itself, for setups built without a study.
+ */
+export function validateAltitudeFloor(s: DescentSetup, state: IgnitionState, targetHeight_m: number): void {
+  const floor = s.constraints.minAltitude;
+  if (floor !== null && state.position[2] < targetHeight_m + floor) {
+    throw new DescentInputError(
+      'ignition.position', `[${state.position.join(', ')}] m`,
+      `its altitude ${state.position[2]} m is below the altitude floor ${targetHeight_m + floor} m (target height ${targetHeight_m} m + ` +
+      `minimum altitude ${floor} m); raise the ignition point, or set constraints.stayAboveLandingPlane to false knowingly`,
+    );
+  }
+}
+
 export function validateLanding(s: DescentSetup, state: IgnitionState, targetHeight_m: number): void {
+  validateAltitudeFloor(s, state, targetHeight_m);
   const c = s.constraints;
   // The speed limit holds from the first node after ignition (program.ts): a faster ignition would be
   // slowed within one node step, an answer that depends on the number of nodes rather than on physics.

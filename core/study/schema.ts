@@ -136,18 +136,11 @@ export const StudySchema = z
   target: TargetSchema.prefault({ x_m: 0, y_m: 0 }),
   })
   .superRefine((s, ctx) => {
-    const floor = altitudeFloor_m(s.constraints);
+    // (An ignition point below the floor is the descent model's check, setup.ts validateAltitudeFloor.)
     if (s.constraints.stayAboveLandingPlane && s.constraints.minAltitude_m !== null && s.constraints.minAltitude_m < 0) {
       ctx.addIssue({
         code: 'custom', path: ['constraints', 'minAltitude_m'], input: s.constraints.minAltitude_m,
         message: 'must be zero or positive while constraints.stayAboveLandingPlane is true (set it to false to allow a floor below the landing plane)',
-      });
-    } else if (floor !== null && s.ignition.position_m[2] < s.target.z_m + floor) {
-      ctx.addIssue({
-        code: 'custom', path: ['ignition', 'position_m', 2], input: s.ignition.position_m[2],
-        message: `is below the altitude floor (${s.target.z_m + floor} m: target height plus ` +
-          `${s.constraints.stayAboveLandingPlane && s.constraints.minAltitude_m === null ? 'the landing plane' : `minimum altitude ${floor} m`}); ` +
-          'raise the ignition point, or set constraints.stayAboveLandingPlane to false knowingly',
       });
     }
     const m = s.ignition.mass_kg;

@@ -157,15 +157,7 @@ function mutateValue(doc: Json, rng: Rng): string {
 
 const encoder = new TextEncoder();
 
-function concat(...parts: Uint8Array[]): Uint8Array {
-  const out = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
-  let at = 0;
-  for (const p of parts) {
-    out.set(p, at);
-    at += p.length;
-  }
-  return out;
-}
+const concat = (...parts: Uint8Array[]): Uint8Array => new Uint8Array(Buffer.concat(parts));
 
 /** One byte-level operator on the file's text; returns the bytes and a label. */
 function mutateBytes(text: string, rng: Rng): { bytes: Uint8Array; label: string } {

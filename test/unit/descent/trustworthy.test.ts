@@ -138,7 +138,7 @@ describe('lossless or flagged, and a propellant tolerance that holds', () => {
 });
 
 describe('edge cases that once threw away or misreported a result', () => {
-  it('1,001 nodes: the discretisation check runs at the node limit instead of failing', () => {
+  it('at the 2,000-node limit there is nothing finer: no check, and no exception that would discard the result', () => {
     const d = studyToDescent(parseStudyText(demoText));
     // A stand-in coarse result: the check only reads status, t_f and propellant from it.
     const coarse = { status: 'solved', timeOfFlight: 36.6, propellant: 218.7 } as Parameters<typeof discretisationCheck>[4];
