@@ -43,12 +43,15 @@ export interface FootprintDrape {
   values: Float32Array;
   range: [number, number];
   title: string;
+  /** The field on its own grid: the scene draws its cells past the terrain on the target's ground plane. */
+  source?: ScalarGrid;
 }
 
 export function footprintDrape(field: FootprintField, terrain: ElevationGrid): FootprintDrape | null {
   const range = propellantRange(field);
   if (!range) return null;
-  return { values: resampleToTerrain(propellantGrid(field), terrain), range, title: 'Minimum propellant to land (kg)' };
+  const source = propellantGrid(field);
+  return { values: resampleToTerrain(source, terrain), range, title: 'Minimum propellant to land (kg)', source };
 }
 
 /** Contour outlines at every level below the budget, and the reserve boundary (propellant = budget) in bold. */

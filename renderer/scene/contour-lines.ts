@@ -6,7 +6,7 @@
  */
 import { BufferAttribute, BufferGeometry } from 'three';
 import { contours } from 'd3-contour';
-import { columnToEast, rowToNorth, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
+import { columnToEast, rowToNorth, surfaceHeight, type ElevationGrid } from './elevation-grid.ts';
 
 /** The shape of d3-contour's output (a GeoJSON MultiPolygon with the threshold as `value`). */
 export interface ContourMultiPolygon {
@@ -48,8 +48,7 @@ export function niceThresholds(lo: number, hi: number, count: number): number[] 
 export function gridPointToScene(grid: ElevationGrid, x: number, y: number, exaggeration: number, lift_m: number): [number, number, number] {
   const east = columnToEast(grid, x - 0.5);
   const north = rowToNorth(grid, y - 0.5);
-  const h = sampleHeight(grid, east, north);
-  return [east, north, ((Number.isNaN(h) ? 0 : h) + lift_m) * exaggeration];
+  return [east, north, (surfaceHeight(grid, east, north) + lift_m) * exaggeration];
 }
 
 /**

@@ -54,3 +54,21 @@ export function sampleHeight(grid: ElevationGrid, east: number, north: number): 
   const i = r0 * grid.width + c0;
   return (h[i] * (1 - fc) + h[i + 1] * fc) * (1 - fr) + (h[i + grid.width] * (1 - fc) + h[i + grid.width + 1] * fc) * fr;
 }
+
+/**
+ * Height of the plane things are drawn on where the terrain is missing (past the DEM's edge, no-data): the
+ * nominal target's ground, which is also the landing plane the footprint's targets are solved on. When the
+ * target itself has no terrain under it, the middle of the terrain's height range.
+ */
+export function targetGroundHeight(grid: ElevationGrid): number {
+  const h = sampleHeight(grid, 0, 0);
+  if (!Number.isNaN(h)) return h;
+  const [lo, hi] = heightRange(grid.heights);
+  return (lo + hi) / 2;
+}
+
+/** Terrain height at (east, north), or the target's ground plane (targetGroundHeight) where there is no terrain. */
+export function surfaceHeight(grid: ElevationGrid, east: number, north: number, plane_m?: number): number {
+  const h = sampleHeight(grid, east, north);
+  return Number.isNaN(h) ? plane_m ?? targetGroundHeight(grid) : h;
+}

@@ -4,7 +4,7 @@
  * the pure geometry builders; no renderer needed, so this is unit-tested in Node.
  */
 import { BufferAttribute, BufferGeometry, Color, Line, LineBasicMaterial, LineDashedMaterial, LineSegments, Mesh, MeshLambertMaterial, SphereGeometry, type Object3D } from 'three';
-import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
+import { heightRange, surfaceHeight, targetGroundHeight, type ElevationGrid } from './elevation-grid.ts';
 import { formatAxisTick, niceTicks } from './view.ts';
 import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from './markers.ts';
 import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-lines.ts';
@@ -56,14 +56,11 @@ const MARKER_INK = 0xf4f1ea;
 
 export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, inputs: MarkerInputs): Object3D[] {
   const ex = exaggeration;
-  const heightAt = (e: number, n: number) => {
-    const h = sampleHeight(grid, e, n);
-    return Number.isNaN(h) ? 0 : h;
-  };
+  // Where there is no terrain, markers lie on the plane of the target's ground (the landing plane).
+  const base = targetGroundHeight(grid);
   // Lines sit 2 m above the ground so the terrain does not swallow them.
-  const ground = (e: number, n: number) => (heightAt(e, n) + 2) * ex;
+  const ground = (e: number, n: number) => (surfaceHeight(grid, e, n, base) + 2) * ex;
   const span = (grid.width - 1) * grid.pixelSize_m;
-  const base = heightAt(0, 0);
   const objects: Object3D[] = [];
 
   const target = new Line(lineGeometry(ringPositions(0, 0, span / 60, 48, ground)), new LineBasicMaterial({ color: 0xffffff }));

@@ -25,14 +25,16 @@ import {
 } from 'three';
 import { OrbitControls } from 'three/addons/controls/OrbitControls.js';
 import { buildContourGeometry, computeContours, niceThresholds, type ContourLabel } from './contour-lines.ts';
-import { heightRange, sampleHeight, type ElevationGrid } from './elevation-grid.ts';
+import { heightRange, sampleHeight, targetGroundHeight, type ElevationGrid } from './elevation-grid.ts';
 import { buildAxisObjects, buildMarkerObjects, type AxisLabel, type IgnitionMarker, type LandingEllipse, type PickedTarget, type SceneTrajectory } from './scene-objects.ts';
 import { pickGround, toNdc, type GroundPick } from './picking.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
 import { colorizeLinear } from '../../core/study/colormap.ts';
 import { buildOutlineGeometry, type FootprintOutline } from './footprint-outlines.ts';
 import { buildHazardGeometry, hazardStripeTexture } from './hazard-overlay.ts';
-import { declutter, distanceToGround, fitPose, metresPerPixel, northAngle, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
+import { boundsContain, declutter, distanceToGround, divertBounds, fitPose, metresPerPixel, northAngle, poseAlong, presetPose, scaleBar, type SceneBounds, type ViewPreset } from './view.ts';
+import { buildFootprintPlaneGeometry } from './footprint-plane.ts';
+import type { ScalarGrid } from './resample.ts';
 
 export const SCENE_BACKGROUND = '#0b0f13';
 const FOV_DEG = 40;
@@ -60,6 +62,11 @@ export type { FootprintOutline } from './footprint-outlines.ts';
 export interface SceneDrape {
   values: Float32Array;
   range: [number, number];
+  /**
+   * The field on its own grid (e.g. propellant on the footprint's targets), when it may reach past the terrain:
+   * its cells with no terrain under them are drawn on the plane of the target's ground (footprint-plane.ts).
+   */
+  source?: ScalarGrid;
 }
 
 export class TerrainScene {
@@ -86,6 +93,9 @@ export class TerrainScene {
   private hazardMask: Uint8Array | null = null;
   private hazardVisible = false;
   private hazardMesh: Mesh | null = null;
+  private drapePlane: Mesh | null = null;
+  /** The box the view was last fitted to: a change that stays inside it keeps the user's view. */
+  private framed: SceneBounds | null = null;
   private frame = 0;
   private disposed = false;
   /** Frames drawn so far (the browser tests read it to know the scene has drawn). */
@@ -136,12 +146,16 @@ export class TerrainScene {
     this.exaggeration = exaggeration;
     setTerrainExaggeration(this.terrain.geometry, this.grid, exaggeration);
     this.rebuildOverlays();
+    // Heights scale about z = 0 (the DEM's datum), so every object moves: fit the view again, from the same
+    // direction, or a site hundreds of metres from the datum leaves the view.
+    this.refit(true);
     this.requestRender();
   }
 
   setIgnition(marker: IgnitionMarker | null): void {
     this.ignition = marker;
     this.rebuildMarkers();
+    this.refit(false);
     this.requestRender();
   }
 
@@ -155,6 +169,8 @@ export class TerrainScene {
     const [lo, hi] = drape?.range ?? heightRange(this.grid.heights);
     const colors = colorizeLinear(drape?.values ?? this.grid.heights, lo, hi > lo ? hi : lo + 1);
     this.terrain.geometry.setAttribute('color', new BufferAttribute(colors, 3));
+    this.rebuildDrapePlane();
+    this.refit(false);
     this.requestRender();
   }
 
@@ -170,6 +186,7 @@ export class TerrainScene {
   setTrajectories(trajectories: SceneTrajectory[]): void {
     this.trajectories = trajectories;
     this.rebuildMarkers();
+    this.refit(false);
     this.requestRender();
   }
 
@@ -177,6 +194,7 @@ export class TerrainScene {
   setFootprintOutlines(outlines: FootprintOutline[]): void {
     this.outlines = outlines;
     this.rebuildOutlines();
+    this.refit(false);
     this.requestRender();
   }
 
@@ -226,11 +244,29 @@ export class TerrainScene {
   setView(preset: ViewPreset): void {
     const bounds = this.bounds();
     if (!bounds) return;
-    const pose = fitPose(presetPose(preset, bounds, FOV_DEG, this.camera.aspect || 1), bounds, FOV_DEG, this.camera.aspect || 1);
+    this.applyPose(fitPose(presetPose(preset, bounds, FOV_DEG, this.camera.aspect || 1), bounds, FOV_DEG, this.camera.aspect || 1), bounds);
+  }
+
+  /**
+   * Fit the view to what is drawn again, keeping the viewing direction: always when `always` (the
+   * exaggeration moved everything), otherwise only when something drawn now lies outside the box last framed.
+   */
+  private refit(always: boolean): void {
+    const bounds = this.bounds();
+    if (!bounds) return;
+    if (!always && this.framed && boundsContain(this.framed, bounds)) return;
+    const from = { position: this.camera.position.toArray() as [number, number, number], target: this.controls.target.toArray() as [number, number, number] };
+    this.applyPose(poseAlong(from, bounds, FOV_DEG, this.camera.aspect || 1), bounds);
+  }
+
+  private applyPose(pose: { position: [number, number, number]; target: [number, number, number] }, bounds: SceneBounds): void {
+    this.framed = bounds;
     this.camera.position.set(...pose.position);
     this.controls.target.set(...pose.target);
-    this.camera.near = Math.max(1, this.camera.position.distanceTo(this.controls.target) / 1000);
-    this.camera.far = this.camera.position.distanceTo(this.controls.target) * 20;
+    const distance = this.camera.position.distanceTo(this.controls.target);
+    const size = Math.hypot(bounds.maxEast - bounds.minEast, bounds.maxNorth - bounds.minNorth, bounds.maxZ - bounds.minZ);
+    this.camera.near = Math.max(1, distance / 1000);
+    this.camera.far = (distance + size) * 20;
     this.camera.updateProjectionMatrix();
     this.controls.update();
     this.requestRender();
@@ -240,8 +276,11 @@ export class TerrainScene {
     if (width < 1 || height < 1) return;
     this.renderer.setPixelRatio(Math.min(2, globalThis.devicePixelRatio || 1));
     this.renderer.setSize(width, height, false);
+    const first = this.camera.aspect === 1 && !this.framed;
     this.camera.aspect = width / height;
     this.camera.updateProjectionMatrix();
+    // The view fitted before the canvas had its size was fitted to the wrong aspect.
+    if (first) this.refit(true);
     this.requestRender();
   }
 
@@ -285,8 +324,7 @@ export class TerrainScene {
   /** Drawing-buffer pixel of a point `up_m` above the nominal target's ground (trajectory frame). */
   projectAboveTarget(east: number, north: number, up_m: number): { x: number; y: number } | null {
     if (!this.grid) return null;
-    const base = sampleHeight(this.grid, 0, 0);
-    return this.projectHeight(east, north, (Number.isNaN(base) ? 0 : base) + up_m);
+    return this.projectHeight(east, north, targetGroundHeight(this.grid) + up_m);
   }
 
   private projectHeight(east: number, north: number, height_m: number): { x: number; y: number } | null {
@@ -324,7 +362,7 @@ export class TerrainScene {
   /** Scale bar, north arrow and contour label positions for a view `width` × `height` pixels. */
   private viewInfo(width: number, height: number, maxBar_px: number): ViewInfo {
     const forward = this.camera.getWorldDirection(new Vector3());
-    const groundZ = this.grid ? (Number.isNaN(sampleHeight(this.grid, 0, 0)) ? 0 : sampleHeight(this.grid, 0, 0)) * this.exaggeration : 0;
+    const groundZ = this.grid ? targetGroundHeight(this.grid) * this.exaggeration : 0;
     const distance = distanceToGround(this.camera.position.toArray(), forward.toArray(), groundZ) ?? this.camera.position.distanceTo(this.controls.target);
     const bar = scaleBar(metresPerPixel(distance, this.camera.fov, height), maxBar_px);
     const labels = declutter(
@@ -345,26 +383,49 @@ export class TerrainScene {
     return { scaleBar: bar, northAngle_rad: northAngle(this.camera.matrixWorld.elements), contourLabels: labels, axisLabels };
   }
 
+  /** The whole divert: terrain, ignition point, trajectories, footprint (drape and outlines), heights exaggerated. */
   private bounds(): SceneBounds | null {
     if (!this.grid) return null;
     const g = this.grid;
     const [lo, hi] = heightRange(g.heights);
-    // Room for the axis labels outside the south and west edges.
-    const span = (Math.max(g.width, g.height) - 1) * g.pixelSize_m;
-    const margin = span * 0.08;
-    // The view frames the terrain and the approach above it, but no higher (in scene units) than half the
-    // terrain's width above its top: over a small site DEM the ignition point would otherwise shrink the
-    // site to a speck.
-    const ignitionZ = this.ignition ? (sampleHeight(g, 0, 0) + this.ignition.altitude_m) * this.exaggeration : -Infinity;
-    return {
-      minEast: g.west_m - margin,
-      maxEast: g.west_m + (g.width - 1) * g.pixelSize_m,
-      minNorth: g.north_m - (g.height - 1) * g.pixelSize_m - margin,
-      maxNorth: g.north_m,
-      minZ: lo * this.exaggeration,
-      focusZ: ((lo + hi) / 2) * this.exaggeration,
-      maxZ: Math.max(hi * this.exaggeration, Math.min(ignitionZ, hi * this.exaggeration + 0.5 * span)),
-    };
+    const base = targetGroundHeight(g);
+    const points: [number, number, number][] = [];
+    if (this.ignition) points.push([this.ignition.east_m, this.ignition.north_m, base + this.ignition.altitude_m]);
+    for (const t of this.trajectories) {
+      const p = t.samples.position_m;
+      for (let k = 0; k + 2 < p.length; k += 3) points.push([p[k], p[k + 1], base + p[k + 2]]);
+    }
+    const source = this.drape?.source;
+    if (source) {
+      const east = source.west_m + (source.width - 1) * source.pixelSize_m;
+      const south = source.north_m - (source.height - 1) * source.pixelSize_m;
+      points.push([source.west_m, south, base], [east, source.north_m, base]);
+    }
+    for (const outline of this.outlines) for (const polygon of outline.coordinates) for (const ring of polygon) for (const q of ring) points.push([q[0], q[1], base]);
+    return divertBounds(
+      {
+        terrain: { west_m: g.west_m, east_m: g.west_m + (g.width - 1) * g.pixelSize_m, south_m: g.north_m - (g.height - 1) * g.pixelSize_m, north_m: g.north_m, lo_m: lo, hi_m: hi },
+        points,
+      },
+      this.exaggeration,
+    );
+  }
+
+  /** The drape's cells past the terrain, on the plane of the target's ground. */
+  private rebuildDrapePlane(): void {
+    this.removeObject(this.drapePlane);
+    this.drapePlane = null;
+    const source = this.drape?.source;
+    if (!this.grid || !source || !this.drape) return;
+    const geometry = buildFootprintPlaneGeometry(source, this.grid, { exaggeration: this.exaggeration, range: this.drape.range });
+    if (!geometry.getIndex()?.count) {
+      geometry.dispose();
+      return;
+    }
+    // Unlit, as a map: the plane is a stand-in for missing terrain, not ground to shade.
+    this.drapePlane = new Mesh(geometry, new MeshBasicMaterial({ vertexColors: true, transparent: true, opacity: 0.85 }));
+    this.drapePlane.name = 'footprint-plane';
+    this.scene.add(this.drapePlane);
   }
 
   private rebuildOverlays(): void {
@@ -384,6 +445,7 @@ export class TerrainScene {
     this.rebuildHazard();
     this.rebuildMarkers();
     this.rebuildOutlines();
+    this.rebuildDrapePlane();
   }
 
   private rebuildHazard(): void {

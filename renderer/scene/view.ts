@@ -149,3 +149,59 @@ export function formatAxisTick(metres: number): string {
   if (metres === 0) return '0 m';
   return `${metres < 0 ? '−' : ''}${formatDistance(Math.abs(metres))}`;
 }
+
+/** What the default view frames, in scene metres before exaggeration (x east, y north, heights on the DEM's datum). */
+export interface DivertExtent {
+  /** Terrain drawn: its outer sample centres and its height range. */
+  terrain: { west_m: number; east_m: number; south_m: number; north_m: number; lo_m: number; hi_m: number };
+  /** Other things drawn (ignition point, trajectory samples, footprint corners, sites): east, north, height. */
+  points: readonly (readonly [number, number, number])[];
+}
+
+/**
+ * The box the scene frames by default: the terrain, the ignition point, the trajectories and the footprint
+ * together (the whole divert), heights scaled by `exaggeration`. The camera orbits about the ground (focusZ:
+ * the middle of the terrain's heights), not a point in the air. A margin of 8 % of the span on the south and
+ * west sides leaves room for the axis labels drawn outside those edges.
+ */
+export function divertBounds(extent: DivertExtent, exaggeration: number): SceneBounds {
+  const t = extent.terrain;
+  let minEast = t.west_m, maxEast = t.east_m, minNorth = t.south_m, maxNorth = t.north_m;
+  let lo = t.lo_m, hi = t.hi_m;
+  for (const [e, n, h] of extent.points) {
+    if (!Number.isFinite(e) || !Number.isFinite(n) || !Number.isFinite(h)) continue;
+    minEast = Math.min(minEast, e); maxEast = Math.max(maxEast, e);
+    minNorth = Math.min(minNorth, n); maxNorth = Math.max(maxNorth, n);
+    lo = Math.min(lo, h); hi = Math.max(hi, h);
+  }
+  const margin = Math.max(maxEast - minEast, maxNorth - minNorth) * 0.08;
+  return {
+    minEast: minEast - margin,
+    maxEast,
+    minNorth: minNorth - margin,
+    maxNorth,
+    minZ: lo * exaggeration,
+    maxZ: hi * exaggeration,
+    focusZ: ((t.lo_m + t.hi_m) / 2) * exaggeration,
+  };
+}
+
+/**
+ * The pose looking along the same direction as `from` (camera position minus target), re-centred on `bounds`
+ * and moved as close as every corner allows (fitPose): used when what is framed changes (exaggeration, a new
+ * footprint) so the user's viewing direction is kept and nothing drawn leaves the view.
+ */
+export function poseAlong(from: CameraPose, b: SceneBounds, verticalFov_deg: number, aspect: number): CameraPose {
+  const d = new Vector3(...from.position).sub(new Vector3(...from.target));
+  if (!(d.length() > 0)) return fitPose(presetPose('oblique', b, verticalFov_deg, aspect), b, verticalFov_deg, aspect);
+  d.normalize();
+  const target: [number, number, number] = [(b.minEast + b.maxEast) / 2, (b.minNorth + b.maxNorth) / 2, b.focusZ ?? (b.minZ + b.maxZ) / 2];
+  const size = Math.hypot(b.maxEast - b.minEast, b.maxNorth - b.minNorth, b.maxZ - b.minZ);
+  const start: [number, number, number] = [target[0] + d.x * size * 4, target[1] + d.y * size * 4, target[2] + d.z * size * 4];
+  return fitPose({ position: start, target }, b, verticalFov_deg, aspect);
+}
+
+/** True when box `outer` holds box `inner` (a footprint or trajectory inside what is framed needs no new fit). */
+export function boundsContain(outer: SceneBounds, inner: SceneBounds): boolean {
+  return inner.minEast >= outer.minEast && inner.maxEast <= outer.maxEast && inner.minNorth >= outer.minNorth && inner.maxNorth <= outer.maxNorth && inner.minZ >= outer.minZ && inner.maxZ <= outer.maxZ;
+}
