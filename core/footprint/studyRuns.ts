@@ -14,6 +14,7 @@ import { guaranteedDivertRadius, propellantRegions, regionBounds, ringArea } fro
 import { dispersionStudy, sampleDispersions, type DispersedSample, type DispersionResult, type DispersionSigmas } from './dispersion.ts';
 import { TARGET, type FootprintField } from './field.ts';
 import { ignitionAtAltitude, type AltitudeStudyRow, type IgnitionRule } from './studies.ts';
+import { footprintContext } from './studyFootprint.ts';
 
 /** Default reserves: 0 and eight equal steps up to half the usable propellant, kg (one decimal). */
 export function defaultReserves(usable_kg: number): number[] {
@@ -138,4 +139,35 @@ export function dispersedSampleStudy(study: Study, s: DispersedSample): { study:
 export function reachSampleStudies(study: Study, sigmas: DispersionSigmas, count: number, seed: number): { study: Study; budget_kg: number }[] {
   const d = studyToDescent(study);
   return sampleDispersions(d.setup, d.ignition, sigmas, count, seed + 1).map((s) => dispersedSampleStudy(study, s));
+}
+
+/** Directions of the reach boundary that sizes a footprint grid by default (the CLI and the app). */
+export const REACH_EXTENT_DIRECTIONS = 16;
+
+export interface ReachExtent {
+  /** Grid half-width, m: 10 % beyond the farthest reach, rounded up to 100 m. */
+  extent_m: number;
+  /** Farthest reach with the reserve kept over the directions, m from the nominal target. */
+  farthest_m: number;
+  directions: number;
+}
+
+/**
+ * The default half-width of a footprint grid, from the vehicle's reach (descent/reach.ts: one max-divert cone
+ * program per direction, with the budget, at the footprint's nodes): 10 % beyond the farthest reach along
+ * `directions` directions, rounded up to 100 m, so the region {propellant ≤ budget} lies inside the grid with
+ * room to show its edge: the square grid contains the whole disc of the farthest sampled reach. The margin is
+ * for what lies between sampled directions: a smooth, rounded footprint bulges little between directions
+ * 22.5° apart (a circle through two sampled points departs from their chord by 1 − cos 11.25° ≈ 2 %), but
+ * nothing bounds a region with a spike between directions; a grid that still cuts the region says so
+ * (contours.ts guaranteedDivertRadius: `limitedByGrid`). Throws a RangeError when even the nominal target is
+ * out of reach with the reserve kept.
+ */
+export function reachExtent(study: Study, budget_kg: number, nodes: number, directions = REACH_EXTENT_DIRECTIONS): ReachExtent {
+  const ctx = footprintContext(study, nodes);
+  const solver = new DescentSolver(ctx.setup, landreachConicBackend(), ctx.ignition);
+  const boundary = reachBoundary(solver, ctx.ignition, directions, budget_kg, { targetHeight_m: ctx.targetHeight_m });
+  const far = Math.max(...boundary.map((b) => b.result.reach_m));
+  if (!(far > 0)) throw new RangeError('the nominal target cannot be reached with the reserve kept: no footprint to draw (lower the reserve or check the ignition state)');
+  return { extent_m: Math.ceil((1.1 * far) / 100) * 100, farthest_m: far, directions };
 }

@@ -12,6 +12,10 @@ export interface RunSettingsText {
   halfWidth_m: string;
 }
 
+/**
+ * The half-width shown until the app has sized the grid from the vehicle's reach (App.svelte: the reach
+ * boundary, core/footprint/studyRuns.ts reachExtent, replaces it before the first run unless the user typed one).
+ */
 export const DEFAULT_RUN_SETTINGS: RunSettingsText = { side: '21', halfWidth_m: '3000' };
 
 export type RunSettingsCheck =
@@ -32,16 +36,4 @@ export function checkRunSettings(text: RunSettingsText): RunSettingsCheck {
   }
   const n = Number(side);
   return { ok: true, side: n, halfWidth_m: halfValue, grid: makeTargetGrid({ halfWidthEast_m: halfValue, halfWidthNorth_m: halfValue, nx: n, ny: n }) };
-}
-
-/**
- * The grid half-width that keeps the whole grid on the terrain: the distance from the nominal target to
- * the nearest DEM edge, rounded down to 100 m (at least 100 m), and no more than the default's 3000 m.
- */
-export function halfWidthOnTerrain(
-  extent: { west_m: number; east_m: number; south_m: number; north_m: number },
-  target: { east_m: number; north_m: number },
-): number {
-  const room = Math.min(target.east_m - extent.west_m, extent.east_m - target.east_m, target.north_m - extent.south_m, extent.north_m - target.north_m);
-  return Math.min(Number(DEFAULT_RUN_SETTINGS.halfWidth_m), Math.max(100, Math.floor(room / 100) * 100));
 }

@@ -75,6 +75,7 @@ function needGrid(choice: GridChoice | null, what: string): GridChoice {
 
 export class StudySession {
   private pool: JobPool<StudyJob, StudyJobResult> | null = null;
+  private reachPool: JobPool<StudyJob, StudyJobResult> | null = null;
   private controller: AbortController | null = null;
 
   constructor(
@@ -96,6 +97,8 @@ export class StudySession {
     this.cancel();
     this.pool?.close();
     this.pool = null;
+    this.reachPool?.close();
+    this.reachPool = null;
   }
 
   private begin(): AbortSignal {
@@ -134,6 +137,28 @@ export class StudySession {
       signal,
     });
     return { results, cancelled: summary.cancelled };
+  }
+
+  /**
+   * The default footprint grid's half-width for `study` (core/footprint/studyRuns.ts reachExtent: the reach
+   * boundary along 16 directions, 10 % beyond the farthest), in one study worker. Null with a message when the
+   * nominal target cannot be reached with the reserve kept.
+   */
+  reachExtent(study: Study): Promise<{ extent_m: number; farthest_m: number } | { extent_m: null; message: string }> {
+    // Its own worker, outside the one-study-at-a-time rule: it sizes the footprint grid at start-up and before a
+    // run, and must neither wait for a study nor make one wait.
+    this.reachPool ??= new JobPool<StudyJob, StudyJobResult>(this.factory, 1);
+    const budget_kg = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg - study.vehicle.propellantReserve_kg;
+    const job: StudyJob = { kind: 'reach-extent', study, budget_kg, nodes: FOOTPRINT_NODES };
+    let sent = false;
+    let result: StudyJobResult | null = null;
+    return this.reachPool
+      .run({ next: () => (sent ? null : ((sent = true), { job })), done: () => sent, onResult: (r) => (result = r) })
+      .then(() => {
+        const r = result as StudyJobResult | null;
+        if (r?.kind !== 'reach-extent') throw new Error('the reach estimate returned nothing');
+        return r.extent ? { extent_m: r.extent.extent_m, farthest_m: r.extent.farthest_m } : { extent_m: null, message: r.message ?? 'no reach' };
+      });
   }
 
   runReserve(study: Study, inputs: ReserveStudyInputs, choice: GridChoice | null, events: StudyProgressEvents): Promise<ReserveStudyResult> {

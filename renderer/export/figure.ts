@@ -113,7 +113,8 @@ export async function composeFigurePng(image: HTMLCanvasElement, facts: CaptionF
     ctx.shadowColor = '#000';
     ctx.shadowBlur = 3 * s;
     ctx.fillStyle = '#f4f1ea';
-    for (const label of snap.info.contourLabels) ctx.fillText(`${label.value} m`, label.x, label.y);
+    for (const label of snap.info.contourLabels) ctx.fillText(`${label.value} ${label.unit}`, label.x, label.y);
+    for (const label of snap.info.siteLabels) ctx.fillText(label.text, label.x, label.y);
     ctx.fillStyle = '#8c9aa7';
     for (const label of snap.info.axisLabels) ctx.fillText(label.text, label.x, label.y);
     ctx.shadowBlur = 0;

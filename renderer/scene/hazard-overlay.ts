@@ -13,6 +13,8 @@ export interface HazardOverlayOptions {
   lift_m?: number;
   /** Ground distance of one stripe period, metres. Default 120. */
   stripe_m?: number;
+  /** Cells drawn: those touching a marked sample (`any`, default: conservative for hazards) or with all four marked (`all`). */
+  cells?: 'any' | 'all';
 }
 
 export function buildHazardGeometry(grid: ElevationGrid, mask: Uint8Array, options: HazardOverlayOptions = {}): BufferGeometry {
@@ -43,7 +45,7 @@ export function buildHazardGeometry(grid: ElevationGrid, mask: Uint8Array, optio
       const sw = nw + width;
       const se = sw + 1;
       if (Number.isNaN(heights[nw] + heights[ne] + heights[sw] + heights[se])) continue;
-      if (!(mask[nw] || mask[ne] || mask[sw] || mask[se])) continue;
+      if (options.cells === 'all' ? !(mask[nw] && mask[ne] && mask[sw] && mask[se]) : !(mask[nw] || mask[ne] || mask[sw] || mask[se])) continue;
       index.push(sw, se, ne, sw, ne, nw);
     }
   }

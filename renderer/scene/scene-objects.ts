@@ -3,12 +3,14 @@
  * drop line, trajectories (path + thrust vectors) and the landing ellipse. Built from plain data by
  * the pure geometry builders; no renderer needed, so this is unit-tested in Node.
  */
-import { BufferAttribute, BufferGeometry, Color, Line, LineBasicMaterial, LineDashedMaterial, LineSegments, Mesh, MeshLambertMaterial, SphereGeometry, type Object3D } from 'three';
+import { BufferAttribute, BufferGeometry, Color, Line, LineBasicMaterial, LineDashedMaterial, LineSegments, Mesh, MeshBasicMaterial, MeshLambertMaterial, SphereGeometry, type Object3D } from 'three';
 import { heightRange, surfaceHeight, targetGroundHeight, type ElevationGrid } from './elevation-grid.ts';
 import { formatAxisTick, niceTicks } from './view.ts';
 import { dropLinePositions, ellipsePositions, lineGeometry, ringPositions } from './markers.ts';
 import { buildTrajectoryGeometry, type TrajectorySamples } from './trajectory-lines.ts';
 import { TRAJECTORY_COLOURS } from '../plots/palette.ts';
+import { SCENE_COLOURS } from './scene-colours.ts';
+import { buildHazardGeometry } from './hazard-overlay.ts';
 
 /** A trajectory to draw: samples relative to the target, as core/descent returns them. */
 export interface SceneTrajectory {
@@ -49,10 +51,14 @@ export interface MarkerInputs {
   ellipse: LandingEllipse | null;
   /** Picked targets, drawn as double rings in the colour their trajectory will have. */
   picks?: readonly PickedTarget[];
+  /** Ranked landing sites, best first: numbered pins. */
+  sites?: readonly PickedTarget[];
+  /** Share of safe ∩ reachable ground per terrain sample (0 … 1): cells whose four samples are at least half so are tinted. */
+  safeReachable?: Float32Array | null;
 }
 
 export { TRAJECTORY_COLOURS };
-const MARKER_INK = 0xf4f1ea;
+const MARKER_INK = SCENE_COLOURS.ignition.hex;
 
 export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, inputs: MarkerInputs): Object3D[] {
   const ex = exaggeration;
@@ -63,7 +69,7 @@ export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, in
   const span = (grid.width - 1) * grid.pixelSize_m;
   const objects: Object3D[] = [];
 
-  const target = new Line(lineGeometry(ringPositions(0, 0, span / 60, 48, ground)), new LineBasicMaterial({ color: 0xffffff }));
+  const target = new Line(lineGeometry(ringPositions(0, 0, span / 60, 48, ground)), new LineBasicMaterial({ color: SCENE_COLOURS.target.hex }));
   target.name = 'nominal-target';
   objects.push(target);
 
@@ -105,11 +111,43 @@ export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, in
 
   if (inputs.ellipse) {
     const { semiMajor_m, semiMinor_m, azimuth_deg, centreEast_m = 0, centreNorth_m = 0 } = inputs.ellipse;
-    const ellipse = new Line(lineGeometry(ellipsePositions(centreEast_m, centreNorth_m, semiMajor_m, semiMinor_m, azimuth_deg, 96, ground)), new LineBasicMaterial({ color: 0xffffff }));
+    const ellipse = new Line(lineGeometry(ellipsePositions(centreEast_m, centreNorth_m, semiMajor_m, semiMinor_m, azimuth_deg, 96, ground)), new LineBasicMaterial({ color: SCENE_COLOURS.ellipse.hex }));
     ellipse.name = 'landing-ellipse';
     objects.push(ellipse);
   }
+
+  if (inputs.safeReachable) {
+    if (inputs.safeReachable.length !== grid.heights.length) throw new Error(`invalid safe ∩ reachable share: ${inputs.safeReachable.length} values for ${grid.heights.length} terrain samples`);
+    const mask = Uint8Array.from(inputs.safeReachable, (v) => (v >= 0.5 ? 1 : 0));
+    const tint = new Mesh(
+      buildHazardGeometry(grid, mask, { exaggeration: ex, lift_m: 1.5, cells: 'all' }),
+      new MeshBasicMaterial({ color: SCENE_COLOURS.safeReachable.hex, transparent: true, opacity: 0.4, depthWrite: false }),
+    );
+    tint.name = 'safe-reachable';
+    objects.push(tint);
+  }
+
+  (inputs.sites ?? []).forEach((s, k) => {
+    // A pin: a stick a twentieth of the terrain's span tall, a ring at its foot.
+    const material = new LineBasicMaterial({ color: SCENE_COLOURS.sites.hex });
+    const foot = ground(s.east_m, s.north_m);
+    const pin = new LineSegments(lineGeometry(new Float32Array([s.east_m, s.north_m, foot, s.east_m, s.north_m, foot + (span / 20) * Math.min(ex, 3)])), material);
+    pin.name = `site-${k}`;
+    const ring = new Line(lineGeometry(ringPositions(s.east_m, s.north_m, span / 120, 24, ground)), material);
+    ring.name = `site-${k}-ring`;
+    objects.push(pin, ring);
+  });
   return objects;
+}
+
+/** Where a site's number is written: the top of its pin (scene coordinates), as buildMarkerObjects draws it. */
+export function siteLabelPositions(grid: ElevationGrid, exaggeration: number, sites: readonly PickedTarget[]): AxisLabel[] {
+  const base = targetGroundHeight(grid);
+  const span = (grid.width - 1) * grid.pixelSize_m;
+  return sites.map((s, k) => ({
+    text: String(k + 1),
+    position: [s.east_m, s.north_m, (surfaceHeight(grid, s.east_m, s.north_m, base) + 2) * exaggeration + (span / 20) * Math.min(exaggeration, 3)],
+  }));
 }
 
 /** Scene positions of a baseline path (same frame and exaggeration as the trajectories). */

@@ -26,7 +26,8 @@ import {
 import { OrbitControls } from 'three/addons/controls/OrbitControls.js';
 import { buildContourGeometry, computeContours, niceThresholds, type ContourLabel } from './contour-lines.ts';
 import { heightRange, sampleHeight, targetGroundHeight, type ElevationGrid } from './elevation-grid.ts';
-import { buildAxisObjects, buildMarkerObjects, type AxisLabel, type IgnitionMarker, type LandingEllipse, type PickedTarget, type SceneTrajectory } from './scene-objects.ts';
+import { SCENE_COLOURS } from './scene-colours.ts';
+import { buildAxisObjects, buildMarkerObjects, siteLabelPositions, type AxisLabel, type IgnitionMarker, type LandingEllipse, type PickedTarget, type SceneTrajectory } from './scene-objects.ts';
 import { pickGround, toNdc, type GroundPick } from './picking.ts';
 import { buildTerrainGeometry, setTerrainExaggeration } from './terrain-mesh.ts';
 import { colorizeLinear } from '../../core/study/colormap.ts';
@@ -46,6 +47,8 @@ export interface ViewInfo {
   northAngle_rad: number;
   contourLabels: { value: number; unit: string; x: number; y: number }[];
   axisLabels: { text: string; x: number; y: number }[];
+  /** Numbers of the ranked landing sites, at the top of their pins. */
+  siteLabels: { text: string; x: number; y: number }[];
 }
 
 /** A rendered frame and the view furniture that belongs on it, in the frame's pixels. */
@@ -85,6 +88,8 @@ export class TerrainScene {
   private trajectories: SceneTrajectory[] = [];
   private ellipse: LandingEllipse | null = null;
   private picks: PickedTarget[] = [];
+  private sites: PickedTarget[] = [];
+  private safeReachable: Float32Array | null = null;
   private outlines: FootprintOutline[] = [];
   private outlineObjects: LineSegments[] = [];
   private outlineLabels: ContourLabel[] = [];
@@ -134,6 +139,8 @@ export class TerrainScene {
     this.removeObject(this.terrain);
     this.drape = null;
     this.hazardMask = null;
+    this.safeReachable = null;
+    this.sites = [];
     const geometry = buildTerrainGeometry(grid, { exaggeration });
     this.terrain = new Mesh(geometry, new MeshLambertMaterial({ vertexColors: true }));
     this.scene.add(this.terrain);
@@ -207,8 +214,8 @@ export class TerrainScene {
     if (!this.grid) return;
     for (const outline of this.outlines) {
       const { geometry, label } = buildOutlineGeometry(outline, this.grid, this.exaggeration, outline.emphasis ? 3 : 2);
-      // The reserve boundary in white at full opacity, contours dimmer (line width is 1 px in WebGL).
-      const material = new LineBasicMaterial({ color: outline.emphasis ? 0xffffff : 0xe8e2d6, transparent: !outline.emphasis, opacity: outline.emphasis ? 1 : 0.6, depthTest: !outline.emphasis });
+      // The reserve boundary bright at full opacity, contours dimmer (line width is 1 px in WebGL).
+      const material = new LineBasicMaterial({ color: outline.emphasis ? SCENE_COLOURS.reserve.hex : SCENE_COLOURS.contours.hex, transparent: !outline.emphasis, opacity: outline.emphasis ? 1 : 0.6, depthTest: !outline.emphasis });
       const object = new LineSegments(geometry, material);
       object.renderOrder = outline.emphasis ? 3 : 2;
       this.outlineObjects.push(object);
@@ -232,6 +239,15 @@ export class TerrainScene {
 
   setLandingEllipse(ellipse: LandingEllipse | null): void {
     this.ellipse = ellipse;
+    this.rebuildMarkers();
+    this.requestRender();
+  }
+
+  /** Ranked landing sites (best first, numbered pins) and the safe ∩ reachable share per terrain sample, or none. */
+  setSites(sites: PickedTarget[], safeReachable: Float32Array | null): void {
+    if (safeReachable && this.grid && safeReachable.length !== this.grid.heights.length) safeReachable = null;
+    this.sites = sites;
+    this.safeReachable = safeReachable;
     this.rebuildMarkers();
     this.requestRender();
   }
@@ -380,7 +396,14 @@ export class TerrainScene {
       if (v.z > 1 || Math.abs(v.x) > 1 || Math.abs(v.y) > 1) return [];
       return [{ text: label.text, x: ((v.x + 1) / 2) * width, y: ((1 - v.y) / 2) * height }];
     });
-    return { scaleBar: bar, northAngle_rad: northAngle(this.camera.matrixWorld.elements), contourLabels: labels, axisLabels };
+    const siteLabels = this.grid
+      ? siteLabelPositions(this.grid, this.exaggeration, this.sites).flatMap((label) => {
+          const v = this.camera.position.clone().set(...label.position).project(this.camera);
+          if (v.z > 1 || Math.abs(v.x) > 1 || Math.abs(v.y) > 1) return [];
+          return [{ text: label.text, x: ((v.x + 1) / 2) * width, y: ((1 - v.y) / 2) * height }];
+        })
+      : [];
+    return { scaleBar: bar, northAngle_rad: northAngle(this.camera.matrixWorld.elements), contourLabels: labels, axisLabels, siteLabels };
   }
 
   /** The whole divert: terrain, ignition point, trajectories, footprint (drape and outlines), heights exaggerated. */
@@ -465,7 +488,7 @@ export class TerrainScene {
   private rebuildMarkers(): void {
     for (const m of this.markers) this.removeObject(m);
     this.markers = this.grid
-      ? buildMarkerObjects(this.grid, this.exaggeration, { ignition: this.ignition, trajectories: this.trajectories, ellipse: this.ellipse, picks: this.picks })
+      ? buildMarkerObjects(this.grid, this.exaggeration, { ignition: this.ignition, trajectories: this.trajectories, ellipse: this.ellipse, picks: this.picks, sites: this.sites, safeReachable: this.safeReachable })
       : [];
     for (const m of this.markers) this.scene.add(m);
   }

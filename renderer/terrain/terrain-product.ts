@@ -156,8 +156,7 @@ export interface TerrainProduct {
 }
 
 /** The hazard map at DEM resolution, its flags laid conservatively onto the display cells. */
-export function terrainProduct(grid: ElevationGrid, name: string, format: TerrainFormat, limits: HazardLimits, maxVertices = MAX_DISPLAY_VERTICES): TerrainProduct {
-  const map = hazardMap(grid, limits);
+export function terrainProduct(grid: ElevationGrid, name: string, format: TerrainFormat, limits: HazardLimits, maxVertices = MAX_DISPLAY_VERTICES, map = hazardMap(grid, limits)): TerrainProduct {
   const display = displayTerrain(grid, maxVertices);
   return {
     facts: { name, format, ...gridGeometry(grid), validCells: validCount(grid), georeference: grid.georeference ?? null },

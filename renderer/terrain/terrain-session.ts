@@ -6,17 +6,15 @@ import { JobPool } from '../../core/parallel/pool.ts';
 import type { WorkerFactory } from '../../core/parallel/protocol.ts';
 import type { HazardLimits } from '../../core/terrain/index.ts';
 import { MAX_DISPLAY_VERTICES, type PngHeightmapInputs, type TerrainProduct } from './terrain-product.ts';
+import type { FootprintOnTerrain, SitesFootprint } from './terrain-sites.ts';
 
-export interface TerrainJob {
-  bytes: Uint8Array;
-  name: string;
-  png: PngHeightmapInputs;
-  limits: HazardLimits;
-  maxVertices: number;
-}
+export type TerrainJob =
+  | { kind: 'process'; bytes: Uint8Array; name: string; png: PngHeightmapInputs; limits: HazardLimits; maxVertices: number }
+  /** A footprint laid on the DEM the worker processed last (terrain-sites.ts), with its hazard map. */
+  | { kind: 'sites'; footprint: SitesFootprint; budget_kg: number; target: { east_m: number; north_m: number } };
 
 /** A file the user can fix comes back as a message naming the file and the problem. */
-export type TerrainJobResult = { ok: true; product: TerrainProduct } | { ok: false; message: string };
+export type TerrainJobResult = { ok: true; product: TerrainProduct } | { ok: false; message: string } | { ok: true; onTerrain: FootprintOnTerrain };
 
 export class TerrainSession {
   private pool: JobPool<TerrainJob, TerrainJobResult> | null = null;
@@ -25,8 +23,23 @@ export class TerrainSession {
   constructor(private readonly factory: WorkerFactory) {}
 
   /** Reads and analyses a DEM. The bytes are copied to the worker (the caller keeps them). */
-  process(bytes: Uint8Array, name: string, png: PngHeightmapInputs, limits: HazardLimits, maxVertices = MAX_DISPLAY_VERTICES): Promise<TerrainJobResult> {
-    const next = this.queue.then(() => this.processNow({ bytes, name, png, limits, maxVertices }));
+  process(bytes: Uint8Array, name: string, png: PngHeightmapInputs, limits: HazardLimits, maxVertices = MAX_DISPLAY_VERTICES): Promise<{ ok: true; product: TerrainProduct } | { ok: false; message: string }> {
+    return this.enqueue({ kind: 'process', bytes, name, png, limits, maxVertices }).then((r) => {
+      if ('onTerrain' in r) throw new Error('the terrain worker answered a DEM with sites');
+      return r;
+    });
+  }
+
+  /**
+   * Safe ∩ reachable and the ranked sites of a footprint on the DEM processed last (in order: after any DEM or
+   * limits sent before), at the DEM's resolution; null when no DEM is there yet.
+   */
+  sites(footprint: SitesFootprint, budget_kg: number, target: { east_m: number; north_m: number }): Promise<FootprintOnTerrain | null> {
+    return this.enqueue({ kind: 'sites', footprint, budget_kg, target }).then((r) => (r.ok && 'onTerrain' in r ? r.onTerrain : null));
+  }
+
+  private enqueue(job: TerrainJob): Promise<TerrainJobResult> {
+    const next = this.queue.then(() => this.processNow(job));
     this.queue = next.catch(() => undefined);
     return next;
   }

@@ -16,18 +16,35 @@ afterAll(async () => {
   await session?.close();
 });
 
-/** Fraction of scene pixels whose colour is close to viridis' yellow end or purple end (the drape's extremes). */
+/**
+ * Fraction of the terrain's pixels whose colour is close to viridis' yellow end or purple end (the drape's
+ * extremes), and white. Counted inside the box the terrain's corners project to (the top view draws it as a
+ * north-up rectangle), so the shares do not depend on how much else the view frames (ignition point,
+ * approach) around a small DEM.
+ */
 async function drapeStats() {
   // The scene appears once the demo DEM has been read (a worker, after start-up).
   await session.page.waitForFunction(() => ((document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene?: { framesDrawn: number } })?.landreachScene?.framesDrawn ?? 0) > 0);
   return session.page.evaluate(() => {
-    const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement;
+    type Scene = {
+      terrainLayout(): { width: number; height: number; pixelSize_m: number; west_m: number; north_m: number };
+      projectGroundPoint(e: number, n: number): { x: number; y: number } | null;
+    };
+    const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: Scene };
+    const t = canvas.landreachScene.terrainLayout();
+    const east = t.west_m + (t.width - 1) * t.pixelSize_m;
+    const south = t.north_m - (t.height - 1) * t.pixelSize_m;
+    const corners = [[t.west_m, south], [east, south], [east, t.north_m], [t.west_m, t.north_m]].map(([e, n]) => canvas.landreachScene.projectGroundPoint(e, n)!);
+    const x0 = Math.max(0, Math.floor(Math.min(...corners.map((c) => c.x))));
+    const y0 = Math.max(0, Math.floor(Math.min(...corners.map((c) => c.y))));
+    const x1 = Math.min(canvas.width, Math.ceil(Math.max(...corners.map((c) => c.x))));
+    const y1 = Math.min(canvas.height, Math.ceil(Math.max(...corners.map((c) => c.y))));
     const copy = document.createElement('canvas');
     copy.width = canvas.width;
     copy.height = canvas.height;
     const ctx = copy.getContext('2d')!;
     ctx.drawImage(canvas, 0, 0);
-    const { data } = ctx.getImageData(0, 0, copy.width, copy.height);
+    const { data } = ctx.getImageData(x0, y0, x1 - x0, y1 - y0);
     let yellowGreen = 0;
     let purpleBlue = 0;
     let white = 0;
@@ -58,6 +75,9 @@ describe.runIf(browser)('footprint in Chromium (demo study, small grids)', () =>
 
   it('computes a 7 × 7 footprint in workers, drapes it on the terrain and outlines the reserve boundary', async () => {
     const { page } = session;
+    // Both measured in the top view (the terrain a north-up rectangle), before and after.
+    await page.getByTestId('view-top').click();
+    await page.waitForTimeout(200);
     const before = await drapeStats();
     // The grid spans the demo DEM (±512 m about its centre). Over ±500 m the demo study's minimum propellant
     // runs from about 204 to 240 kg (`landreach footprint --grid 7x7 --extent-m 500`), so a 280 kg reserve

@@ -151,4 +151,42 @@ describe.runIf(browser)('the whole divert in the 3D scene', () => {
     }
     expect(session.problems).toEqual([]);
   });
+
+  it('answers the first footprint with a grid that covers it, safe ∩ reachable, ranked sites with their propellant and trajectories to them', { timeout: 300_000 }, async () => {
+    const { page } = session;
+    // The first run as a new user makes it: the grid as the app sized it (no half-width typed).
+    await page.getByTestId('compute').click();
+    await page.waitForFunction(() => /(\d+) \/ \1 targets in/.test(document.querySelector('[data-testid="run-progress"]')?.textContent ?? ''), null, { timeout: 180_000 });
+    const summary = (await page.getByTestId('footprint-summary').textContent()) ?? '';
+    expect(summary).toMatch(/Guaranteed divert radius\s*\d+ m/);
+    // The grid covers the footprint: its reachable region does not touch the grid's edge.
+    expect(summary).not.toMatch(/limited by the grid/);
+    // Safe ∩ reachable and the ranked landing sites, listed with their propellant (cheapest first).
+    const sites = page.getByTestId('site');
+    await sites.first().waitFor({ timeout: 60_000 });
+    const texts = await sites.allTextContents();
+    expect(texts.length).toBeGreaterThan(0);
+    const propellant = texts.map((t) => Number(/([\d.]+) kg/.exec(t)?.[1]));
+    for (const p of propellant) expect(p).toBeGreaterThan(0);
+    for (let k = 1; k < propellant.length; k++) expect(propellant[k]).toBeGreaterThanOrEqual(propellant[k - 1]);
+    expect(await page.getByTestId('safe-reachable-legend').textContent()).toMatch(/safe ∩ reachable/i);
+    // Trajectories to the best sites are solved and drawn with the sites' markers.
+    await page.waitForFunction(() => (document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: SceneApi }).landreachScene.markerNames().some((n) => n.startsWith('trajectory-')), null, { timeout: 120_000 });
+    const names = await page.evaluate(() => (document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: SceneApi }).landreachScene.markerNames());
+    expect(names).toContain('site-0');
+    expect(names).toContain('safe-reachable');
+    expect(names.some((n) => n.startsWith('trajectory-'))).toBe(true);
+    // The whole divert in view: the ignition point and the footprint grid's corners (read from the top bar).
+    const half = Number(await page.getByTestId('grid-half-width').inputValue());
+    const ignition = await ignitionPoint();
+    const inView = await project([ignition, [-half, -half, 0], [half, half, 0], [-half, half, 0], [half, -half, 0]]);
+    expect(inView.every((p) => p !== null), JSON.stringify(inView)).toBe(true);
+    await screenshot(page, 'scene-first-footprint');
+    if (pillow) {
+      const drawn = await canvasAndTerrainArea('scene-first-footprint');
+      expect(drawn.coloured).toBeGreaterThanOrEqual(0.25 * drawn.terrainArea);
+      expect(drawn.coloured).toBeGreaterThan(0);
+    }
+    expect(session.problems).toEqual([]);
+  });
 });

@@ -22,12 +22,10 @@ import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../study/footprintExport.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { iterationModule } from '../../conic/index.ts';
-import { DescentSolver } from '../../descent/solver.ts';
 import { MAX_NODES } from '../../descent/setup.ts';
-import { landreachConicBackend } from '../../descent/conicBackend.ts';
-import { reachBoundary } from '../../descent/reach.ts';
+import { reachExtent } from '../../footprint/studyRuns.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
-import { FOOTPRINT_NODES, footprintContext, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
 
 const USAGE = `Usage: landreach footprint STUDY.json --out DIR [options]
 
@@ -167,14 +165,15 @@ function parseArgs(args: string[]): Options {
  * farthest reach, rounded up to 100 m, so the footprint shows its edge.
  */
 function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): number {
-  const ctx = footprintContext(study, nodes);
-  const solver = new DescentSolver(ctx.setup, landreachConicBackend(), ctx.ignition);
-  const boundary = reachBoundary(solver, ctx.ignition, 16, budget_kg, { targetHeight_m: ctx.targetHeight_m });
-  const far = Math.max(...boundary.map((b) => b.result.reach_m));
-  if (!(far > 0)) throw new UsageError('the nominal target cannot be reached with the reserve kept: no footprint to draw (lower the reserve or check the ignition state)');
-  const extent = Math.ceil((1.1 * far) / 100) * 100;
-  io.stderr(`grid extent ±${extent} m (farthest reach ${far.toFixed(0)} m along 16 directions)\n`);
-  return extent;
+  let reach;
+  try {
+    reach = reachExtent(study, budget_kg, nodes);
+  } catch (error) {
+    if (error instanceof RangeError) throw new UsageError(error.message);
+    throw error;
+  }
+  io.stderr(`grid extent ±${reach.extent_m} m (farthest reach ${reach.farthest_m.toFixed(0)} m along ${reach.directions} directions)\n`);
+  return reach.extent_m;
 }
 
 /** Reads --terrain, places the nominal target on it and builds the longitude/latitude conversion. */

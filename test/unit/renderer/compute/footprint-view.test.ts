@@ -4,7 +4,7 @@ import { makeTargetGrid } from '../../../../core/footprint/grid.ts';
 import { footprintFigures } from '../../../../core/footprint/studyFootprint.ts';
 import { footprintOutlines, propellantGrid, propellantRange } from '../../../../renderer/compute/footprint-view.ts';
 import { resampleToTerrain } from '../../../../renderer/scene/resample.ts';
-import { checkRunSettings, halfWidthOnTerrain } from '../../../../renderer/compute/run-settings.ts';
+import { checkRunSettings } from '../../../../renderer/compute/run-settings.ts';
 
 /** A 5 × 5 field on ±200 m whose propellant is a plane p = 100 + 0.1·east + 0.2·north (kg), all reachable. */
 function planeField() {
@@ -66,13 +66,6 @@ describe('footprint drape', () => {
 });
 
 describe('run settings', () => {
-  it('fits the grid half-width inside the terrain around the target, in 100 m steps, 100 … 3000 m', () => {
-    const demo = { west_m: 0, east_m: 1024, south_m: -1024, north_m: 0 }; // a 1 km DEM, target at its centre
-    expect(halfWidthOnTerrain(demo, { east_m: 512, north_m: -512 })).toBe(500);
-    expect(halfWidthOnTerrain(demo, { east_m: 900, north_m: -512 })).toBe(100); // 124 m to the east edge
-    expect(halfWidthOnTerrain({ west_m: -20000, east_m: 20000, south_m: -20000, north_m: 20000 }, { east_m: 0, north_m: 0 })).toBe(3000);
-  });
-
   it('accepts a square grid and builds it', () => {
     const r = checkRunSettings({ side: '7', halfWidth_m: '3500' });
     expect(r.ok && [r.grid.nx, r.grid.ny, r.grid.east[0], r.grid.north[6], r.grid.spacingEast_m]).toEqual([7, 7, -3500, 3500, 7000 / 6]);
