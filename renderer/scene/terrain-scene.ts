@@ -257,10 +257,14 @@ export class TerrainScene {
     return this.markers.map((m) => m.name);
   }
 
-  setView(preset: ViewPreset): void {
-    const bounds = this.bounds();
+  /**
+   * A preset view of the whole divert (`top`, `oblique`), or `site`: the oblique view of the terrain alone, a
+   * close-up when the DEM is small next to the approach (the next change that leaves that box refits the divert).
+   */
+  setView(preset: ViewPreset | 'site'): void {
+    const bounds = preset === 'site' ? this.bounds(true) : this.bounds();
     if (!bounds) return;
-    this.applyPose(fitPose(presetPose(preset, bounds, FOV_DEG, this.camera.aspect || 1), bounds, FOV_DEG, this.camera.aspect || 1), bounds);
+    this.applyPose(fitPose(presetPose(preset === 'site' ? 'oblique' : preset, bounds, FOV_DEG, this.camera.aspect || 1), bounds, FOV_DEG, this.camera.aspect || 1), bounds);
   }
 
   /**
@@ -407,12 +411,13 @@ export class TerrainScene {
   }
 
   /** The whole divert: terrain, ignition point, trajectories, footprint (drape and outlines), heights exaggerated. */
-  private bounds(): SceneBounds | null {
+  private bounds(terrainOnly = false): SceneBounds | null {
     if (!this.grid) return null;
     const g = this.grid;
     const [lo, hi] = heightRange(g.heights);
     const base = targetGroundHeight(g);
     const points: [number, number, number][] = [];
+    if (terrainOnly) return divertBounds({ terrain: { west_m: g.west_m, east_m: g.west_m + (g.width - 1) * g.pixelSize_m, south_m: g.north_m - (g.height - 1) * g.pixelSize_m, north_m: g.north_m, lo_m: lo, hi_m: hi }, points }, this.exaggeration);
     if (this.ignition) points.push([this.ignition.east_m, this.ignition.north_m, base + this.ignition.altitude_m]);
     for (const t of this.trajectories) {
       const p = t.samples.position_m;

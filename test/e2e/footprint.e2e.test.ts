@@ -229,6 +229,8 @@ describe.runIf(browser)('footprint in Chromium (demo study, small grids)', () =>
     // baseline both fit it. The reserve is a contour level of the field, so the footprint's range still applies.
     await page.locator('[data-field="vehicle.propellantReserve_kg"] input').fill('200');
     await page.getByTestId('status-ok').waitFor();
+    // The run flew its best landing sites (their picks come first); remove them so the click below is pick 1.
+    while ((await page.getByTestId('pick').count()) > 0) await page.getByRole('button', { name: 'Remove target 1' }).click();
     const point = await page.evaluate(() => {
       const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { projectGroundPoint(e: number, n: number): { x: number; y: number } | null } };
       const p = canvas.landreachScene.projectGroundPoint(500, -300);

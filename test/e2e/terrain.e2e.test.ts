@@ -28,12 +28,18 @@ const layout = () =>
   session.page.evaluate(() => (document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { terrainLayout(): Layout | null } }).landreachScene.terrainLayout());
 
 /**
- * Fraction of scene pixels that are terrain (not the background), the probes' verdicts, and the share of
- * pixels that changed since the previous call (the last frame is kept in the page, not shipped to the test).
+ * Fraction of scene pixels that are terrain (not the background), the same count over the screen area the
+ * terrain's corners enclose (`ofTerrain`: the view frames the whole divert, so a small DEM may fill little of
+ * it), the probes' verdicts, and the share of pixels that changed since the previous call (the last frame is
+ * kept in the page, not shipped to the test).
  */
 async function sceneStats(probes: [number, number][]) {
   return session.page.evaluate((points) => {
-    const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: { projectGroundPoint(e: number, n: number): { x: number; y: number } | null } };
+    type Scene = {
+      projectGroundPoint(e: number, n: number): { x: number; y: number } | null;
+      terrainLayout(): { width: number; height: number; pixelSize_m: number; west_m: number; north_m: number };
+    };
+    const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: Scene };
     const copy = document.createElement('canvas');
     copy.width = canvas.width;
     copy.height = canvas.height;
@@ -53,7 +59,13 @@ async function sceneStats(probes: [number, number][]) {
       const p = canvas.landreachScene.projectGroundPoint(e, n);
       return p ? differs(4 * (Math.floor(p.y) * copy.width + Math.floor(p.x))) : null;
     });
-    return { fraction: drawn / (data.length / 4), onGround, changed: last ? changed / (data.length / 4) : null };
+    const t = canvas.landreachScene.terrainLayout();
+    const east = t.west_m + (t.width - 1) * t.pixelSize_m;
+    const south = t.north_m - (t.height - 1) * t.pixelSize_m;
+    const corners = [[t.west_m, south], [east, south], [east, t.north_m], [t.west_m, t.north_m]].map(([e, n]) => canvas.landreachScene.projectGroundPoint(e, n));
+    let area = 0;
+    if (corners.every((c) => c)) for (let k = 0; k < 4; k++) area += corners[k]!.x * corners[(k + 1) % 4]!.y - corners[(k + 1) % 4]!.x * corners[k]!.y;
+    return { fraction: drawn / (data.length / 4), ofTerrain: area ? drawn / (Math.abs(area) / 2) : 0, onGround, changed: last ? changed / (data.length / 4) : null };
   }, probes);
 }
 
@@ -95,8 +107,13 @@ describe.runIf(browser)('terrain in Chromium', () => {
     expect(await layout()).toEqual({ width: 256, height: 256, pixelSize_m: 4, west_m: -510, north_m: 510 });
     const shown = await sceneStats([[-450, 450], [450, 450], [-450, -450], [450, -450], [0, 0]]);
     expect(shown.onGround).toEqual([true, true, true, true, true]);
-    expect(shown.fraction).toBeGreaterThan(0.1);
-    // The hazard stripes come from the DEM's own hazard map: turning them off changes the picture.
+    // Drawn over at least half the area the terrain's corners enclose on screen (relief may hide some of the
+    // far side), however small the DEM is next to the approach the view also frames.
+    expect(shown.ofTerrain).toBeGreaterThan(0.5);
+    // The hazard stripes come from the DEM's own hazard map: turning them off changes the picture (seen close
+    // on the terrain: the default view frames the whole approach, where a small DEM is a few pixels).
+    await afterFrame(() => page.getByTestId('view-site').click());
+    await sceneStats([]);
     await afterFrame(() => page.getByTestId('hazard-toggle').uncheck());
     const plain = await sceneStats([]);
     expect(plain.changed).toBeGreaterThan(0.005);

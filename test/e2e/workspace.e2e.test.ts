@@ -142,7 +142,10 @@ describe.runIf(browser)('workspace in Chromium', () => {
       return (canvas?.landreachScene?.framesDrawn ?? 0) > 0;
     });
     const stats = await page.evaluate(() => {
-      type Scene = { projectGroundPoint(e: number, n: number): { x: number; y: number } | null };
+      type Scene = {
+        projectGroundPoint(e: number, n: number): { x: number; y: number } | null;
+        terrainLayout(): { width: number; height: number; pixelSize_m: number; west_m: number; north_m: number };
+      };
       const canvas = document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene: Scene };
       const copy = document.createElement('canvas');
       copy.width = canvas.width;
@@ -166,11 +169,21 @@ describe.runIf(browser)('workspace in Chromium', () => {
         const p = canvas.landreachScene.projectGroundPoint(e, n);
         return p ? differs(4 * (Math.floor(p.y) * copy.width + Math.floor(p.x))) : null;
       });
-      return { width: copy.width, height: copy.height, fraction: drawn / (data.length / 4), colours: hues.size, probes, corner: differs(0) };
+      // The screen area of the terrain's outline (its corner samples projected; shoelace formula).
+      const t = canvas.landreachScene.terrainLayout();
+      const east = t.west_m + (t.width - 1) * t.pixelSize_m;
+      const south = t.north_m - (t.height - 1) * t.pixelSize_m;
+      const corners = [[t.west_m, south], [east, south], [east, t.north_m], [t.west_m, t.north_m]].map(([e, n]) => canvas.landreachScene.projectGroundPoint(e, n)!);
+      let area = 0;
+      for (let k = 0; k < 4; k++) area += corners[k].x * corners[(k + 1) % 4].y - corners[(k + 1) % 4].x * corners[k].y;
+      return { width: copy.width, height: copy.height, drawn, terrainArea: Math.abs(area) / 2, colours: hues.size, probes, corner: differs(0) };
     });
     expect(stats.width).toBeGreaterThan(300);
-    // The oblique preset frames the whole 1 km demo DEM and the ignition point above it.
-    expect(stats.fraction).toBeGreaterThan(0.15);
+    // The oblique preset frames the whole divert: the DEM, the ignition point and the approach. The terrain is
+    // drawn over the area its corners enclose on screen (at least half of it: relief may hide some of the far
+    // side), however small the DEM is next to the approach.
+    expect(stats.terrainArea).toBeGreaterThan(0);
+    expect(stats.drawn).toBeGreaterThan(0.5 * stats.terrainArea);
     expect(stats.probes).toEqual([true, true, true, true, true]);
     // The top-left corner of the view is outside the terrain: background.
     expect(stats.corner).toBe(false);
@@ -254,6 +267,8 @@ describe.runIf(browser)('workspace in Chromium', () => {
         for (let i = 0; i < da.length; i++) max = Math.max(max, Math.abs(da[i] - db[i]));
         return max;
       };
+      // Close on the terrain (the default view frames the whole approach, where a small DEM is a few pixels).
+      (canvas.landreachScene as unknown as { setView(p: string): void }).setView('site');
       scene.setHazard(null, false);
       const plain = await frame();
       // Synthetic mask (not terrain analysis): every sample east of 100 m is "unsafe".
