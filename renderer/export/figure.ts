@@ -7,6 +7,7 @@ import { addPngText } from './png-metadata.ts';
 import { captionLines, captionMetadata, type CaptionFacts } from './caption.ts';
 import { sampleColormap, VIRIDIS, type Colormap } from '../../core/study/colormap.ts';
 import type { SceneSnapshot } from '../scene/terrain-scene.ts';
+import type { LegendEntry } from '../scene/scene-colours.ts';
 
 export const FIGURE_SIZES = {
   view: null,
@@ -21,6 +22,8 @@ export interface FigureLegend {
   min: number;
   max: number;
   colormap?: Colormap;
+  /** What else is drawn (scene-colours.ts legendEntries): one line each under the colour bar. */
+  entries?: readonly LegendEntry[];
 }
 
 const INK = '#dbe3ea';
@@ -28,8 +31,13 @@ const PANEL = 'rgba(16, 20, 24, 0.85)';
 
 function drawLegend(ctx: CanvasRenderingContext2D, legend: FigureLegend, x: number, y: number, s: number): void {
   ctx.font = `${Math.round(13 * s)}px system-ui, sans-serif`;
-  const width = Math.max(300 * s, ctx.measureText(legend.title).width + 20 * s);
-  const height = 64 * s;
+  const entries = legend.entries ?? [];
+  ctx.font = `${Math.round(12 * s)}px system-ui, sans-serif`;
+  const entriesWidth = Math.max(0, ...entries.map((e) => ctx.measureText(e.text).width + 36 * s));
+  ctx.font = `${Math.round(13 * s)}px system-ui, sans-serif`;
+  const width = Math.max(300 * s, ctx.measureText(legend.title).width + 20 * s, entriesWidth);
+  const line = 16 * s;
+  const height = 64 * s + entries.length * line;
   ctx.fillStyle = PANEL;
   ctx.fillRect(x, y - height, width, height);
   ctx.fillStyle = INK;
@@ -51,6 +59,47 @@ function drawLegend(ctx: CanvasRenderingContext2D, legend: FigureLegend, x: numb
   ticks.forEach((v, k) => {
     ctx.textAlign = k === 0 ? 'left' : k === 1 ? 'center' : 'right';
     ctx.fillText(String(Math.round(v)), barX + (k * barW) / 2, barY + 16 * s);
+  });
+  // One key and its text per entry: the key's shape as in the scene (ring, line, fill…), simplified.
+  ctx.textAlign = 'left';
+  entries.forEach((entry, k) => {
+    const y0 = barY + 34 * s + k * line;
+    const cx = barX + 8 * s;
+    const cy = y0 + 6 * s;
+    ctx.strokeStyle = entry.colour;
+    ctx.fillStyle = entry.colour;
+    ctx.lineWidth = 2 * s;
+    if (entry.shape === 'ring') {
+      ctx.beginPath();
+      ctx.arc(cx, cy, 5 * s, 0, 2 * Math.PI);
+      ctx.stroke();
+    } else if (entry.shape === 'ball') {
+      ctx.beginPath();
+      ctx.arc(cx, cy, 4 * s, 0, 2 * Math.PI);
+      ctx.fill();
+    } else if (entry.shape === 'line' || entry.shape === 'bold-line') {
+      ctx.fillRect(cx - 7 * s, cy - (entry.shape === 'line' ? 1 : 1.5) * s, 14 * s, (entry.shape === 'line' ? 2 : 3) * s);
+    } else if (entry.shape === 'fill') {
+      ctx.globalAlpha = 0.6;
+      ctx.fillRect(cx - 7 * s, cy - 5 * s, 14 * s, 10 * s);
+      ctx.globalAlpha = 1;
+    } else if (entry.shape === 'pin') {
+      ctx.fillRect(cx - 1.5 * s, cy - 6 * s, 3 * s, 12 * s);
+      ctx.strokeStyle = '#888';
+      ctx.lineWidth = 1 * s;
+      ctx.strokeRect(cx - 1.5 * s, cy - 6 * s, 3 * s, 12 * s);
+    } else {
+      ctx.lineWidth = 1.5 * s;
+      for (let d = -10; d <= 10; d += 5) {
+        ctx.beginPath();
+        ctx.moveTo(Math.max(cx - 7 * s, cx + (d - 5) * s), cy + 5 * s);
+        ctx.lineTo(Math.min(cx + 7 * s, cx + (d + 5) * s), cy - 5 * s);
+        ctx.stroke();
+      }
+    }
+    ctx.fillStyle = INK;
+    ctx.textBaseline = 'top';
+    ctx.fillText(entry.text, barX + 22 * s, y0);
   });
 }
 

@@ -26,23 +26,23 @@ afterAll(async () => {
 });
 
 /**
- * Pixels of an image that carry a colour: highest minus lowest channel ≥ 30 of 255, in the top `rowShare` of
- * `rows` rows (the scene's height in the image). The background (#0b0f13: 8), white and grey lines and labels
- * (≈ 0) do not; the viridis drape and height colours do, even shaded (the darkest, (68, 1, 84) at half light,
- * still gives 41), as do the trajectory colours. So a blank scene gives 0 whatever is drawn around it.
- * Counted by Pillow + NumPy (Debian python3-pil / python3-numpy): an outside decoder, so the check does not
- * trust our own PNG encoder.
+ * Pixels of an image that carry a colour: highest minus lowest channel ≥ 30 of 255, in the columns right of
+ * `fromColumnShare` of the width and the top `rows` rows (default: all). The background (#0b0f13: 8), white
+ * and grey lines and labels (≈ 0) do not; the viridis drape and height colours do, even shaded (the darkest,
+ * (68, 1, 84) at half light, still gives 41), as do the trajectory colours. So a blank scene gives 0 whatever
+ * is drawn around it. Counted by Pillow + NumPy (Debian python3-pil / python3-numpy): an outside decoder, so
+ * the check does not trust our own PNG encoder.
  */
-function colouredPixels(file: string, rowShare = 1, rows?: number): number {
+function colouredPixels(file: string, fromColumnShare = 0, rows?: number): number {
   const script = [
     'import sys, numpy as np',
     'from PIL import Image',
     'a = np.asarray(Image.open(sys.argv[1]).convert("RGB"), dtype=np.int16)',
     'h = int(sys.argv[2]) if sys.argv[2] != "all" else a.shape[0]',
-    'a = a[: int(h * float(sys.argv[3]))]',
+    'a = a[:h, int(a.shape[1] * float(sys.argv[3])):]',
     'print(int(((a.max(axis=2) - a.min(axis=2)) >= 30).sum()))',
   ].join('\n');
-  return Number(execFileSync(REFERENCE_PYTHON, ['-c', script, file, rows === undefined ? 'all' : String(rows), String(rowShare)], { encoding: 'utf8' }).trim());
+  return Number(execFileSync(REFERENCE_PYTHON, ['-c', script, file, rows === undefined ? 'all' : String(rows), String(fromColumnShare)], { encoding: 'utf8' }).trim());
 }
 
 type SceneApi = {
@@ -145,9 +145,11 @@ describe.runIf(browser)('the whole divert in the 3D scene', () => {
       const drawn = await canvasAndTerrainArea(name);
       expect(drawn.terrainArea, `terrain in view at ×${value}`).toBeGreaterThan(0);
       expect(drawn.coloured, `terrain drawn at ×${value}`).toBeGreaterThanOrEqual(0.25 * drawn.terrainArea);
-      // The figure exported at that moment shows the scene too: coloured pixels above its bottom fifth, where
-      // the figure's viridis legend bar is drawn (none in a blank figure).
-      expect(colouredPixels(file, 0.8, 1080), `Export PNG at ×${value}`).toBeGreaterThan(0.25 * drawn.terrainArea);
+      // The figure exported at that moment shows the scene too: coloured pixels in the scene part (1080 rows)
+      // right of its legend, which figure.ts draws at the bottom left, narrower than 45 % of a 1920-pixel figure
+      // (none in a blank figure). The figure is about twice the canvas's size, so the terrain covers about four
+      // times the pixels; a quarter of the canvas's terrain area allows for part of it left of that line.
+      expect(colouredPixels(file, 0.45, 1080), `Export PNG at ×${value}`).toBeGreaterThan(0.25 * drawn.terrainArea);
     }
     expect(session.problems).toEqual([]);
   });
