@@ -76,7 +76,9 @@ export function buildMarkerObjects(grid: ElevationGrid, exaggeration: number, in
   if (inputs.ignition) {
     const { east_m, north_m, altitude_m } = inputs.ignition;
     const z = (base + altitude_m) * ex;
-    const ball = new Mesh(new SphereGeometry(span / 150, 16, 12), new MeshLambertMaterial({ color: MARKER_INK, emissive: 0x404040 }));
+    // Sized to the whole approach, not the terrain alone: the view frames both, and a small DEM under a long
+    // approach would leave a terrain-sized ball invisible.
+    const ball = new Mesh(new SphereGeometry(Math.max(span, Math.hypot(east_m, north_m, altitude_m * ex)) / 150, 16, 12), new MeshLambertMaterial({ color: MARKER_INK, emissive: 0x404040 }));
     ball.position.set(east_m, north_m, z);
     ball.name = 'ignition-point';
     const drop = new Line(lineGeometry(dropLinePositions(east_m, north_m, z, ground(east_m, north_m))), new LineBasicMaterial({ color: MARKER_INK, transparent: true, opacity: 0.6 }));
