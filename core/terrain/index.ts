@@ -17,3 +17,5 @@ export * from './demo-terrain.ts';
 export * from './lzw.ts';
 export { MAX_BLOCK_BYTES, MAX_DECODED_BYTES } from './tiff-blocks.ts';
 export * from './groundFrame.ts';
+export * from './demo-site-file.ts';
+export * from './tiff-deflate-writer.ts';

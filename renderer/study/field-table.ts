@@ -80,7 +80,7 @@ export const FIELDS: readonly FieldSpec[] = [
   { id: 'constraints.gateHeight_m', group: 'constraints', label: 'Gate height', unit: 'm', min: 0, max: 1e4, step: 1, defaultValue: 20, help: 'Powered descent ends this high above the target; a final vertical segment follows.' },
   { id: 'constraints.gateDescentRate_mps', group: 'constraints', label: 'Gate descent rate', unit: 'm/s', min: 0, max: 100, step: 0.1, defaultValue: 1, help: 'Downward speed at the gate.' },
 
-  { id: 'vehicle.propellantReserve_kg', group: 'reserve', label: 'Reserve at touchdown', unit: 'kg', min: 0, max: 1e6, step: 5, defaultValue: 20, help: 'Targets that need more than (propellant on board − reserve) are outside the footprint.' },
+  { id: 'vehicle.propellantReserve_kg', group: 'reserve', label: 'Reserve at touchdown', unit: 'kg', min: 0, max: 1e6, step: 5, defaultValue: 150, help: 'Targets that need more than (propellant on board − reserve) are outside the footprint.' },
 
   { id: 'discretisation.nodes', group: 'discretisation', label: 'Time nodes', unit: '', min: 5, max: 2000, integer: true, step: 1, defaultValue: 50, help: 'Nodes of picked-target trajectories (footprint targets use a fixed coarser count).' },
 ];

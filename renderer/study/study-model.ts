@@ -26,7 +26,7 @@ const DEMO_BASE: Record<string, unknown> = {
   name: 'Untitled study',
   description: 'INVENTED demo data: the vehicle, the site and the ignition state are made up for illustration and match no real mission or vehicle.',
   planet: { body: 'mars' },
-  site: { name: 'Aster Basin (invented site)', invented: true },
+  site: { name: 'Orvessa Plain (invented)', invented: true },
   vehicle: { name: 'LR-Demo lander (invented)', invented: true },
   ignition: {},
   constraints: { minAltitude_m: null },
