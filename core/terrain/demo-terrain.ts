@@ -2,7 +2,7 @@
  * Generator of the INVENTED demo site, "Orvessa Plain (invented)": an invented place for an invented
  * lander, not a real location. One surface, defined in site metres (east, north of the site centre, which
  * is the demo study's nominal target), sampled on any raster: the shipped 20 km × 20 km DEM at 10 m and the
- * 2 km × 2 km inset at 2 m around the target are two samplings of it. Deterministic from its seed: the
+ * 2 km × 2 km inset at 2 m around the target are two samplings of it. Deterministic from its start value: the
  * features are drawn once, in a fixed order, whatever raster is asked for, so a window of a raster is the
  * same numbers as the same cells of the whole raster.
  *
@@ -143,7 +143,7 @@ function resolveOptions(options: DemoTerrainOptions): Required<DemoTerrainOption
   return o;
 }
 
-/** Draws every feature of the site from the seed, in a fixed order (independent of any raster). */
+/** Draws every feature of the site from the pseudo-random start value, in a fixed order (independent of any raster). */
 export function demoSiteFeatures(options: DemoTerrainOptions = {}): DemoFeatures {
   const o = resolveOptions(options);
   const rnd = seededRandom(o.seed);
