@@ -7,7 +7,22 @@
 import type { ElevationGrid } from '../terrain/grid.ts';
 import { terrainLonLat } from '../terrain/georeference.ts';
 import { groundFrameOnDem } from '../terrain/groundFrame.ts';
-import type { FootprintLonLat } from '../study/footprintGeoJson.ts';
+
+/** Converts local east–north metres (from the nominal target) to [longitude, latitude] in degrees. */
+export type LocalToLonLat = (east_m: number, north_m: number) => [number, number];
+
+/** Longitude/latitude for the footprint and what they refer to. */
+export interface FootprintLonLat {
+  toLonLat: LocalToLonLat;
+  /** True when the coordinates are WGS 84, as RFC 7946 assumes. */
+  wgs84: boolean;
+  /** What the coordinates refer to, in words (e.g. "WGS 84 longitude/latitude (EPSG:4326)"). */
+  datum: string;
+  /** The body the study is on (e.g. "mars"). */
+  body: string;
+  /** Anything else a reader must know (e.g. how local metres relate to the DEM's grid). */
+  note?: string;
+}
 
 /** Millimetres, without a "-0.000". */
 const metres = (v: number) => (Math.round(v * 1000) / 1000 + 0).toFixed(3);

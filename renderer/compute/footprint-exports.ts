@@ -3,8 +3,9 @@
  * hold what the inputs determine and no date, so the same inputs give the same bytes (as the CLI's files).
  */
 import type { FootprintField } from '../../core/footprint/field.ts';
-import { footprintMapSvg, type FootprintFigures } from '../../core/footprint/studyFootprint.ts';
-import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../core/study/footprintExport.ts';
+import type { FootprintFigures } from '../../core/footprint/studyFootprint.ts';
+import { footprintMapSvg } from '../../core/export/footprintSvg.ts';
+import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../core/export/footprintExport.ts';
 import type { Study } from '../../core/study/schema.ts';
 
 export type FootprintExportKind = 'csv' | 'geojson' | 'json' | 'svg';

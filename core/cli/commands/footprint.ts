@@ -15,11 +15,11 @@ import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from
 import { StopRequest } from '../stop.ts';
 import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
 import { footprintLonLat } from '../../footprint/georeferencedFootprint.ts';
-import type { FootprintLonLat } from '../../study/footprintExport.ts';
+import type { FootprintLonLat } from '../../export/footprintExport.ts';
 import { TerrainInputError } from '../../terrain/grid.ts';
 import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../study/footprintExport.ts';
+import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../export/footprintExport.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { iterationModule } from '../../conic/index.ts';
 import { DescentSolver } from '../../descent/solver.ts';
@@ -27,7 +27,8 @@ import { MAX_NODES } from '../../descent/setup.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { reachBoundary } from '../../descent/reach.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
-import { FOOTPRINT_NODES, footprintContext, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintContext, footprintFigures } from '../../footprint/studyFootprint.ts';
+import { footprintMapSvg } from '../../export/footprintSvg.ts';
 
 const USAGE = `Usage: landreach footprint STUDY.json --out DIR [options]
 

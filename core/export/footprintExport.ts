@@ -3,9 +3,11 @@
  * out. Units are in every column and property name.
  */
 import { TARGET, type FootprintField } from '../footprint/field.ts';
-import { APP_VERSION, CAUTION } from './provenance.ts';
+import type { FootprintSummary } from '../footprint/studyFootprint.ts';
+import { APP_VERSION, CAUTION } from '../study/provenance.ts';
 
 export { footprintGeoJson, rightHandRule, type FootprintGeoJsonInput, type FootprintLonLat, type GeoJsonSite, type LocalToLonLat } from './footprintGeoJson.ts';
+export type { FootprintSummary } from '../footprint/studyFootprint.ts';
 
 const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget', 'relaxation-gap'] as const;
 
@@ -69,40 +71,6 @@ export function footprintCsv(field: FootprintField, budget_kg: number): string {
   return lines.join('\n') + '\n';
 }
 
-export interface FootprintSummary {
-  targets: number;
-  reachable: number;
-  unreachable: number;
-  failed: number;
-  pending: number;
-  /** Targets stopped early as certainly over the budget (reachable-set runs only). */
-  overBudget: number;
-  /** Targets where the relaxation was not lossless and no flyable trajectory within tolerance of its bound was found. */
-  relaxationGap: number;
-  /**
-   * Targets whose trajectory misses a constraint between its nodes beyond tolerance in the dense
-   * re-simulation (core/descent/verify.ts); 0 when all met.
-   */
-  betweenNodesMissed: number;
-  /**
-   * Present when the budget boundary was refined coarse-to-fine: area and divert radius then come from the
-   * refined boundary; `solves` includes the refinement's.
-   */
-  boundaryRefinement?: { factor: number; extraTargets: number; extraSolves: number; unrefinedArea_m2: number; complete: boolean };
-  usablePropellant_kg: number;
-  reserve_kg: number;
-  budget_kg: number;
-  /** Area of {propellant ≤ budget}, m². */
-  reachableArea_m2: number;
-  guaranteedDivertRadius_m: number;
-  /** True when the divert radius is limited by the grid's extent rather than by reach. */
-  divertRadiusLimitedByGrid: boolean;
-  minPropellant_kg: number;
-  maxPropellant_kg: number;
-  solves: number;
-  /** The run stopped (Ctrl-C, a signal, Cancel) before every target was computed: `pending` are missing. */
-  cancelled: boolean;
-}
 
 export interface FootprintReportInput {
   studyName: string;
