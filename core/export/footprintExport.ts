@@ -23,6 +23,21 @@ function pendingCount(field: FootprintField): number {
   return n;
 }
 
+/**
+ * Whether target k is reachable with the reserve kept (minimum propellant ≤ `budget_kg`): 1 yes, 0 certainly
+ * not (above the budget, over budget, or unreachable), null not computed or not established (failed, or a
+ * relaxation-gap target whose best flyable trajectory is above the budget). One rule for the CSV's
+ * `within_budget` column and the reachable-with-reserve raster.
+ */
+export function withinBudget(field: FootprintField, k: number, budget_kg: number): 0 | 1 | null {
+  const st = field.status[k];
+  if (st === TARGET.reachable) return field.propellant_kg[k] <= budget_kg ? 1 : 0;
+  if (st === TARGET.unreachable || st === TARGET.overBudget) return 0;
+  // A flyable trajectory within the budget proves it; above it, only the (unstored) lower bound could.
+  if (st === TARGET.relaxationGap && field.propellant_kg[k] <= budget_kg) return 1;
+  return null;
+}
+
 /** The line a partial result's CSV carries after the caution (a complete run never leaves targets pending). */
 export function partialResultLine(field: FootprintField): string | null {
   const pending = pendingCount(field);
@@ -47,11 +62,8 @@ export function footprintCsv(field: FootprintField, budget_kg: number): string {
     for (let i = 0; i < field.nx; i++) {
       const k = j * field.nx + i;
       const st = field.status[k];
-      const within = st === TARGET.reachable
-        ? (field.propellant_kg[k] <= budget_kg ? '1' : '0')
-        : st === TARGET.unreachable || st === TARGET.overBudget ? '0'
-          // A flyable trajectory within the budget proves it; above it, only the (unstored) lower bound could.
-          : st === TARGET.relaxationGap && field.propellant_kg[k] <= budget_kg ? '1' : '';
+      const w = withinBudget(field, k, budget_kg);
+      const within = w === null ? '' : String(w);
       lines.push(
         [
           num(field.east[i], 3),
