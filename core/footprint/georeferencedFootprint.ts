@@ -32,7 +32,7 @@ const metres = (v: number) => (Math.round(v * 1000) / 1000 + 0).toFixed(3);
  * Null when the terrain has no georeference; throws core/terrain's TerrainInputError (naming the CRS)
  * when its CRS cannot be converted. `body` is the study's planet body ("mars", "moon", "custom").
  */
-export function footprintLonLat(grid: ElevationGrid, target_m: readonly [number, number], body: string, source = 'terrain'): FootprintLonLat | null {
+export function footprintLonLat(grid: Pick<ElevationGrid, 'georeference'>, target_m: readonly [number, number], body: string, source = 'terrain'): FootprintLonLat | null {
   const ref = terrainLonLat(grid.georeference, source);
   if (!ref) return null;
   const [tE, tN] = target_m;
@@ -94,7 +94,7 @@ export interface FootprintPlace {
  * Null unless the terrain is projected (a geographic DEM's frame is not a CRS of its own: its exports keep
  * longitude/latitude). Throws core/terrain's TerrainInputError (naming the CRS) when the CRS cannot be used.
  */
-export function footprintPlace(grid: ElevationGrid, target_m: readonly [number, number], source = 'terrain'): FootprintPlace | null {
+export function footprintPlace(grid: Pick<ElevationGrid, 'georeference'>, target_m: readonly [number, number], source = 'terrain'): FootprintPlace | null {
   const georeference = grid.georeference;
   if (georeference?.model !== 'projected') return null;
   const projection = terrainProjection(georeference, source)!;
