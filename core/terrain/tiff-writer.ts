@@ -24,8 +24,8 @@ export interface RasterGeoreference {
   /** EPSG code of a geographic CRS (degrees). */
   geographicEpsg?: number;
   /**
-   * The source's GeoKeys by name (as geotiff.js reads them), copied when there is no EPSG code: the raster
-   * type and vertical keys are left out (the raster is PixelIsArea and its values are not heights).
+   * The source's GeoKeys by name (as geotiff.js reads them), copied when there is no EPSG code above: the
+   * raster type and vertical keys are left out (the raster is PixelIsArea and its values are not heights).
    */
   geoKeys?: Readonly<Record<string, unknown>>;
 }
@@ -83,7 +83,9 @@ function geoKeyBlock(geo: RasterGeoreference): GeoKeyBlock {
   for (const { id, value } of entries) {
     if (ASCII_KEYS.has(id)) {
       if (typeof value !== 'string') throw new Error(`writeGeoTiff: GeoKey ${id} must be text, got ${String(value)}`);
-      const text = value.replace(/\|$/, '') + '|';
+      // geotiff.js gives the text without its terminating '|' (GeoTIFF 1.1 §B.2); a '|' at its end belongs to the
+      // text (GDAL's citations separate fields with it), so the terminator is always added.
+      const text = value + '|';
       directory.push(id, GEO_ASCII_PARAMS, text.length, ascii.length);
       ascii += text;
     } else if (DOUBLE_KEYS.has(id)) {
@@ -125,12 +127,17 @@ function noDataText(v: number): string {
   return String(v);
 }
 
-/** The CRS part of a raster georeference, from a grid's source georeference (EPSG codes, else its GeoKeys). */
+/**
+ * The CRS part of a raster georeference, from a grid's source georeference: the GeoKeys it was read from when
+ * there are any (GDAL then reads the very CRS it reads from the source, citations included: with an EPSG code
+ * alone GDAL 3.6 reads WGS 84 as the datum ensemble, with GDAL's citations as the plain datum), else its EPSG
+ * codes.
+ */
 export function rasterCrs(g: GridGeoreference): Omit<RasterGeoreference, 'geoTransform'> {
+  if (g.projectedCrs?.geoKeys) return { geoKeys: g.projectedCrs.geoKeys };
   return {
     ...(g.projectedEpsg ? { projectedEpsg: g.projectedEpsg } : {}),
     ...(g.geographicEpsg ? { geographicEpsg: g.geographicEpsg } : {}),
-    ...(g.projectedCrs?.geoKeys ? { geoKeys: g.projectedCrs.geoKeys } : {}),
   };
 }
 

@@ -53,6 +53,8 @@ interface Case {
   name: string; srs: string; R: number; lon: number; lat: number; uri: RegExp | null;
   /** The target grid is turned or sheared in the DEM's CRS (a ModelTransformation, not north-up). */
   rotated: boolean;
+  /** Earth (WGS 84): the figure for PROJ, and JSON-FG then has a WGS 84 fallback geometry. */
+  wgs84?: boolean;
 }
 const cases: Case[] = [
   { name: 'Mars, IAU_2015:49910 equirectangular', srs: 'IAU_2015:49910', R: MARS_R, lon: 137.4, lat: -4.6, uri: /^http:\/\/www\.opengis\.net\/def\/crs\/IAU\/2015\/49910$/, rotated: false },
@@ -60,11 +62,14 @@ const cases: Case[] = [
   { name: 'Moon, IAU_2015:30135 south polar stereographic', srs: 'IAU_2015:30135', R: MOON_R, lon: -60, lat: -88.5, uri: /^http:\/\/www\.opengis\.net\/def\/crs\/IAU\/2015\/30135$/, rotated: true },
   // Sinusoidal east of its central meridian shears the grid (meridians lean).
   { name: 'Moon-sized sphere, user-defined sinusoidal (no registered code)', srs: `+proj=sinu +lon_0=77 +x_0=1000 +y_0=-2000 +R=${MOON_R} +units=m +no_defs`, R: MOON_R, lon: 77.3, lat: 20, uri: null, rotated: true },
+  // Earth, for the EPSG path and the WGS 84 fallback geometry: UTM zone 33 N, 1.5° east of its central meridian.
+  { name: 'Earth, EPSG:32633 (UTM zone 33 N)', srs: 'EPSG:32633', R: 6378137, lon: 16.5, lat: 45, uri: /^http:\/\/www\.opengis\.net\/def\/crs\/EPSG\/0\/32633$/, rotated: true, wgs84: true },
 ];
 
 describe.runIf(gdalAvailable())('footprint exports in the DEM\'s CRS, read by GDAL/PROJ', () => {
   it.each(cases.map((c, i) => [c.name, c, i] as const))('%s', async (_name, c, i) => {
-    const geog = `+proj=longlat +R=${c.R} +no_defs`;
+    const figure = c.wgs84 ? '+datum=WGS84' : `+R=${c.R}`;
+    const geog = `+proj=longlat ${figure} +no_defs`;
     const [[x, y]] = transform(['-s_srs', geog, '-t_srs', c.srs], [[c.lon, c.lat]]);
     const asc = tmp.path(`dem${i}.asc`);
     writeAsciiGrid(asc, 30, 30, new Float64Array(900).fill(-1500));
@@ -93,7 +98,7 @@ describe.runIf(gdalAvailable())('footprint exports in the DEM\'s CRS, read by GD
 
     // 2. Every target, placed by PROJ alone, falls in its own pixel with the run's propellant.
     const [[tLon, tLat]] = transform(['-s_srs', c.srs, '-t_srs', geog], [[x, y]]);
-    const aeqd = `+proj=aeqd +lat_0=${tLat} +lon_0=${tLon} +R=${c.R} +units=m +no_defs`;
+    const aeqd = `+proj=aeqd +lat_0=${tLat} +lon_0=${tLon} ${figure} +units=m +no_defs`;
     const csv = readFileSync(`${out}/footprint.csv`, 'utf8').split('\n').filter((l) => l && !l.startsWith('#')).slice(1).map((l) => l.split(','));
     expect(csv.length).toBe(NX * NY);
     const local = csv.map((r) => [Number(r[0]), Number(r[1])]);
@@ -129,15 +134,19 @@ describe.runIf(gdalAvailable())('footprint exports in the DEM\'s CRS, read by GD
     for (const f of fg.features) {
       expect(Object.keys(f)).toEqual(expect.arrayContaining(['type', 'time', 'place', 'geometry', 'properties', 'featureType']));
       expect(f.place).not.toBeNull();
-      // Off Earth there is no WGS 84 geometry to give: geometry is null (§7.2, "Use of geometry and/or place").
-      expect(f.geometry).toBeNull();
+      // Off Earth there is no WGS 84 geometry to give: geometry is null (§7.2, "Use of geometry and/or place");
+      // on WGS 84 it is the fallback, the RFC 7946 file's geometry.
+      if (c.wgs84) expect(f.geometry).toEqual(geojson.features[fg.features.indexOf(f)].geometry);
+      else expect(f.geometry).toBeNull();
     }
     let demProj4: string;
     if (c.uri) {
       expect(fg.coordRefSys).toMatch(c.uri);
       const [, auth, version, code] = /\/def\/crs\/(\w+)\/([\w.]+)\/(\d+)$/.exec(fg.coordRefSys)!;
       demProj4 = gdal('gdalsrsinfo', ['-o', 'proj4', dem]).trim();
-      expect(projParams(gdal('gdalsrsinfo', ['-o', 'proj4', `${auth}_${version}:${code}`]).trim())).toEqual(projParams(demProj4));
+      // The OGC register's /def/crs/EPSG/0/N is PROJ's EPSG:N; /def/crs/IAU/2015/N is IAU_2015:N.
+      const projCode = auth === 'EPSG' ? `EPSG:${code}` : `${auth}_${version}:${code}`;
+      expect(projParams(gdal('gdalsrsinfo', ['-o', 'proj4', projCode]).trim())).toEqual(projParams(demProj4));
     } else {
       expect(fg.coordRefSys.type).toBe('PROJ');
       demProj4 = gdal('gdalsrsinfo', ['-o', 'proj4', dem]).trim();
@@ -154,7 +163,8 @@ describe.runIf(gdalAvailable())('footprint exports in the DEM\'s CRS, read by GD
     const lonLat = transform(['-s_srs', c.srs, '-t_srs', geog], fgRing);
     lonLat.forEach(([lon, lat], k) => {
       const dLon = ((((lon - gjRing[k][0]) % 360) + 540) % 360) - 180;
-      const gap = c.R * Math.hypot(dLon * DEG * Math.cos(lat * DEG), (lat - gjRing[k][1]) * DEG);
+      // On the sphere R; on WGS 84 the largest radius of curvature, a²/b < 6 400 km, bounds it from above.
+      const gap = (c.wgs84 ? 6.4e6 : c.R) * Math.hypot(dLon * DEG * Math.cos(lat * DEG), (lat - gjRing[k][1]) * DEG);
       expect(gap, `vertex ${k}`).toBeLessThan(0.01);
     });
     expect(existsSync(`${out}/footprint.manifest.json`)).toBe(true);
