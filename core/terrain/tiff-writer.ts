@@ -83,8 +83,8 @@ function geoKeyBlock(geo: RasterGeoreference): GeoKeyBlock {
   for (const { id, value } of entries) {
     if (ASCII_KEYS.has(id)) {
       if (typeof value !== 'string') throw new Error(`writeGeoTiff: GeoKey ${id} must be text, got ${String(value)}`);
-      // geotiff.js gives the text without its terminating '|' (GeoTIFF 1.1 §B.2); a '|' at its end belongs to the
-      // text (GDAL's citations separate fields with it), so the terminator is always added.
+      // In GeoAsciiParams each text ends with '|' (GeoTIFF 1.1), which geotiff.js leaves out: a '|' at the end of
+      // the value belongs to the text (GDAL's citations separate fields with it), so the terminator is always added.
       const text = value + '|';
       directory.push(id, GEO_ASCII_PARAMS, text.length, ascii.length);
       ascii += text;
