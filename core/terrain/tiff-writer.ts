@@ -5,9 +5,9 @@
  * and the GDAL_NODATA tag. Enough for slope, hazard and footprint rasters that GDAL reads back; written by
  * hand because it must carry Float32 samples, PixelIsArea and a nodata value exactly. Pure: returns bytes.
  *
- * The CRS is written as an EPSG code, or as the source DEM's own GeoKeys copied key by key (a user-defined
- * projection as GDAL writes it for IAU_2015 codes and PROJ strings): the raster then carries the very CRS
- * GDAL reads from the DEM (test/reference/export/ checks it with gdalsrsinfo).
+ * The CRS is written as the source DEM's own GeoKeys copied key by key (e.g. a user-defined projection as
+ * GDAL writes it for IAU_2015 codes and PROJ strings), or as an EPSG code when there are no keys: the raster
+ * then carries the very CRS GDAL reads from the DEM (test/reference/export/ checks it with gdalsrsinfo).
  */
 import { globals } from 'geotiff';
 import type { ElevationGrid, GridGeoreference } from './grid.ts';
