@@ -12,6 +12,8 @@ export const EXPORT_KINDS = {
   geojson: { extension: 'geojson', label: 'GeoJSON', binary: false },
   json: { extension: 'json', label: 'JSON report', binary: false },
   svg: { extension: 'svg', label: 'SVG map', binary: false },
+  jsonfg: { extension: 'json', label: 'JSON-FG', binary: false },
+  tif: { extension: 'tif', label: 'GeoTIFF', binary: true },
 } as const;
 export type ExportKind = keyof typeof EXPORT_KINDS;
 

@@ -71,7 +71,12 @@ const EXPORT_TYPES: Record<string, string> = {
   geojson: 'application/geo+json',
   json: 'application/json',
   svg: 'image/svg+xml',
+  jsonfg: 'application/vnd.ogc.fg+json',
+  tif: 'image/tiff',
 };
+
+/** File extension per export kind, where it is not the kind's name (electron/bridge-api.ts EXPORT_KINDS says the same). */
+const EXPORT_EXTENSIONS: Record<string, string> = { jsonfg: 'json' };
 
 /** The fallback used when the page runs outside Electron. */
 export function createBrowserBridge(): LandreachBridge {
@@ -111,7 +116,7 @@ export function createBrowserBridge(): LandreachBridge {
     },
     async newStudy() {},
     async exportFile(request: ExportRequest): Promise<WriteResult> {
-      const name = withExtension(request.suggestedName, `.${request.kind}`);
+      const name = withExtension(request.suggestedName, `.${EXPORT_EXTENSIONS[request.kind] ?? request.kind}`);
       download(name, request.data, EXPORT_TYPES[request.kind]);
       return { status: 'written', path: name, name };
     },

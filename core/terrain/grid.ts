@@ -20,7 +20,7 @@ export interface GridGeoreference {
    * Projected sources: the CRS as a PROJ string and a name (projection.ts), taken from the file's GeoKeys
    * (EPSG code or user-defined keys). Without it a projected georeference falls back on `projectedEpsg`.
    */
-  readonly projectedCrs?: { readonly proj4: string; readonly name: string };
+  readonly projectedCrs?: { readonly proj4: string; readonly name: string; readonly planetocentric?: boolean; readonly geoKeys?: Readonly<Record<string, unknown>> };
   /** EPSG code of a geographic CRS, when the file named one. */
   readonly geographicEpsg?: number;
   /** 'projected' (metres), 'geographic' (degrees, converted to a local frame), or 'none' (no CRS). */

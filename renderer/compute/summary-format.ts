@@ -1,5 +1,5 @@
 /** Result figures as the app shows them: a label, a value with its unit, and a note where it needs one. */
-import type { FootprintSummary } from '../../core/study/footprintExport.ts';
+import type { FootprintSummary } from '../../core/export/footprintExport.ts';
 import type { PickedTrajectory } from '../../core/footprint/pickedTrajectory.ts';
 
 export interface Figure {

@@ -14,12 +14,12 @@ import { UsageError } from '../command.ts';
 import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
 import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
-import { footprintLonLat } from '../../footprint/georeferencedFootprint.ts';
-import type { FootprintLonLat } from '../../study/footprintExport.ts';
+import { footprintLonLat, footprintPlace, type FootprintPlace } from '../../footprint/georeferencedFootprint.ts';
+import type { FootprintLonLat } from '../../export/footprintExport.ts';
 import { TerrainInputError } from '../../terrain/grid.ts';
 import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../study/footprintExport.ts';
+import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../export/footprintExport.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { iterationModule } from '../../conic/index.ts';
 import { DescentSolver } from '../../descent/solver.ts';
@@ -27,7 +27,11 @@ import { MAX_NODES } from '../../descent/setup.ts';
 import { landreachConicBackend } from '../../descent/conicBackend.ts';
 import { reachBoundary } from '../../descent/reach.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
-import { FOOTPRINT_NODES, footprintContext, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintContext, footprintFigures, type FootprintFigures } from '../../footprint/studyFootprint.ts';
+import type { FootprintField } from '../../footprint/field.ts';
+import { footprintMapSvg } from '../../export/footprintSvg.ts';
+import { footprintJsonFg } from '../../export/footprintJsonFg.ts';
+import { footprintPropellantTiff, footprintReachableTiff } from '../../export/footprintRasters.ts';
 
 const USAGE = `Usage: landreach footprint STUDY.json --out DIR [options]
 
@@ -48,9 +52,15 @@ Options:
   --reachable-only   stop each target's search once it is certainly over the budget (such targets are
                      reported 'over-budget' with the best trajectory found as their cost, an upper
                      bound; levels above the budget are then not drawn)
-  --terrain DEM      a georeferenced GeoTIFF (EPSG:4326, a UTM zone on WGS 84, or degrees on a sphere):
-                     footprint.geojson then carries longitude/latitude geometry, the nominal target placed
-                     at --target-east-m, --target-north-m of the DEM's frame (default: the DEM's centre)
+  --terrain DEM      a georeferenced GeoTIFF (EPSG:4326, a UTM zone on WGS 84, degrees on a sphere, or a
+                     projected CRS on another body, e.g. IAU_2015 codes): footprint.geojson then carries
+                     longitude/latitude geometry, the nominal target placed at --target-east-m,
+                     --target-north-m of the DEM's frame (default: the DEM's centre). With a projected DEM
+                     the footprint is also written in the DEM's own CRS: footprint.fg.json (OGC JSON-FG:
+                     shapes in the DEM's easting/northing under 'place', its CRS in 'coordRefSys'),
+                     footprint-propellant.tif (minimum propellant, kg, Float32, NaN where not
+                     established) and footprint-reachable.tif (Byte: 1 reachable with the reserve kept,
+                     0 not, 255 not established), one pixel centred on each target
   --body-radius-m R, --origin-lat-deg A, --origin-lon-deg B
                      with --terrain: as for landreach hazard (geographic DEMs)
 
@@ -58,7 +68,7 @@ Writes footprint.json (versioned report), footprint.csv (one row per target), fo
 (contours and the reserve boundary, RFC 7946: local metres
 in the properties, longitude/latitude geometry with --terrain, null geometry without) and footprint.svg (a map for reports),
 then footprint.manifest.json last: each file's size and SHA-256, and the run record (date, time taken,
-workers, how the run ended). The four result files are the same bytes for the same inputs, whatever the
+workers, how the run ended). The result files are the same bytes for the same inputs, whatever the
 number of workers; \`landreach verify DIR\` checks a folder's set against its manifest.
 
 Ctrl-C (once or more), SIGTERM or SIGHUP stop the run: every finished row is written and the files say
@@ -178,13 +188,13 @@ function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): 
 }
 
 /** Reads --terrain, places the nominal target on it and builds the longitude/latitude conversion. */
-async function terrainPlacement(path: string, flags: Flags, body: string): Promise<{ target_m: [number, number]; lonLat: FootprintLonLat }> {
+async function terrainPlacement(path: string, flags: Flags, body: string): Promise<{ target_m: [number, number]; lonLat: FootprintLonLat; place: FootprintPlace | null }> {
   try {
     const { grid } = await readDem(path, flags, '--terrain');
     const [tE, tN] = nominalTargetOnDem(grid, flags);
     const lonLat = footprintLonLat(grid, [tE, tN], body, `--terrain ${path}`);
     if (!lonLat) throw new UsageError(`--terrain ${path}: has no georeference (no CRS), so there is no longitude/latitude to write; give a GeoTIFF with a CRS (gdal_translate -a_srs …)`);
-    return { target_m: [tE, tN], lonLat };
+    return { target_m: [tE, tN], lonLat, place: footprintPlace(grid, [tE, tN], `--terrain ${path}`) };
   } catch (err) {
     if (err instanceof TerrainInputError) throw new UsageError(err.message);
     throw err;
@@ -218,7 +228,7 @@ export const footprintCommand: CliCommand = {
   },
 };
 
-const OUTPUT_NAMES = ['footprint.json', 'footprint.csv', 'footprint.geojson', 'footprint.svg'];
+const OUTPUT_NAMES = ['footprint.json', 'footprint.csv', 'footprint.geojson', 'footprint.svg', 'footprint.fg.json', 'footprint-propellant.tif', 'footprint-reachable.tif'];
 
 async function runFootprint(o: Options, study: Study, mass: { reserve: number; usable: number; budget: number }, stop: StopRequest, io: CliIo): Promise<number> {
   const { reserve, usable, budget } = mass;
@@ -268,6 +278,7 @@ async function runFootprint(o: Options, study: Study, mass: { reserve: number; u
       path: join(o.out, 'footprint.svg'),
       text: footprintMapSvg(field, figures, { title: `Divert footprint — ${study.name}`, caption }),
     },
+    ...(placement?.place ? demCrsFiles(o.out, placement.place, placement.lonLat, { field, figures, reserve, budget, stoppedEarly, description: `${study.name}, inputs ${hash.slice(0, 16)}` }) : []),
   ];
   const manifest = writeOutputSet(files, {
     name: manifestName('footprint'),
@@ -311,6 +322,21 @@ async function runFootprint(o: Options, study: Study, mass: { reserve: number; u
   );
   if (stop.exitCode !== null) return stop.exitCode;
   return counts.failed > 0 && counts.reachable === 0 ? 1 : 0;
+}
+
+/** The footprint in the DEM's own projected CRS: JSON-FG beside the RFC 7946 file, and the two rasters. */
+function demCrsFiles(
+  out: string,
+  place: FootprintPlace,
+  lonLat: FootprintLonLat,
+  r: { field: FootprintField; figures: FootprintFigures; reserve: number; budget: number; stoppedEarly: string | null; description: string },
+) {
+  const jsonFg = footprintJsonFg({ contours: r.figures.bands, reachable: r.figures.reachable, reserve_kg: r.reserve, place, lonLat, stoppedEarly: r.stoppedEarly });
+  return [
+    { path: join(out, 'footprint.fg.json'), text: JSON.stringify(jsonFg) },
+    { path: join(out, 'footprint-propellant.tif'), bytes: () => footprintPropellantTiff(r.field, place, r.description) },
+    { path: join(out, 'footprint-reachable.tif'), bytes: () => footprintReachableTiff(r.field, r.budget, place, r.description) },
+  ];
 }
 
 /**

@@ -10,7 +10,8 @@ import { UsageError } from '../command.ts';
 import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
-import { FOOTPRINT_NODES, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintFigures } from '../../footprint/studyFootprint.ts';
+import { footprintMapSvg } from '../../export/footprintSvg.ts';
 import { makeTargetGrid, parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
 import { minimumAltitude, reserveStudy, type AltitudeStudyRow, type IgnitionRule } from '../../footprint/studies.ts';
 import type { Study } from '../../study/index.ts';
@@ -28,7 +29,7 @@ import {
   studyAtAltitude,
 } from '../../footprint/studyRuns.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { altitudeStudyCsvLines, DISPERSION_MODEL, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReport } from '../../study/studyExport.ts';
+import { altitudeStudyCsvLines, DISPERSION_MODEL, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReport } from '../../export/studyExport.ts';
 
 const USAGE = `Usage: landreach study reserve|ignition-altitude|dispersion STUDY.json --out DIR [options]
 
