@@ -16,7 +16,7 @@ const metres = (v: number) => (Math.round(v * 1000) / 1000 + 0).toFixed(3);
  * Null when the terrain has no georeference; throws core/terrain's TerrainInputError (naming the CRS)
  * when its CRS cannot be converted. `body` is the study's planet body ("mars", "moon", "custom").
  */
-export function footprintLonLat(grid: ElevationGrid, target_m: readonly [number, number], body: string, source = 'terrain'): FootprintLonLat | null {
+export function footprintLonLat(grid: Pick<ElevationGrid, 'georeference'>, target_m: readonly [number, number], body: string, source = 'terrain'): FootprintLonLat | null {
   const ref = terrainLonLat(grid.georeference, source);
   if (!ref) return null;
   const [tE, tN] = target_m;

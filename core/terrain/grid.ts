@@ -53,6 +53,9 @@ export interface ElevationGrid {
   readonly georeference?: GridGeoreference;
 }
 
+/** A grid's size and placement without its heights (an opened DEM's frame before anything is read). */
+export type GridFrame = Omit<ElevationGrid, 'heights' | 'noData'>;
+
 /**
  * Largest grid any reader builds: 4096 × 4096 cells (≈ 64 MB of Float32 heights plus masks). Larger
  * files must be read through a window (`window` option of the readers).

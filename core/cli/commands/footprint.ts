@@ -13,7 +13,7 @@ import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
-import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
+import { nominalTargetOnDem, openDem, type Flags } from '../dem.ts';
 import { footprintLonLat } from '../../footprint/georeferencedFootprint.ts';
 import type { FootprintLonLat } from '../../study/footprintExport.ts';
 import { TerrainInputError } from '../../terrain/grid.ts';
@@ -166,7 +166,7 @@ function parseArgs(args: string[]): Options {
  * Grid half-width from the reach boundary (max-divert cone programs along 16 directions): 10 % beyond the
  * farthest reach, rounded up to 100 m, so the footprint shows its edge.
  */
-function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): number {
+export function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): number {
   const ctx = footprintContext(study, nodes);
   const solver = new DescentSolver(ctx.setup, landreachConicBackend(), ctx.ignition);
   const boundary = reachBoundary(solver, ctx.ignition, 16, budget_kg, { targetHeight_m: ctx.targetHeight_m });
@@ -180,9 +180,12 @@ function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): 
 /** Reads --terrain, places the nominal target on it and builds the longitude/latitude conversion. */
 async function terrainPlacement(path: string, flags: Flags, body: string): Promise<{ target_m: [number, number]; lonLat: FootprintLonLat }> {
   try {
-    const { grid } = await readDem(path, flags, '--terrain');
-    const [tE, tN] = nominalTargetOnDem(grid, flags);
-    const lonLat = footprintLonLat(grid, [tE, tN], body, `--terrain ${path}`);
+    // Placing the target needs the DEM's frame and CRS only: the GeoTIFF is opened, no heights are read
+    // (a 50k × 50k DEM costs its header and directory).
+    const opened = await openDem(path, flags, '--terrain');
+    await opened.close();
+    const [tE, tN] = nominalTargetOnDem(opened.frame, flags);
+    const lonLat = footprintLonLat(opened.frame, [tE, tN], body, `--terrain ${path}`);
     if (!lonLat) throw new UsageError(`--terrain ${path}: has no georeference (no CRS), so there is no longitude/latitude to write; give a GeoTIFF with a CRS (gdal_translate -a_srs …)`);
     return { target_m: [tE, tN], lonLat };
   } catch (err) {
