@@ -17,6 +17,7 @@ import { join } from 'node:path';
 import { main } from '../../../core/cli/main.ts';
 import { captureIo } from '../../support/cli-io.ts';
 import { MAX_GRID_CELLS, openGeoTiff, type ByteSource, type ElevationGrid } from '../../../core/terrain/index.ts';
+import { readTerrain } from '../../../renderer/terrain/terrain-product.ts';
 import { gdal, gdalAvailable, gdalinfoJson, readXyz, tempDir, writeAsciiGrid } from './gdal.ts';
 
 const tmp = tempDir();
@@ -176,6 +177,21 @@ describe.runIf(gdalAvailable())('a 20 000 × 20 000 tiled DEM (GDAL-made, sparse
       expectSameAsXyz(grid, ref, -32768);
     } finally {
       file.close();
+    }
+  }, 60_000);
+
+  it('the app reads the full-resolution 4096 × 4096 window about the centre and says so; heights are GDAL\'s', async () => {
+    const { grid, shownName } = await readTerrain(new Uint8Array(readFileSync(big)), 'big.tif', { pixelSize_m: null, heightScale_m: null });
+    expect([grid.width, grid.height, grid.pixelSizeX_m]).toEqual([4096, 4096, PIXEL]);
+    expect(shownName).toBe('big.tif (full-resolution window 4096 × 4096 about the centre of its 20000 × 20000)');
+    const c0 = (SIDE - 4096) / 2;
+    expect(grid.originEast_m).toBe(WEST + c0 * PIXEL);
+    // A few pixels of the written relief and one never-written (no-data) pixel, as gdallocationinfo reads them.
+    for (const [c, r] of [[T0C + 3, T0R + 5], [T0C + 600, T0R + 500], [T0C + TW - 1, T0R + TW - 1], [c0 + 5, c0 + 5]]) {
+      const v = Number(gdal('gdallocationinfo', ['-valonly', big, String(c), String(r)]).trim());
+      const k = (r - c0) * 4096 + (c - c0);
+      if (v === -32768) expect(grid.noData[k]).toBe(1);
+      else expect(grid.heights[k]).toBe(Math.fround(v)); // gdallocationinfo prints the float32 to 15 digits
     }
   }, 60_000);
 
