@@ -50,7 +50,8 @@ Options:
                      bound; levels above the budget are then not drawn)
   --terrain DEM      a georeferenced GeoTIFF (EPSG:4326, a UTM zone on WGS 84, or degrees on a sphere):
                      footprint.geojson then carries longitude/latitude geometry, the nominal target placed
-                     at --target-east-m, --target-north-m of the DEM's frame (default: the DEM's centre)
+                     at --target-east-m, --target-north-m of the DEM's frame (default: the DEM's centre);
+                     only the DEM's header is read, so any size of DEM will do
   --body-radius-m R, --origin-lat-deg A, --origin-lon-deg B
                      with --terrain: as for landreach hazard (geographic DEMs)
 

@@ -44,7 +44,9 @@ Options:
   --baselines        also fly polynomial guidance to the target and a gravity-turn soft landing,
                      for comparison with the optimum (propellant, miss, landing point)
   --terrain DEM      check the trajectory's clearance above the terrain (GeoTIFF, PNG16 or JSON grid;
-                     nodes and the straight segments between them, sampled at the DEM's pixel size)
+                     nodes and the straight segments between them, sampled at the DEM's pixel size);
+                     a GeoTIFF is read only under the ground track: at full resolution when that window
+                     has at most 4096 × 4096 cells, else from an overview or as block averages (said)
   --clearance-m C    required height above the terrain, m (default 0; with --terrain)
   --target-east-m E, --target-north-m N
                      the nominal target on the DEM, in the DEM's frame (default: the DEM's centre)
