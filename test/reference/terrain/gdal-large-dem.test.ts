@@ -5,10 +5,12 @@
  *   with a 5 × 5 footprint reads only the window the footprint needs, at full resolution; its window is the
  *   one the equirectangular projection's scale predicts, its heights are GDAL's (`gdal_translate -srcwin
  *   -of XYZ`), its Horn slope is `gdaldem slope` of the same pixels, and its memory is bounded (cells, bytes
- *   and blocks counted by the reader, bytes counted by a byte source the test owns);
+ *   and blocks counted by the reader, bytes counted by a byte source the test owns); `trajectory --terrain`
+ *   reads the window under the ground track; the app reads the full-resolution central 4096 × 4096 window;
  * - overview selection on a file with `gdaladdo` overviews: the level read is the one asked for and its
  *   heights are GDAL's own reading of that overview (`gdal_translate -ovr N`);
- * - block averaging on a file without overviews against `gdal_translate -outsize … -r average`.
+ * - block averaging on a file without overviews against `gdal_translate -outsize … -r average`;
+ * - a geographic DEM's region reads share the whole file's frame, placed as `gdal_translate -srcwin` places them.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openSync, readSync, closeSync, fstatSync, readFileSync } from 'node:fs';
@@ -195,6 +197,25 @@ describe.runIf(gdalAvailable())('a 20 000 × 20 000 tiled DEM (GDAL-made, sparse
     }
   }, 60_000);
 
+  it('trajectory --terrain reads only the window under the ground track, from the ignition point to the target', async () => {
+    const h = captureIo();
+    const code = await main(['trajectory', STUDY, '--terrain', big, '--target-east-m', String(TARGET[0]), '--target-north-m', String(TARGET[1])], h.io);
+    expect(code, h.err.join('')).toBe(0);
+    const m = /read big\.tif window \[(\d+), (\d+), (\d+), (\d+)\] at full resolution: (\d+) × (\d+) cells .* (\d+) blocks decoded \((\d+) never written\)/.exec(h.err.join(''));
+    expect(m, h.err.join('')).not.toBeNull();
+    const [c0, r0, c1, r1, w, hh, decoded, sparse] = m!.slice(1).map(Number);
+    expect([w, hh]).toEqual([c1 - c0, r1 - r0]);
+    // The study's ignition point is 2500 m west and 400 m north of the target (ground metres): on the
+    // equirectangular sphere 2500 / cos φ grid metres west, 400 north, plus the two-pixel margin.
+    const phi = TARGET[1] / R;
+    expect(c0).toBeLessThanOrEqual(Math.floor((TARGET[0] - 2500 / Math.cos(phi) - 2 * PIXEL - WEST) / PIXEL));
+    expect(r0).toBeLessThanOrEqual(Math.floor((NORTH - TARGET[1] - 400 - 2 * PIXEL) / PIXEL));
+    expect(c1).toBeGreaterThan((TARGET[0] - WEST) / PIXEL);
+    expect(r1).toBeGreaterThan((NORTH - TARGET[1]) / PIXEL);
+    expect(w * hh).toBeLessThanOrEqual(MAX_GRID_CELLS);
+    expect(decoded + sparse).toBe((Math.ceil(c1 / TILE) - Math.floor(c0 / TILE)) * (Math.ceil(r1 / TILE) - Math.floor(r0 / TILE)));
+  }, 60_000);
+
   it('refuses, naming the fix, a footprint window too large for full resolution and a whole-DEM hazard map', async () => {
     const h = captureIo();
     expect(await main(['hazard', big, '--out', tmp.path('too-large'), '--study', STUDY, '--extent-m', '5000', '--targets', '5x5', '--target-east-m', String(TARGET[0]), '--target-north-m', String(TARGET[1])], h.io)).toBe(2);
@@ -206,14 +227,14 @@ describe.runIf(gdalAvailable())('a 20 000 × 20 000 tiled DEM (GDAL-made, sparse
 });
 
 describe.runIf(gdalAvailable())('coarse reads: gdaladdo overviews and block averages', () => {
-  const N = 1024;
+  const N = 512;
   const values = Float64Array.from({ length: N * N }, (_, k) => {
     const c = k % N, r = Math.floor(k / N);
     return 800 + 40 * Math.sin(c / 37) * Math.cos(r / 53) + 0.02 * c - 0.01 * r + 5 * Math.sin(c * r / 5000);
   });
   // No-data holes: one 8 × 8 block entirely (a 4 × 4 average cell with no data at all) and single pixels.
-  for (let r = 400; r < 408; r++) for (let c = 400; c < 408; c++) values[r * N + c] = NaN;
-  for (const [r, c] of [[301, 302], [505, 611], [506, 611], [700, 123]]) values[r * N + c] = NaN;
+  for (let r = 200; r < 208; r++) for (let c = 200; c < 208; c++) values[r * N + c] = NaN;
+  for (const [r, c] of [[151, 152], [255, 311], [256, 311], [350, 123]]) values[r * N + c] = NaN;
   const ullr = ['-a_ullr', '0', '100000', String(N * 2), String(100000 - N * 2)];
 
   it('picks the coarsest gdaladdo overview at least as fine as asked; its heights are GDAL\'s reading of that overview', async () => {
@@ -229,7 +250,7 @@ describe.runIf(gdalAvailable())('coarse reads: gdaladdo overviews and block aver
     // GDAL's overview sizes; pixel sizes the full extent over them (GDAL places overviews so).
     expect(levels.map((l) => [l.width, l.height])).toEqual([[N, N], ...ovs]);
     expect(levels.map((l) => l.pixelSizeX_m)).toEqual([2, 4, 8, 16]);
-    const region = { west_m: 300, east_m: 1500, south_m: 100000 - 1700, north_m: 100000 - 400 };
+    const region = { west_m: 300, east_m: 900, south_m: 100000 - 850, north_m: 100000 - 200 };
     for (const [asked, level] of [[5, 1], [9, 2], [16, 3], [100, 3], [3.9, 0]] as const) {
       const { grid, report } = await dem.readRegion({ ...region, resolution: asked });
       expect(report.level, `asked ${asked} m`).toBe(level);
@@ -248,6 +269,31 @@ describe.runIf(gdalAvailable())('coarse reads: gdaladdo overviews and block aver
     }
   }, 60_000);
 
+  it('a geographic DEM: every region read shares the whole file\'s local frame (origin at the image centre), placed as GDAL places the pixels', async () => {
+    const n = 64;
+    const asc = tmp.path('geo.asc');
+    writeAsciiGrid(asc, n, n, values.subarray(0, n * n));
+    const tif = tmp.path('geo.tif');
+    gdal('gdal_translate', ['-q', '-ot', 'Float32', '-a_srs', 'EPSG:4326', '-a_ullr', '10', '20.064', '10.064', '20', '-a_nodata', '-99999', asc, tif]);
+    const dem = await openGeoTiff(new Uint8Array(readFileSync(tif)), { sourceName: 'geo.tif' });
+    const frame = dem.frame.georeference!.localFrame!;
+    expect([frame.originLongitude_deg, frame.originLatitude_deg]).toEqual([10.032, 20.032]);
+    const whole = (await dem.readPixels([0, 0, n, n])).grid;
+    const { grid, report } = await dem.readRegion({ west_m: whole.originEast_m + 500, east_m: whole.originEast_m + 2000, south_m: whole.originNorth_m - 3000, north_m: whole.originNorth_m - 1000 });
+    const [c0, r0] = report.window;
+    // Same frame: the region's cells sit where the whole read's cells do, and carry their heights.
+    expect(grid.georeference!.localFrame!.originLatitude_deg).toBe(20.032);
+    expect(grid.originEast_m).toBeCloseTo(whole.originEast_m + c0 * whole.pixelSizeX_m, 6);
+    expect(grid.originNorth_m).toBeCloseTo(whole.originNorth_m - r0 * whole.pixelSizeY_m, 6);
+    for (let r = 0; r < grid.height; r++) for (let c = 0; c < grid.width; c++) expect(grid.heights[r * grid.width + c]).toBe(whole.heights[(r + r0) * n + c + c0]);
+    // And its longitude/latitude corner is GDAL's (geotransform of the same pixel window, gdal_translate -srcwin).
+    const cut = tmp.path('geo-cut.tif');
+    gdal('gdal_translate', ['-q', '-srcwin', String(c0), String(r0), String(grid.width), String(grid.height), tif, cut]);
+    const gt = gdalinfoJson(cut).geoTransform as number[];
+    expect(grid.georeference!.geoTransform[0]).toBeCloseTo(gt[0], 12);
+    expect(grid.georeference!.geoTransform[3]).toBeCloseTo(gt[3], 12);
+  }, 60_000);
+
   it('without overviews, averages k × k pixels block by block as gdal_translate -outsize -r average does (no-data left out)', async () => {
     const asc = tmp.path('avg.asc');
     writeAsciiGrid(asc, N, N, values);
@@ -256,7 +302,7 @@ describe.runIf(gdalAvailable())('coarse reads: gdaladdo overviews and block aver
     const dem = await openGeoTiff(new Uint8Array(readFileSync(tif)), { sourceName: 'avg.tif' });
     expect((await dem.levels()).length).toBe(1);
     for (const k of [4, 3]) {
-      const { grid, report } = await dem.readRegion({ west_m: 590, east_m: 1900, south_m: 100000 - 1500, north_m: 100000 - 550, resolution: 2 * k });
+      const { grid, report } = await dem.readRegion({ west_m: 300, east_m: 950, south_m: 100000 - 750, north_m: 100000 - 275, resolution: 2 * k });
       expect([report.level, report.decimation, report.method]).toEqual([0, k, 'block average']);
       const [c0, r0, c1, r1] = report.window;
       expect((c1 - c0) % k).toBe(0);
