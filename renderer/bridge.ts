@@ -95,7 +95,7 @@ export function createBrowserBridge(): LandreachBridge {
       const file = await pickFile(TERRAIN_EXTENSIONS.map((e) => `.${e}`).join(','), 'terrain-file-input');
       if (!file) return { status: 'cancelled' };
       if (file.size > MAX_TERRAIN_BYTES) {
-        return { status: 'error', message: `${file.name} is ${(file.size / 1048576).toFixed(1)} MiB, larger than the ${MAX_TERRAIN_BYTES / 1048576} MiB an elevation model may be here. Cut a window of at most 4096 × 4096 cells first.` };
+        return { status: 'error', message: `${file.name} is ${(file.size / 1048576).toFixed(1)} MiB, larger than the ${MAX_TERRAIN_BYTES / 1048576} MiB an elevation model may be here (the app holds the file in memory). Cut a window around the site first (e.g. gdal_translate -projwin), or use the command line, which reads a large DEM a window at a time.` };
       }
       try {
         return { status: 'opened', name: file.name, bytes: new Uint8Array(await file.arrayBuffer()) };

@@ -14,8 +14,8 @@ let queue: Promise<void> = Promise.resolve();
 
 async function handle(job: TerrainJob): Promise<{ result: TerrainJobResult; transfer: Transferable[] }> {
   try {
-    const { grid, format } = await readTerrain(job.bytes, job.name, job.png);
-    const product = terrainProduct(grid, job.name, format, job.limits, job.maxVertices);
+    const { grid, format, shownName } = await readTerrain(job.bytes, job.name, job.png);
+    const product = terrainProduct(grid, shownName, format, job.limits, job.maxVertices);
     return { result: { ok: true, product }, transfer: productTransfer(product) };
   } catch (error) {
     // A file or limit the user can fix comes back as a message; anything else is a bug and fails the job.

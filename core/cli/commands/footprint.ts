@@ -13,7 +13,7 @@ import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
-import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
+import { nominalTargetOnDem, openDem, type Flags } from '../dem.ts';
 import { footprintLonLat, footprintPlace, type FootprintPlace } from '../../footprint/georeferencedFootprint.ts';
 import type { FootprintLonLat } from '../../export/footprintExport.ts';
 import { TerrainInputError } from '../../terrain/grid.ts';
@@ -60,7 +60,8 @@ Options:
                      shapes in the DEM's easting/northing under 'place', its CRS in 'coordRefSys'),
                      footprint-propellant.tif (minimum propellant, kg, Float32, NaN where not
                      established) and footprint-reachable.tif (Byte: 1 reachable with the reserve kept,
-                     0 not, 255 not established), one pixel centred on each target
+                     0 not, 255 not established), one pixel centred on each target. Only the DEM's
+                     header is read, so any size of DEM will do
   --body-radius-m R, --origin-lat-deg A, --origin-lon-deg B
                      with --terrain: as for landreach hazard (geographic DEMs)
 
@@ -176,7 +177,7 @@ function parseArgs(args: string[]): Options {
  * Grid half-width from the reach boundary (max-divert cone programs along 16 directions): 10 % beyond the
  * farthest reach, rounded up to 100 m, so the footprint shows its edge.
  */
-function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): number {
+export function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): number {
   const ctx = footprintContext(study, nodes);
   const solver = new DescentSolver(ctx.setup, landreachConicBackend(), ctx.ignition);
   const boundary = reachBoundary(solver, ctx.ignition, 16, budget_kg, { targetHeight_m: ctx.targetHeight_m });
@@ -190,11 +191,14 @@ function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): 
 /** Reads --terrain, places the nominal target on it and builds the longitude/latitude conversion. */
 async function terrainPlacement(path: string, flags: Flags, body: string): Promise<{ target_m: [number, number]; lonLat: FootprintLonLat; place: FootprintPlace | null }> {
   try {
-    const { grid } = await readDem(path, flags, '--terrain');
-    const [tE, tN] = nominalTargetOnDem(grid, flags);
-    const lonLat = footprintLonLat(grid, [tE, tN], body, `--terrain ${path}`);
+    // Placing the target needs the DEM's frame and CRS only: the GeoTIFF is opened, no heights are read
+    // (a 50k × 50k DEM costs its header and directory).
+    const opened = await openDem(path, flags, '--terrain');
+    await opened.close();
+    const [tE, tN] = nominalTargetOnDem(opened.frame, flags);
+    const lonLat = footprintLonLat(opened.frame, [tE, tN], body, `--terrain ${path}`);
     if (!lonLat) throw new UsageError(`--terrain ${path}: has no georeference (no CRS), so there is no longitude/latitude to write; give a GeoTIFF with a CRS (gdal_translate -a_srs …)`);
-    return { target_m: [tE, tN], lonLat, place: footprintPlace(grid, [tE, tN], `--terrain ${path}`) };
+    return { target_m: [tE, tN], lonLat, place: footprintPlace(opened.frame, [tE, tN], `--terrain ${path}`) };
   } catch (err) {
     if (err instanceof TerrainInputError) throw new UsageError(err.message);
     throw err;
