@@ -245,7 +245,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
  * target at the given DEM coordinates), reachable = minimum propellant ≤ usable − reserve, laid onto the
  * DEM grid (conservatively), intersected with the safe cells, and the best sites ranked.
  */
-async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, flags: Flags, io: CliIo, signal: AbortSignal) {
+export async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, flags: Flags, io: CliIo, signal: AbortSignal) {
   const geom = gridGeometry(grid);
   const centreE = grid.originEast_m + (grid.width * grid.pixelSizeX_m) / 2;
   const centreN = grid.originNorth_m - (grid.height * grid.pixelSizeY_m) / 2;
