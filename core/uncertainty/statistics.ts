@@ -50,7 +50,8 @@ export function wilsonInterval(successes: number, trials: number, confidence = 0
 
 /**
  * Standard normal CDF Φ(x) = erfc(−x/√2)/2, erfc by its Taylor series near 0 and Lentz's continued fraction
- * in the tails (Abramowitz & Stegun 7.1.5 and 7.1.14); relative accuracy about 1e-14.
+ * in the tails (Abramowitz & Stegun 7.1.5 and 7.1.14); relative accuracy about 1e-14 near the centre, and
+ * x²·ε in the far tail (ε = 2.2e-16: the rounding of x itself, which exp(−x²/2) magnifies).
  */
 export function normalCdf(x: number): number {
   if (Number.isNaN(x)) return NaN;
@@ -94,6 +95,8 @@ function erfc(x: number): number {
 /** Standard normal quantile Φ⁻¹(p), 0 < p < 1. */
 export function normalQuantile(p: number): number {
   if (!(p > 0 && p < 1)) throw new RangeError(`probability: ${p} (must be between 0 and 1, exclusive)`);
+  // Upper half by symmetry: 1 − p is exact there (Sterbenz), and the refinement then works on small numbers.
+  if (p > 0.5) return -normalQuantile(1 - p);
   const a = [-3.969683028665376e1, 2.209460984245205e2, -2.759285104469687e2, 1.38357751867269e2, -3.066479806614716e1, 2.506628277459239];
   const b = [-5.447609879822406e1, 1.615858368580409e2, -1.556989798598866e2, 6.680131188771972e1, -1.328068155288572e1];
   const c = [-7.784894002430293e-3, -3.223964580411365e-1, -2.400758277161838, -2.549732539343734, 4.374664141464968, 2.938163982698783];
