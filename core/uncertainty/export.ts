@@ -79,7 +79,10 @@ export function comparisonText(s: LandingSuccessSummary): string {
   return lines.join('\n');
 }
 
-/** Versioned report ("landreach-landing-success" version 1) with its provenance. */
+/**
+ * Versioned report ("landreach-landing-success" version 1) with its provenance. No date or run time in it:
+ * the same inputs give the same bytes for any worker count (those go to the output set's manifest).
+ */
 export function landingSuccessReport(r: {
   inputs: unknown;
   inputsHash: string;
@@ -90,7 +93,6 @@ export function landingSuccessReport(r: {
   hazard: Record<string, unknown>;
   policy: string;
   model: string;
-  createdAt?: string;
 }): string {
   return JSON.stringify(
     {
@@ -98,7 +100,6 @@ export function landingSuccessReport(r: {
       version: 1,
       caution: CAUTION,
       appVersion: APP_VERSION,
-      createdAt: r.createdAt ?? new Date().toISOString(),
       inputsHash: r.inputsHash,
       seed: r.seed,
       randomStreams: 'each sample draws from its own stream keyed by (seed, sample index): mulberry32 seeded through MurmurHash3 fmix32; Box–Muller normals',

@@ -8,8 +8,10 @@
  * one's minimum); there the thrust saturates at the true limit. The engines burn at the true specific impulse:
  * ṁ = −‖T‖/(Isp_true g0 cos φ), the mass flow of the thrust itself, never the relaxation's σ.
  * Dynamics in the rotating surface frame, r̈ = T/m + g − 2ω×ṙ − ω×(ω×r), classical fourth-order Runge–Kutta
- * with the steps aligned on the plan's nodes (the hold is smooth inside a step). With δT = 0 and the plan's
- * Isp this is the model `core/descent/verify.ts` re-simulates independently (tests compare the two).
+ * with the steps aligned on the plan's nodes (the hold is smooth inside a step). Without the engine limits
+ * (`limits: 'none'`) this is the model `core/descent/verify.ts` re-simulates independently (tests compare the
+ * two); with them, a thrust that dips below the minimum between nodes (where ‖u‖ of a turning FOH thrust
+ * sags) is held at the minimum, as an engine would.
  */
 import type { Vec3 } from '../descent/constants.ts';
 import type { DescentSetup } from '../descent/setup.ts';
@@ -67,10 +69,21 @@ export interface FlightState {
  * Integrates the true dynamics from `state.t` to `until_s` (clamped to the plan's end) under the plan's
  * thrust; updates `state` in place. `landingHeight_m`: the landing plane's height (for the lowest height).
  */
-export function flyPlan(setup: DescentSetup, plan: Plan, engine: TrueEngine, state: FlightState, until_s: number, landingHeight_m: number): void {
+export function flyPlan(
+  setup: DescentSetup,
+  plan: Plan,
+  engine: TrueEngine,
+  state: FlightState,
+  until_s: number,
+  landingHeight_m: number,
+  /** 'none': the planned acceleration whatever the engines can do (the model verify.ts re-simulates). */
+  limits: 'engine' | 'none' = 'engine',
+): void {
   const veh = deriveVehicle(setup.vehicle);
   // α scales with 1/Isp: the same thrust burns more propellant at a lower Isp.
   const alpha = (veh.alpha * setup.vehicle.isp) / engine.isp_s;
+  const lowest = veh.rho1 * engine.thrustScale;
+  const highest = veh.fullThrust * engine.thrustScale;
   const g = setup.planet.gravity;
   const [wx, wy, wz] = setup.planet.rotationRate;
   const N = plan.nodes;
@@ -83,7 +96,7 @@ export function flyPlan(setup: DescentSetup, plan: Plan, engine: TrueEngine, sta
     const m = s[6];
     const un = Math.sqrt(ux * ux + uy * uy + uz * uz);
     // The thrust loop delivers m‖u‖ within the TRUE engines' range (1 + δT)·[ρ1, full thrust].
-    const thrust = Math.min(Math.max(m * un, veh.rho1 * engine.thrustScale), veh.fullThrust * engine.thrustScale);
+    const thrust = limits === 'none' ? m * un : Math.min(Math.max(m * un, lowest), highest);
     const a = un > 0 ? thrust / (m * un) : 0;
     const vx = s[3], vy = s[4], vz = s[5];
     const cvx = wy * vz - wz * vy, cvy = wz * vx - wx * vz, cvz = wx * vy - wy * vx;

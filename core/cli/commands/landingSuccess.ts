@@ -203,7 +203,7 @@ export async function runLandingSuccess(args: string[], io: CliIo): Promise<numb
     const hazardInfo = { dem: demPath, format, limits: map.limits, targetOnDem_m: [tE, tN], safeFraction: map.safeFraction, unknownCellsUnsafe: true, nominalTargetClear: isNominalSafe(prepared) };
     const caption = [
       `${study.name} — ${summary.samples}${run.cancelled ? ` of ${inputs.samples} (STOPPED EARLY)` : ''} samples, seed ${inputs.seed}, re-plan every ${inputs.replanInterval_s} s, reserve ${prepared.settings.reserve_kg} kg, N = ${inputs.nodes}`,
-      `Landreach ${APP_VERSION}, ${new Date().toISOString()}, inputs ${hash.slice(0, 16)}; ${(summary.confidence * 100).toFixed(0)} % Wilson score intervals`,
+      `Landreach ${APP_VERSION}, inputs ${hash.slice(0, 16)}; ${(summary.confidence * 100).toFixed(0)} % Wilson score intervals (date and run time: the manifest)`,
     ];
     const files = [
       { path: join(outDir, `${stem}.csv`), text: stopped(landingSamplesCsvLines(run.samples)).join('\n') + '\n' },
