@@ -93,6 +93,8 @@ export function landingSuccessReport(r: {
   hazard: Record<string, unknown>;
   policy: string;
   model: string;
+  /** Trade-curve rows, if any were asked for. */
+  trade?: unknown[];
 }): string {
   return JSON.stringify(
     {
@@ -114,6 +116,7 @@ export function landingSuccessReport(r: {
       sites: r.sites.map(([e, n], k) => ({ rank: k + 1, east_m: e, north_m: n })),
       summary: r.summary,
       comparison: comparisonRows(r.summary),
+      trade: r.trade ?? [],
     },
     (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v),
     1,

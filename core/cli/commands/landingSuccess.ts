@@ -27,6 +27,9 @@ import { LANDING_POLICY, LANDING_MODEL, prepareLandingSuccess, summariseLandingS
 import { flySamplesOnPool } from '../../uncertainty/pooled.ts';
 import type { LandingSamplesJob } from '../../uncertainty/worker.ts';
 import { diagonalCovariance } from '../../uncertainty/covariance.ts';
+import type { HazardLayer } from '../../uncertainty/hazardLayer.ts';
+import { studyAtAltitude } from '../../footprint/studyRuns.ts';
+import type { Study } from '../../study/index.ts';
 
 const DEMO_DEM = fileURLToPath(new URL('../../../assets/demo/terrain/demo-site.tif', import.meta.url));
 /** Illustrative safety margin around hazards for choosing targets, m (about twice the 1σ navigation error). */
@@ -52,6 +55,9 @@ export const LANDING_SUCCESS_USAGE = `landing-success (P(safe touchdown) without
   --replan-interval-s (${DEFAULT_LANDING_SUCCESS.replanInterval_s})  --min-time-to-go-s (${DEFAULT_LANDING_SUCCESS.minTimeToGo_s})  --touchdown-velocity-tolerance-mps (${DEFAULT_LANDING_SUCCESS.touchdownVelocityTolerance_mps})
   --reserve-kg R (default the study's)   --nodes N (${DEFAULT_LANDING_SUCCESS.nodes})   --confidence C (0.95)
   --no-replan            fly the first plan open loop (the re-planning reference)
+  --trade-reserves A,B,… and/or --trade-altitudes A,B,…   trade curves: the study again per reserve (kg) or per
+                         ignition altitude (m; fixed-velocity rule, sites from the study's altitude) with
+                         --trade-samples N samples each (default 200): study-landing-success-trade.csv
   Writes study-landing-success.csv (one row per sample), -comparison.csv (without vs with divert), .json
   (report with inputs, seed, interval method, policy) and .svg (map and table).`;
 
@@ -60,7 +66,8 @@ const VALUE_FLAGS = new Set([
   'sites', 'targets', 'samples', 'seed', 'workers', 'inputs', 'sigma-position-m', 'sigma-velocity-mps', 'nav-sigma-position-m',
   'nav-sigma-velocity-mps', 'sigma-mass-kg', 'sigma-thrust', 'sigma-isp', 'replan-interval-s', 'min-time-to-go-s',
   'touchdown-velocity-tolerance-mps', 'reserve-kg', 'nodes', 'confidence', 'window', 'body-radius-m', 'origin-lat-deg',
-  'origin-lon-deg', 'vertical-scale', 'pixel-size-m', 'height-scale-m', 'height-offset-m',
+  'origin-lon-deg', 'vertical-scale', 'pixel-size-m', 'height-scale-m', 'height-offset-m', 'trade-reserves', 'trade-altitudes',
+  'trade-samples',
 ]);
 
 function parseArgs(args: string[]): { positional: string[]; flags: Flags } {
@@ -158,7 +165,7 @@ export async function runLandingSuccess(args: string[], io: CliIo): Promise<numb
   const layer = hazardLayer(grid, map, [tE, tN], ground.jacobian);
   const outDir = resolve(flags.out);
   const stem = 'study-landing-success';
-  const names = ['.csv', '-comparison.csv', '.json', '.svg'].map((x) => stem + x);
+  const names = ['.csv', '-comparison.csv', '-trade.csv', '.json', '.svg'].map((x) => stem + x);
   const removed = removeOrphanTemporaries(outDir, [...names, manifestName(stem)]);
   if (removed.length) io.stderr(`removed ${removed.length} temporary file(s) left in ${outDir} by an interrupted run: ${removed.join(', ')}\n`);
   const hashed = { study, inputs, dem: { path: demPath, format, width: grid.width, height: grid.height }, limits: map.limits, target_m: [tE, tN], replan: flags['no-replan'] !== true, sites: inputs.sites };
@@ -198,6 +205,7 @@ export async function runLandingSuccess(args: string[], io: CliIo): Promise<numb
     }
     if (io.interactive) io.stderr('\n');
     const summary = summariseLandingSuccess(prepared, run.samples, isNominalSafe(prepared));
+    const trade = run.cancelled ? { rows: [], cancelled: false } : await tradeCurves(flags, study, given, layer, sites, hash, workers, io, stop.signal);
     mkdirSync(outDir, { recursive: true });
     const stopped = (lines: string[]) => (run.cancelled ? [lines[0], `# STOPPED EARLY: ${run.samples.length} of ${inputs.samples} samples finished`, ...lines.slice(1)] : lines);
     const hazardInfo = { dem: demPath, format, limits: map.limits, targetOnDem_m: [tE, tN], safeFraction: map.safeFraction, unknownCellsUnsafe: true, nominalTargetClear: isNominalSafe(prepared) };
@@ -206,15 +214,16 @@ export async function runLandingSuccess(args: string[], io: CliIo): Promise<numb
       `Landreach ${APP_VERSION}, inputs ${hash.slice(0, 16)}; ${(summary.confidence * 100).toFixed(0)} % Wilson score intervals (date and run time: the manifest)`,
     ];
     const files = [
+      ...(trade.rows.length ? [{ path: join(outDir, `${stem}-trade.csv`), text: tradeCsv(trade.rows, trade.cancelled) }] : []),
       { path: join(outDir, `${stem}.csv`), text: stopped(landingSamplesCsvLines(run.samples)).join('\n') + '\n' },
       { path: join(outDir, `${stem}-comparison.csv`), text: stopped(comparisonCsvLines(summary)).join('\n') + '\n' },
-      { path: join(outDir, `${stem}.json`), text: landingSuccessReport({ inputs: { ...hashed, inputs }, inputsHash: hash, seed: inputs.seed, cancelled: run.cancelled, summary, sites, hazard: hazardInfo, policy: LANDING_POLICY, model: LANDING_MODEL }) },
+      { path: join(outDir, `${stem}.json`), text: landingSuccessReport({ inputs: { ...hashed, inputs }, inputsHash: hash, seed: inputs.seed, cancelled: run.cancelled, summary, sites, hazard: hazardInfo, policy: LANDING_POLICY, model: LANDING_MODEL, trade: trade.rows }) },
       { path: join(outDir, `${stem}.svg`), text: landingSuccessSvg(layer, run.samples, summary, sites, caption) },
     ];
     const manifest = writeOutputSet(files, {
       name: manifestName(stem),
       run: {
-        status: run.cancelled ? 'stopped-early' : 'complete',
+        status: run.cancelled || trade.cancelled ? 'stopped-early' : 'complete',
         stoppedBy: stop.signalName,
         command: 'study landing-success',
         inputsHash: hash,
@@ -230,4 +239,88 @@ export async function runLandingSuccess(args: string[], io: CliIo): Promise<numb
   } finally {
     stop.dispose();
   }
+}
+
+export interface TradeRow {
+  variable: 'reserve_kg' | 'ignition_altitude_m';
+  value: number;
+  samples: number;
+  pSafeWithoutDivert: number;
+  pSafeWithDivert: number;
+  lower: number;
+  upper: number;
+  propellantP99_kg: number;
+  noSafeSite: number;
+}
+
+/** The trade curves: the same study again per reserve and per ignition altitude, `--trade-samples` each. */
+async function tradeCurves(
+  flags: Flags, study: Study, given: Partial<LandingSuccessInputs>, layer: HazardLayer, sites: [number, number][], hash: string, workers: number, io: CliIo, signal: AbortSignal,
+): Promise<{ rows: TradeRow[]; cancelled: boolean }> {
+  const list = (name: string) => {
+    const t = flags[name];
+    if (typeof t !== 'string') return [];
+    const v = t.split(',').map((x) => Number(x.trim()));
+    if (!v.length || !v.every((x) => Number.isFinite(x) && x >= 0)) throw new UsageError(`--${name} ${t}: must be numbers ≥ 0 separated by commas`);
+    return v;
+  };
+  const reserves = list('trade-reserves');
+  const altitudes = list('trade-altitudes');
+  if (!reserves.length && !altitudes.length) {
+    if (flags['trade-samples'] !== undefined) throw new UsageError('--trade-samples only applies with --trade-reserves or --trade-altitudes');
+    return { rows: [], cancelled: false };
+  }
+  const samples = num(flags, 'trade-samples') ?? 200;
+  if (!Number.isInteger(samples) || samples < 10 || samples > 100000) throw new UsageError(`--trade-samples ${samples}: must be a whole number from 10 to 100000`);
+  const cases: { variable: TradeRow['variable']; value: number; study: Study; inputs: Partial<LandingSuccessInputs> }[] = [
+    ...reserves.map((r) => ({ variable: 'reserve_kg' as const, value: r, study, inputs: { ...given, samples, reserve_kg: r } })),
+    ...altitudes.map((h) => {
+      try {
+        return { variable: 'ignition_altitude_m' as const, value: h, study: studyAtAltitude(study, h, { kind: 'fixed-velocity' }), inputs: { ...given, samples } };
+      } catch (err) {
+        throw new UsageError(`--trade-altitudes ${h}: ${(err as Error).message}`);
+      }
+    }),
+  ];
+  const rows: TradeRow[] = [];
+  const pool = new JobPool<LandingSamplesJob, LandingSample[]>(nodeWorkerFactory(new URL('../../uncertainty/nodeWorker.mjs', import.meta.url)), workers);
+  try {
+    for (const [k, c] of cases.entries()) {
+      io.stderr(`trade ${k + 1} of ${cases.length}: ${c.variable} = ${c.value}\n`);
+      let prepared;
+      try {
+        prepared = prepareLandingSuccess(c.study, c.inputs, layer, sites);
+      } catch (err) {
+        throw new UsageError(`trade ${c.variable} = ${c.value}: ${(err as Error).message}`);
+      }
+      const run = await flySamplesOnPool(pool, { runId: `${hash}-trade-${k}`, study: c.study, inputs: c.inputs, hazard: layer, sites, replan: true }, samples, { signal });
+      const s = summariseLandingSuccess(prepared, run.samples, isNominalSafe(prepared));
+      rows.push({
+        variable: c.variable,
+        value: c.value,
+        samples: run.samples.length,
+        pSafeWithoutDivert: s.withoutDivert.safeTouchdown.estimate,
+        pSafeWithDivert: s.withDivert.safeTouchdown.estimate,
+        lower: s.withDivert.safeTouchdown.lower,
+        upper: s.withDivert.safeTouchdown.upper,
+        propellantP99_kg: s.withDivert.propellant.p99_kg,
+        noSafeSite: s.withDivert.noSafeReachableSite.estimate,
+      });
+      if (run.cancelled) return { rows, cancelled: true };
+    }
+  } finally {
+    pool.close();
+  }
+  return { rows, cancelled: false };
+}
+
+function tradeCsv(rows: readonly TradeRow[], cancelled: boolean): string {
+  const f = (v: number, d: number) => (Number.isFinite(v) ? Number(v.toFixed(d)).toString() : '');
+  return [
+    `# ${CAUTION}`,
+    ...(cancelled ? ['# STOPPED EARLY: the trade curves were stopped before they finished'] : []),
+    '# P(safe touchdown) with divert: Wilson score interval (95 % unless --confidence)',
+    'variable,value,samples,p_safe_without_divert,p_safe_with_divert,ci_lower,ci_upper,propellant_p99_kg,no_safe_site_share',
+    ...rows.map((r) => [r.variable, r.value, r.samples, f(r.pSafeWithoutDivert, 5), f(r.pSafeWithDivert, 5), f(r.lower, 5), f(r.upper, 5), f(r.propellantP99_kg, 3), f(r.noSafeSite, 5)].join(',')),
+  ].join('\n') + '\n';
 }
