@@ -17,7 +17,8 @@ import { studyReach } from './hazard.ts';
 import { nodeWorkerFactory } from '../../parallel/nodeWorker.ts';
 import { JobPool } from '../../parallel/pool.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { groundFrameOnDem, hazardMap, type HazardLimits } from '../../terrain/index.ts';
+import { cellEast, cellNorth, groundFrameOnDem, hazardMap, type HazardLimits } from '../../terrain/index.ts';
+import { rankSites } from '../../terrain/sites.ts';
 import type { LandingSample } from '../../uncertainty/closedLoop.ts';
 import { comparisonCsvLines, comparisonText, landingSamplesCsvLines, landingSuccessReport, landingSuccessSvg } from '../../uncertainty/export.ts';
 import { hazardLayer } from '../../uncertainty/hazardLayer.ts';
@@ -32,8 +33,12 @@ import { studyAtAltitude } from '../../footprint/studyRuns.ts';
 import type { Study } from '../../study/index.ts';
 
 const DEMO_DEM = fileURLToPath(new URL('../../../assets/demo/terrain/demo-site.tif', import.meta.url));
-/** Illustrative safety margin around hazards for choosing targets, m (about twice the 1σ navigation error). */
-export const DEFAULT_TARGET_MARGIN_M = 10;
+/**
+ * Illustrative safety margin around hazards for choosing targets, m: the horizontal touchdown miss left by a
+ * 5 m-per-axis navigation error at the last plan is Rayleigh, P99 = 5·√(−2 ln 0.01) ≈ 15 m; 20 m covers it
+ * with room for the flight's own errors.
+ */
+export const DEFAULT_TARGET_MARGIN_M = 20;
 
 export const LANDING_SUCCESS_USAGE = `landing-success (P(safe touchdown) without and with divert; defaults ILLUSTRATIVE, not from any mission):
   --dem DEM.tif          elevation model for the hazard map (default: the bundled invented demo DEM);
@@ -41,8 +46,9 @@ export const LANDING_SUCCESS_USAGE = `landing-success (P(safe touchdown) without
   --target-east-m E, --target-north-m N   the nominal target on the DEM (default its centre)
   --max-slope-deg, --max-roughness-m, --lander-diameter-m, --roughness max|rms   hazard limits (as landreach hazard)
   --margin-m M           targets keep this distance from hazards, m (default ${DEFAULT_TARGET_MARGIN_M})
-  --sites K              ranked safe sites the policy may divert to (default ${DEFAULT_LANDING_SUCCESS.sites}); from a
-                         footprint over the DEM (--targets NXxNY, default 21x21)
+  --sites K              ranked safe sites the policy may divert to (default ${DEFAULT_LANDING_SUCCESS.sites}): safe cells
+                         outside the margin, reachable with the reserve kept by the study's footprint over the DEM
+                         (--targets NXxNY, default 21x21), nearest the nominal target first
   --samples N (default ${DEFAULT_LANDING_SUCCESS.samples})   --seed S (default ${DEFAULT_LANDING_SUCCESS.seed})   --workers W
   --inputs FILE.json     any inputs of the study as JSON (full 3 × 3 covariances: ignitionPositionCovariance_m2,
                          ignitionVelocityCovariance_m2ps2, navPositionCovariance_m2, navVelocityCovariance_m2ps2;
@@ -178,7 +184,14 @@ export async function runLandingSuccess(args: string[], io: CliIo): Promise<numb
     if (inputs.sites > 0) {
       io.stderr(`ranking safe sites: the study's footprint over the DEM (${demPath})\n`);
       const reach = await studyReach(study, grid, map, { ...flags, sites: String(inputs.sites), workers: String(workers) }, io, stop.signal);
-      sites = reach.sites.map((s) => [s.east_m, s.north_m]);
+      // Divert sites nearest the nominal target first: the least divert, and the farthest from the DEM's
+      // unknown edges (rankSites on the safe reachable cells, with the distance as its cost).
+      const distance = new Float32Array(grid.width * grid.height);
+      for (let r = 0; r < grid.height; r++) {
+        for (let c = 0; c < grid.width; c++) distance[r * grid.width + c] = Math.hypot(cellEast(grid, c) - tE, cellNorth(grid, r) - tN);
+      }
+      sites = rankSites(grid, map, { width: grid.width, height: grid.height, reachable: reach.safe.mask, propellant_kg: distance }, { count: inputs.sites })
+        .map((site) => ground.fromDem(site.east_m, site.north_m));
     }
     let prepared;
     try {
