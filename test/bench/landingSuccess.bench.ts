@@ -25,7 +25,7 @@ const DEM = fileURLToPath(new URL('../../assets/demo/terrain/demo-site.tif', imp
 export async function benchLandingSuccess(samples = 1000, workers = 2): Promise<BenchResult[]> {
   const study = parseStudyText(readFileSync(DEMO, 'utf8'));
   const grid = await readGeoTiff(new Uint8Array(readFileSync(DEM)), { sourceName: 'demo-site.tif' });
-  const map = hazardMap(grid, { safetyMargin_m: 10 });
+  const map = hazardMap(grid, { safetyMargin_m: 20 }); // the CLI's default target margin (DEFAULT_TARGET_MARGIN_M)
   const centre: [number, number] = [grid.originEast_m + (grid.width * grid.pixelSizeX_m) / 2, grid.originNorth_m - (grid.height * grid.pixelSizeY_m) / 2];
   const layer = hazardLayer(grid, map, centre);
   const inputs = { samples, seed: 1 };
