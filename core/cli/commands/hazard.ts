@@ -317,7 +317,7 @@ async function hazardGrid(opened: OpenedDem, study: Study | null, flags: Flags, 
  * target at the given DEM coordinates), reachable = minimum propellant ≤ usable − reserve, laid onto the
  * DEM grid (conservatively), intersected with the safe cells, and the best sites ranked.
  */
-async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, flags: Flags, io: CliIo, signal: AbortSignal, target_m: [number, number], extent_m: number | null) {
+export async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, flags: Flags, io: CliIo, signal: AbortSignal, target_m: [number, number], extent_m: number | null) {
   const geom = gridGeometry(grid);
   const [tE, tN] = target_m;
   const [nx, ny] = targetCounts(flags);
