@@ -19,11 +19,7 @@ import { polynomialGuidance } from '../../descent/baselines/polynomial.ts';
 import { gravityTurn } from '../../descent/baselines/gravityTurn.ts';
 import type { Vec3 } from '../../descent/constants.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
-import { sampleBilinear, TerrainInputError } from '../../terrain/grid.ts';
-import { checkTerrainClearance } from '../../terrain/sites.ts';
-import { groundFrameOnDem } from '../../terrain/groundFrame.ts';
-import type { DecodedTrajectory } from '../../descent/trajectory.ts';
+import type { Flags } from '../dem.ts';
 
 export interface BaselineFigures {
   polynomial: { propellant_kg: number | null; tf_s: number | null; miss_m: number | null; velocity_error_mps: number | null; saturated_fraction: number | null };
@@ -225,46 +221,6 @@ function summary(r: DescentResult, refine: { nodes: number; propellant: number }
 /** Reader flags `trajectory --terrain` passes on (the footprint command's names). */
 const DEM_READER_FLAGS = ['--window', '--body-radius-m', '--origin-lat-deg', '--origin-lon-deg', '--vertical-scale', '--pixel-size-m', '--height-scale-m', '--height-offset-m'];
 
-interface ClearanceFigures {
-  dem: string;
-  clearance_m: number;
-  minClearance_m: number;
-  nodeViolations: number;
-  segmentViolations: number;
-  unknown: number;
-  ok: boolean;
-}
-
-/**
- * Clearance of the trajectory above the terrain (core/terrain checkTerrainClearance): the study frame's
- * origin is the nominal target, placed on the DEM (its centre unless given) through the same ground frame as
- * the footprint's, and heights are relative to the terrain there. The final node sits on the ground by
- * construction and is not checked.
- */
-async function terrainClearance(path: string, flags: Flags, clearance_m: number, traj: DecodedTrajectory): Promise<ClearanceFigures> {
-  try {
-    const { grid } = await readDem(path, flags);
-    const [tE, tN] = nominalTargetOnDem(grid, flags);
-    const ground = sampleBilinear(grid, tE, tN);
-    if (!Number.isFinite(ground)) {
-      throw new UsageError(`--target-east-m ${tE}, --target-north-m ${tN}: no terrain height at the nominal target on ${path} (outside the DEM or no-data); give a point on it`);
-    }
-    const frame = groundFrameOnDem(grid.georeference, [tE, tN], `--terrain ${path}`);
-    const s = traj.series;
-    const nodes = Array.from(s.t, (_, k) => {
-      const [e, n] = frame.toDem(s.x[k], s.y[k]);
-      return { east_m: e, north_m: n, up_m: ground + s.z[k] };
-    });
-    const rep = checkTerrainClearance(grid, nodes, clearance_m, 1);
-    return {
-      dem: path, clearance_m, minClearance_m: rep.minClearance_m, nodeViolations: rep.violations.length,
-      segmentViolations: rep.segmentViolations.length, unknown: rep.unknown.length, ok: rep.ok,
-    };
-  } catch (err) {
-    if (err instanceof TerrainInputError) throw new UsageError(err.message);
-    throw err;
-  }
-}
 
 export const trajectoryCommand: CliCommand = {
   name: 'trajectory',
@@ -310,7 +266,8 @@ export const trajectoryCommand: CliCommand = {
         gravity_turn: { propellant_kg: round(g.propellant), tf_s: round(g.timeOfFlight), landing_m: g.landing.map((v) => round(v) ?? NaN), touchdown_speed_mps: round(g.touchdownSpeed), out_of_propellant: g.outOfPropellant },
       };
     }
-    const clearance = o.terrain && r.trajectory ? await terrainClearance(o.terrain, o.demFlags, o.clearance_m, r.trajectory) : null;
+    // Loaded only with --terrain: the DEM readers and projections are most of the command line's code.
+    const clearance = o.terrain && r.trajectory ? await (await import('../terrainClearance.ts')).terrainClearance(o.terrain, o.demFlags, o.clearance_m, r.trajectory) : null;
     if (clearance && !clearance.ok) {
       r.warnings.push(clearance.unknown > 0 && clearance.nodeViolations === 0 && clearance.segmentViolations === 0
         ? `terrain clearance unknown at ${clearance.unknown} node(s) (off the DEM or over no-data)`
