@@ -18,7 +18,7 @@
 //
 //   node bin/build-cli.mjs [--outdir DIR]
 import { mkdir, readFile, rename, rm, writeFile } from 'node:fs/promises';
-import { relative, resolve } from 'node:path';
+import { dirname, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const ROOT = fileURLToPath(new URL('..', import.meta.url));
@@ -28,6 +28,28 @@ export const CLI_BUNDLES = [
   { entry: 'core/cli/entry.ts', output: 'cli/entry.mjs' },
   { entry: 'core/footprint/nodeWorkerEntry.ts', output: 'footprint/nodeWorker.mjs' },
 ];
+
+/**
+ * zod's namespace re-exports every locale (`z.locales`, `z.core.locales`: 260 kB of the 580 kB the trajectory command loads);
+ * the project uses none (zod's default English messages come from its own import of `locales/en.js`), so
+ * in the bundle `z.locales` holds English only. test/unit/cli/compiled-cli.test.ts compares a refused
+ * study's messages with the sources'.
+ */
+const zodEnglishOnly = {
+  name: 'zod-english-only',
+  setup(build) {
+    build.onResolve({ filter: /^\.\.\/locales\/index\.js$/ }, (args) => {
+      // Both re-export them: the classic namespace (z.locales) and zod's core (z.core.locales).
+      if (!/[\\/]zod[\\/]v4[\\/](classic[\\/]external|core[\\/]index)\.js$/.test(args.importer)) return undefined;
+      return { path: resolve(args.resolveDir, '../locales/en.js'), namespace: 'zod-english-only' };
+    });
+    build.onLoad({ filter: /.*/, namespace: 'zod-english-only' }, (args) => ({
+      contents: "export { default as en } from './en.js';",
+      resolveDir: dirname(args.path),
+      loader: 'js',
+    }));
+  },
+};
 
 /** The worker file the compiled command line starts, relative to its own file (see the layout above). */
 const WORKER_URL_IN_SOURCE = "new URL('../footprint/nodeWorker.mjs', import.meta.url)";
@@ -66,6 +88,7 @@ export async function buildCli(outdir = 'dist-cli') {
     sourcemap: 'linked',
     metafile: true,
     logLevel: 'warning',
+    plugins: [zodEnglishOnly],
   });
   const inputs = Object.keys(result.metafile.inputs);
   const cliSource = await readFile(resolve(ROOT, 'core/cli/footprintRun.ts'), 'utf8');

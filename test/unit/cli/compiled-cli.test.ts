@@ -89,6 +89,20 @@ describe('the compiled command line gives the same bits as the TypeScript source
     expect(out.compiled).toBe(out.sources);
   }, 240_000);
 
+  it('a refused study: the same exit code and messages (the schema library runs from the bundle)', () => {
+    const study = JSON.parse(readFileSync(DEMO_STUDY_PATH, 'utf8')) as { vehicle: Record<string, unknown> };
+    study.vehicle.dryMass_kg = 'heavy';
+    study.vehicle.unknownField = 1;
+    const bad = join(scratch, 'bad.study.json');
+    writeFileSync(bad, JSON.stringify(study));
+    const compiled = landreach(['trajectory', bad], 'compiled');
+    const sources = landreach(['trajectory', bad], 'sources');
+    expect(compiled.code).toBe(2);
+    expect(compiled.stderr).toMatch(/dryMass_kg/);
+    expect(compiled.stderr).toBe(sources.stderr);
+    expect(compiled.code).toBe(sources.code);
+  }, 240_000);
+
   it('footprint with two worker threads: the same result files', () => {
     const names = ['footprint.csv', 'footprint.geojson', 'footprint.json', 'footprint.svg'];
     const bytes: Record<string, Buffer[]> = {};
