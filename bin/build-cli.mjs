@@ -97,7 +97,9 @@ export async function buildCli(outdir = 'dist-cli') {
   }
   // esbuild names inputs relative to its working directory; store the project's own relative to its root.
   // Library packages are left out: they change only through npm ci / npm install, which rebuild (prepare).
-  const files = inputs.filter((p) => !p.includes('node_modules/')).map((p) => relative(ROOT, resolve(process.cwd(), p)).split('\\').join('/')).sort();
+  // This script counts as a source too: a build made by an older version of it is stale.
+  const own = relative(ROOT, fileURLToPath(import.meta.url)).split('\\').join('/');
+  const files = [...inputs.filter((p) => !p.includes('node_modules/')).map((p) => relative(ROOT, resolve(process.cwd(), p)).split('\\').join('/')), own].sort();
   const info = { builtAt_ms, bundles: CLI_BUNDLES, inputs: files };
   await writeFile(resolve(staging, 'build-info.json'), JSON.stringify(info, null, 2) + '\n');
   await mkdir(resolve(target, '..'), { recursive: true });

@@ -6,7 +6,8 @@
  * Then how bin/landreach.mjs chooses: the build when it is present and current, else the sources with a
  * warning naming `npm run build:cli`. Nothing here is timed.
  *
- * The build goes to a scratch project folder (bin/ copied, core/ and node_modules/ linked), so the
+ * The build goes to a scratch project folder (bin/landreach.mjs and bin/build-cli.mjs copied, core/,
+ * assets/ and node_modules/ linked), so the
  * repository's own dist-cli/ is neither needed nor touched.
  */
 import { spawnSync } from 'node:child_process';
@@ -29,10 +30,12 @@ afterAll(() => rmSync(scratch, { recursive: true, force: true }));
 beforeAll(async () => {
   mkdirSync(join(project, 'bin'), { recursive: true });
   copyFileSync(join(ROOT, 'bin/landreach.mjs'), BIN);
+  copyFileSync(join(ROOT, 'bin/build-cli.mjs'), join(project, 'bin/build-cli.mjs'));
   symlinkSync(join(ROOT, 'core'), join(project, 'core'));
   symlinkSync(join(ROOT, 'node_modules'), join(project, 'node_modules'));
   symlinkSync(join(ROOT, 'assets'), join(project, 'assets'));
-}, 60_000);
+  await buildCli(join(project, 'dist-cli'));
+}, 120_000);
 
 interface Run {
   code: number | null;
@@ -57,10 +60,6 @@ function reportWithoutDate(path: string): string {
 }
 
 describe('the compiled command line gives the same bits as the TypeScript sources', () => {
-  beforeAll(async () => {
-    await buildCli(join(project, 'dist-cli'));
-  }, 120_000);
-
   it('demo trajectory: JSON (every float as written), CSV and summary', () => {
     const files: Record<string, { json: string; csv: string; stdout: string }> = {};
     for (const mode of ['compiled', 'sources'] as const) {
@@ -133,7 +132,7 @@ describe('bin/landreach.mjs runs the build only when it is current', () => {
       const r = landreach(['--version'], 'auto');
       expect(r.code, r.stderr).toBe(0);
       expect(r.stdout).toMatch(/^landreach /);
-      expect(r.stderr).toMatch(/warning: the compiled command line \(dist-cli\/\) is older than core\/cli\/\S+\.ts; running the TypeScript sources through tsx.*npm run build:cli/);
+      expect(r.stderr).toMatch(/warning: the compiled command line \(dist-cli\/\) is older than (bin|core)\/\S+; running the TypeScript sources through tsx.*npm run build:cli/);
     } finally {
       writeFileSync(info(), saved);
     }
