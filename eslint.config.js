@@ -3,7 +3,7 @@ import tseslint from 'typescript-eslint';
 import globals from 'globals';
 
 export default tseslint.config(
-  { ignores: ['node_modules/', 'dist/', 'dist-electron/', 'release/', 'coverage/', '**/*.svelte', 'core/linalg/wasm/assembly/', 'core/conic/wasm/assembly/'] },
+  { ignores: ['node_modules/', '.bench-venv/', 'test-artifacts/', 'dist/', 'dist-cli/', 'dist-electron/', 'release/', 'coverage/', '**/*.svelte', 'core/linalg/wasm/assembly/', 'core/conic/wasm/assembly/'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

@@ -7,7 +7,6 @@
 import { mkdirSync, readFileSync } from 'node:fs';
 import os from 'node:os';
 import { join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import type { CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { num, readDem, type Flags } from '../dem.ts';
@@ -16,25 +15,21 @@ import { StopRequest } from '../stop.ts';
 import { studyReach } from './hazard.ts';
 import { autoExtent } from './footprint.ts';
 import { FOOTPRINT_NODES } from '../../footprint/studyFootprint.ts';
-import { nodeWorkerFactory } from '../../parallel/nodeWorker.ts';
-import { JobPool } from '../../parallel/pool.ts';
+import { DEMO_DEM, landingSuccessPool } from '../landingSuccessPool.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
 import { cellEast, cellNorth, groundFrameOnDem, hazardMap, type HazardLimits } from '../../terrain/index.ts';
 import { rankSites } from '../../terrain/sites.ts';
-import type { LandingSample } from '../../uncertainty/closedLoop.ts';
 import { comparisonCsvLines, comparisonText, landingSamplesCsvLines, landingSuccessReport, landingSuccessSvg } from '../../uncertainty/export.ts';
 import { hazardLayer } from '../../uncertainty/hazardLayer.ts';
 import { UncertaintyInputError } from '../../uncertainty/inputError.ts';
 import { DEFAULT_LANDING_SUCCESS, resolveLandingSuccessInputs, type LandingSuccessInputs } from '../../uncertainty/inputs.ts';
 import { LANDING_POLICY, LANDING_MODEL, prepareLandingSuccess, summariseLandingSuccess, isNominalSafe } from '../../uncertainty/landingSuccess.ts';
 import { flySamplesOnPool } from '../../uncertainty/pooled.ts';
-import type { LandingSamplesJob } from '../../uncertainty/worker.ts';
 import { diagonalCovariance } from '../../uncertainty/covariance.ts';
 import type { HazardLayer } from '../../uncertainty/hazardLayer.ts';
 import { studyAtAltitude } from '../../footprint/studyRuns.ts';
 import type { Study } from '../../study/index.ts';
 
-const DEMO_DEM = fileURLToPath(new URL('../../../assets/demo/terrain/demo-site.tif', import.meta.url));
 /**
  * Illustrative safety margin around hazards for choosing targets, m: the horizontal touchdown miss left by a
  * 5 m-per-axis navigation error at the last plan is Rayleigh, P99 = 5·√(−2 ln 0.01) ≈ 15 m; 20 m covers it
@@ -207,7 +202,7 @@ export async function runLandingSuccess(args: string[], io: CliIo): Promise<numb
       throw new UsageError((err as Error).message);
     }
     io.stderr(`nominal: ${prepared.nominal.propellant_kg.toFixed(2)} kg in ${prepared.nominal.timeOfFlight_s.toFixed(1)} s; nominal target ${isNominalSafe(prepared) ? 'clear of hazards' : 'ON OR NEAR A HAZARD'}; ${sites.length} ranked safe sites\n`);
-    const pool = new JobPool<LandingSamplesJob, LandingSample[]>(nodeWorkerFactory(new URL('../../uncertainty/nodeWorker.mjs', import.meta.url)), workers);
+    const pool = landingSuccessPool(workers);
     let run;
     let lastPrint = 0;
     try {
@@ -303,7 +298,7 @@ async function tradeCurves(
     }),
   ];
   const rows: TradeRow[] = [];
-  const pool = new JobPool<LandingSamplesJob, LandingSample[]>(nodeWorkerFactory(new URL('../../uncertainty/nodeWorker.mjs', import.meta.url)), workers);
+  const pool = landingSuccessPool(workers);
   try {
     for (const [k, c] of cases.entries()) {
       io.stderr(`trade ${k + 1} of ${cases.length}: ${c.variable} = ${c.value}\n`);

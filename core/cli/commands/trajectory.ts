@@ -19,12 +19,7 @@ import { polynomialGuidance } from '../../descent/baselines/polynomial.ts';
 import { gravityTurn } from '../../descent/baselines/gravityTurn.ts';
 import type { Vec3 } from '../../descent/constants.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { demReadLine, nominalTargetOnDem, openDem, type Flags } from '../dem.ts';
-import { sampleBilinear, TerrainInputError, type ElevationGrid } from '../../terrain/grid.ts';
-import { groundRegionOnDem } from '../../terrain/dem-region.ts';
-import { checkTerrainClearance } from '../../terrain/sites.ts';
-import { groundFrameOnDem } from '../../terrain/groundFrame.ts';
-import type { DecodedTrajectory } from '../../descent/trajectory.ts';
+import type { Flags } from '../dem.ts';
 
 export interface BaselineFigures {
   polynomial: { propellant_kg: number | null; tf_s: number | null; miss_m: number | null; velocity_error_mps: number | null; saturated_fraction: number | null };
@@ -228,63 +223,6 @@ function summary(r: DescentResult, refine: { nodes: number; propellant: number }
 /** Reader flags `trajectory --terrain` passes on (the footprint command's names). */
 const DEM_READER_FLAGS = ['--window', '--body-radius-m', '--origin-lat-deg', '--origin-lon-deg', '--vertical-scale', '--pixel-size-m', '--height-scale-m', '--height-offset-m'];
 
-interface ClearanceFigures {
-  dem: string;
-  clearance_m: number;
-  minClearance_m: number;
-  nodeViolations: number;
-  segmentViolations: number;
-  unknown: number;
-  ok: boolean;
-}
-
-/**
- * Clearance of the trajectory above the terrain (core/terrain checkTerrainClearance): the study frame's
- * origin is the nominal target, placed on the DEM (its centre unless given) through the same ground frame as
- * the footprint's, and heights are relative to the terrain there. The final node sits on the ground by
- * construction and is not checked.
- */
-async function terrainClearance(path: string, flags: Flags, clearance_m: number, traj: DecodedTrajectory, io: CliIo): Promise<ClearanceFigures> {
-  try {
-    const opened = await openDem(path, flags);
-    const [tE, tN] = nominalTargetOnDem(opened.frame, flags);
-    const frame = groundFrameOnDem(opened.frame.georeference, [tE, tN], `--terrain ${path}`);
-    const s = traj.series;
-    let grid: ElevationGrid;
-    try {
-      // Only the window under the ground track (ignition to target) is read, plus two pixels for the
-      // bilinear samples: at full resolution when it fits MAX_GRID_CELLS, else at the finest resolution that
-      // fits (an overview, else block averages, which smooth peaks narrower than a cell: said on stderr).
-      if (opened.dem) {
-        const track = Array.from(s.t, (_, k) => [s.x[k], s.y[k]] as const);
-        const margin = 2 * Math.max(opened.frame.pixelSizeX_m, opened.frame.pixelSizeY_m);
-        const region = groundRegionOnDem(frame, { west_m: 0, east_m: 0, south_m: 0, north_m: 0 }, margin, track);
-        const read = await opened.dem.readRegion({ ...region, resolution: 'fit', what: 'the trajectory\'s ground track' });
-        io.stderr(demReadLine(opened.name, read.report, read.grid));
-        if (read.report.decimation > 1 || read.report.overview) io.stderr(`note: the terrain under the track is at ${read.grid.pixelSizeX_m.toPrecision(4)} m cells (averages), not the DEM's ${opened.frame.pixelSizeX_m.toPrecision(4)} m: peaks narrower than a cell are smoothed in the clearance check\n`);
-        grid = read.grid;
-      } else grid = opened.grid!;
-    } finally {
-      await opened.close();
-    }
-    const ground = sampleBilinear(grid, tE, tN);
-    if (!Number.isFinite(ground)) {
-      throw new UsageError(`--target-east-m ${tE}, --target-north-m ${tN}: no terrain height at the nominal target on ${path} (outside the DEM or no-data); give a point on it`);
-    }
-    const nodes = Array.from(s.t, (_, k) => {
-      const [e, n] = frame.toDem(s.x[k], s.y[k]);
-      return { east_m: e, north_m: n, up_m: ground + s.z[k] };
-    });
-    const rep = checkTerrainClearance(grid, nodes, clearance_m, 1);
-    return {
-      dem: path, clearance_m, minClearance_m: rep.minClearance_m, nodeViolations: rep.violations.length,
-      segmentViolations: rep.segmentViolations.length, unknown: rep.unknown.length, ok: rep.ok,
-    };
-  } catch (err) {
-    if (err instanceof TerrainInputError) throw new UsageError(err.message);
-    throw err;
-  }
-}
 
 export const trajectoryCommand: CliCommand = {
   name: 'trajectory',
@@ -330,7 +268,8 @@ export const trajectoryCommand: CliCommand = {
         gravity_turn: { propellant_kg: round(g.propellant), tf_s: round(g.timeOfFlight), landing_m: g.landing.map((v) => round(v) ?? NaN), touchdown_speed_mps: round(g.touchdownSpeed), out_of_propellant: g.outOfPropellant },
       };
     }
-    const clearance = o.terrain && r.trajectory ? await terrainClearance(o.terrain, o.demFlags, o.clearance_m, r.trajectory, io) : null;
+    // Loaded only with --terrain: the DEM readers and projections are most of the command line's code.
+    const clearance = o.terrain && r.trajectory ? await (await import('../terrainClearance.ts')).terrainClearance(o.terrain, o.demFlags, o.clearance_m, r.trajectory, io) : null;
     if (clearance && !clearance.ok) {
       r.warnings.push(clearance.unknown > 0 && clearance.nodeViolations === 0 && clearance.segmentViolations === 0
         ? `terrain clearance unknown at ${clearance.unknown} node(s) (off the DEM or over no-data)`
