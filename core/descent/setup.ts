@@ -73,6 +73,9 @@ export function validateSetup(s: DescentSetup): void {
     throw new DescentInputError('nodes', String(s.nodes), `must be a whole number from 5 to ${MAX_NODES}`);
   }
   if (s.hold !== 'zoh' && s.hold !== 'foh') throw new DescentInputError('hold', String(s.hold), "must be 'zoh' or 'foh'");
+  if ((s.vehicle.throttleBands ?? []).length > 0 && s.hold !== 'zoh') {
+    throw new DescentInputError('hold', String(s.hold), "must be 'zoh' with forbidden throttle bands: a linear thrust ramp between a high and a low node would cross the band between nodes (the study file switches to 'zoh' by itself)");
+  }
   const c = s.constraints;
   if (c.glideSlope !== null && !(c.glideSlope > 0 && c.glideSlope < Math.PI / 2)) {
     throw new DescentInputError('constraints.glideSlope', `${(c.glideSlope * 180) / Math.PI}°`, 'must be between 0° and 90°, or absent');

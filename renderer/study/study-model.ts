@@ -39,6 +39,7 @@ const SCHEMA_DEFAULTS: Record<string, number> = {
   'vehicle.propellantReserve_kg': 0,
   'vehicle.cantAngle_deg': 0,
   'vehicle.pointingLimit_deg': 180,
+  'vehicle.throttleRate_perS': 0,
   'constraints.glideSlope_deg': 0,
   'constraints.maxSpeed_mps': 0,
   'constraints.gateHeight_m': 0,

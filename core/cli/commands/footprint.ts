@@ -11,7 +11,7 @@ import os from 'node:os';
 import { join } from 'node:path';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
-import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
+import { manifestName, parseVehicleFlag, readStudy, removeOrphanTemporaries, VEHICLE_FLAGS_USAGE, type VehicleFlags, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
 import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
 import { footprintLonLat } from '../../footprint/georeferencedFootprint.ts';
@@ -53,6 +53,7 @@ Options:
                      at --target-east-m, --target-north-m of the DEM's frame (default: the DEM's centre)
   --body-radius-m R, --origin-lat-deg A, --origin-lon-deg B
                      with --terrain: as for landreach hazard (geographic DEMs)
+${VEHICLE_FLAGS_USAGE}
 
 Writes footprint.json (versioned report), footprint.csv (one row per target), footprint.geojson
 (contours and the reserve boundary, RFC 7946: local metres
@@ -83,6 +84,7 @@ interface Options {
   /** --terrain and the flags passed on to the DEM reader. */
   terrain: string | null;
   demFlags: Flags;
+  vehicle: VehicleFlags;
 }
 
 const DEM_FLAGS = ['--target-east-m', '--target-north-m', '--body-radius-m', '--origin-lat-deg', '--origin-lon-deg'];
@@ -110,9 +112,12 @@ function parseArgs(args: string[]): Options {
     refine: null,
     terrain: null,
     demFlags: {},
+    vehicle: {},
   };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
+    const used = parseVehicleFlag(args, i, o.vehicle);
+    if (used > 0) { i += used - 1; continue; }
     const value = () => {
       const v = args[++i];
       if (v === undefined || v.startsWith('--')) throw new UsageError(`${a} needs a value (see landreach footprint --help)`);
@@ -197,7 +202,7 @@ export const footprintCommand: CliCommand = {
   usage: USAGE,
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parseArgs(args);
-    const study: Study = readStudy(o.study);
+    const study: Study = readStudy(o.study, o.vehicle);
     const reserve = o.reserve ?? study.vehicle.propellantReserve_kg;
     const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
     if (reserve >= usable) throw new UsageError(`--reserve-kg ${reserve}: must be below the usable propellant, ${usable} kg (wet minus dry mass)`);

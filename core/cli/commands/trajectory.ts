@@ -4,7 +4,7 @@
  * Minimum-propellant trajectory to one target: prints a short summary and writes the full time series.
  * Output files are written whole or not at all (temporary file + rename).
  */
-import { readStudy, writeFilesAtomically } from '../files.ts';
+import { parseVehicleFlag, readStudy, VEHICLE_FLAGS_USAGE, type VehicleFlags, writeFilesAtomically } from '../files.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { studyDescentProblem, studyToDescent } from '../../study/index.ts';
@@ -47,6 +47,7 @@ Options:
   --clearance-m C    required height above the terrain, m (default 0; with --terrain)
   --target-east-m E, --target-north-m N
                      the nominal target on the DEM, in the DEM's frame (default: the DEM's centre)
+${VEHICLE_FLAGS_USAGE}
 
 Status: solved (a flyable optimum, lossless, propellant certified to 0.01 kg), relaxation-gap (the
 convex relaxation was not lossless: the best flyable trajectory found and the certified lower bound are
@@ -68,12 +69,15 @@ interface Options {
   csv: string | null;
   refine: boolean;
   baselines: boolean;
+  vehicle: VehicleFlags;
 }
 
 function parseArgs(args: string[]): Options {
-  const o: Options = { study: '', target: null, json: null, csv: null, refine: true, baselines: false, terrain: null, clearance_m: 0, demFlags: {} };
+  const o: Options = { study: '', target: null, json: null, csv: null, refine: true, baselines: false, terrain: null, clearance_m: 0, demFlags: {}, vehicle: {} };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
+    const used = parseVehicleFlag(args, i, o.vehicle);
+    if (used > 0) { i += used - 1; continue; }
     const value = () => {
       const v = args[++i];
       if (v === undefined || v.startsWith('--')) throw new UsageError(`${a} needs a value (see landreach trajectory --help)`);
@@ -272,7 +276,7 @@ export const trajectoryCommand: CliCommand = {
   usage: USAGE,
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parseArgs(args);
-    const study = readStudy(o.study);
+    const study = readStudy(o.study, o.vehicle);
     const d = studyToDescent(study);
     const target = o.target ?? d.target;
     if (o.target) {
