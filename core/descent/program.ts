@@ -17,6 +17,7 @@
  *   boundary    r_0, v_0, z_0 = ln m0 fixed; r_{N−1} = target + gate height, v_{N−1} = (0, 0, −gate rate)
  *   ZOH only    (u, σ)_{N−1} = (u, σ)_{N−2}: the last node reports the hold value of the last interval
  *   flyable     (min-propellant-flyable only) d_kᵀu_k ≥ σ_k at nodes given a direction d_k (see ProgramData)
+ *   rate        (vehicle.throttleRate set) |σ_{k+1} − σ_k| ≤ c_k, see throttleRateStep below
  * Minimum propellant: maximise z_{N−1}. Minimum landing error (Blackmore 2010): the horizontal
  * landing position is free and ‖(r_{N−1} − target)_xy‖ ≤ e is minimised (with a tiny propellant tie-break).
  *
@@ -291,6 +292,20 @@ export class DescentProgram {
         e.h(r, set ? 0 : 2 * rho2 * Math.exp(-zRef[k]));
       }
     }
+    const rate = veh.throttleRate ?? null;
+    if (rate !== null) {
+      // |σ_{k+1} − σ_k| ≤ c_k on the magnitude slack (both signs: two rows per interval).
+      const { fullThrust } = deriveVehicle(veh);
+      for (let k = 0; k + 1 < N; k++) {
+        const c = throttleRateStep(rate, fullThrust, alpha, rho2, dt, zRef[k + 1], zMax[k + 1]);
+        for (const sign of [1, -1]) {
+          const r = e.orthRow(1 / S.accel);
+          e.g(r, idx(k + 1, NODE.sigma), sign);
+          e.g(r, idx(k, NODE.sigma), -sign);
+          e.h(r, c);
+        }
+      }
+    }
     if (con.minAltitude !== null) {
       for (let k = 1; k < last; k++) {
         const r = e.orthRow(1 / S.length);
@@ -367,6 +382,27 @@ export class DescentProgram {
       e.c(idx(last, NODE.z), -1);
     }
   }
+}
+
+/**
+ * The bound c on |σ_{k+1} − σ_k| that keeps the thrust-magnitude change over one step within the throttle-rate
+ * limit, |T_{k+1} − T_k| ≤ R F Δt (R the rate in full thrust per second, F the full net thrust), for every
+ * mass the program allows. The program's variables are mass-normalised (σ = Γ/m, Açıkmeşe & Ploen 2007), so
+ * the thrust T_k = m_k σ_k (where ‖u_k‖ = σ_k) is bilinear; split
+ *     T_{k+1} − T_k = m_{k+1}(σ_{k+1} − σ_k) − (m_k − m_{k+1}) σ_k
+ * and bound each part over the program's mass bounds: m_{k+1} ≤ m̄_{k+1} = e^{zMax_{k+1}} (burning at the
+ * lowest thrust), and (m_k − m_{k+1})σ_k ≤ α Δt ρ2 · ρ2 e^{−zRef_{k+1}} (the mass flow is at most α ρ2,
+ * and σ_k ≤ ρ2/m_k ≤ ρ2 e^{−zRef_{k+1}}). So
+ *     m̄_{k+1}|σ_{k+1} − σ_k| ≤ R F Δt − α Δt ρ2² e^{−zRef_{k+1}}
+ * is a convex (linear) SUFFICIENT condition: conservative by the mass-loss term (α ρ2²/m per second, a few
+ * thousandths of full thrust per second on the demo lander) and by the ratio m̄_{k+1}/m_{k+1} ≥ 1 of the
+ * mass bounds. It constrains the flown thrust only where the relaxation is lossless (‖u_k‖ = σ_k): the
+ * search checks that, and restores a flyable thrust with the rows kept where it is not (flyable.ts).
+ * Returns a value ≥ 0 (0: the rate is below the mass-loss drift there; validateSetup refuses such rates).
+ */
+export function throttleRateStep(rate: number, fullThrust: number, alpha: number, rho2: number, dt: number, zRefNext: number, zMaxNext: number): number {
+  const drift = alpha * dt * rho2 * rho2 * Math.exp(-zRefNext);
+  return Math.max(0, (rate * fullThrust * dt - drift) / Math.exp(zMaxNext));
 }
 
 /** Tie-break weight of −z_final in the minimum-landing-error objective (objective in units of the length scale). */

@@ -99,6 +99,17 @@ export function validateSetup(s: DescentSetup): void {
   if (c.minAltitude !== null && c.minAltitude > c.gateHeight) {
     throw new DescentInputError('constraints.minAltitude', `${c.minAltitude} m`, `must not be above the gate height ${c.gateHeight} m, where the powered descent ends; lower it or raise the gate`);
   }
+  // The throttle-rate rows (program.ts throttleRateStep) reserve the thrust change that mass loss alone causes
+  // at full thrust on the dry vehicle, α ρ2²/m_dry per second: a rate at or below it could not be met at all.
+  const rate = s.vehicle.throttleRate ?? null;
+  if (rate !== null) {
+    const d = deriveVehicle(s.vehicle);
+    const drift = (d.alpha * d.rho2 * d.rho2) / (s.vehicle.dryMass * d.fullThrust);
+    if (!(rate > drift)) {
+      throw new DescentInputError('vehicle.throttleRate', `${rate} per s`,
+        `must be above ${drift.toPrecision(3)} per s, the throttle change that the mass loss at full thrust alone causes on this vehicle; raise it, or leave it out for no limit`);
+    }
+  }
   // Full thrust must hold the vehicle's weight at its lightest, or the vertical speed only ever grows
   // downward and the descent can never be stopped.
   const { rho2 } = deriveVehicle(s.vehicle);
