@@ -37,12 +37,19 @@ import { deriveVehicle } from './vehicle.ts';
  * as the vehicle can (Blackmore et al. 2010). max-divert: land as far along a horizontal direction as a
  * propellant budget allows (the reach boundary of the footprint, one direction at a time).
  */
-export type ProgramKind = 'min-propellant' | 'min-landing-error' | 'max-divert' | 'min-propellant-flyable';
+export type ProgramKind = 'min-propellant' | 'min-landing-error' | 'max-divert' | 'min-propellant-flyable' | 'min-propellant-band';
 
 /** Kinds that land exactly on the target (the landing point is data). */
 export function landsOnTarget(kind: ProgramKind): boolean {
-  return kind === 'min-propellant' || kind === 'min-propellant-flyable';
+  return kind === 'min-propellant' || kind === 'min-propellant-flyable' || kind === 'min-propellant-band';
 }
+
+/**
+ * Lowest throttle fraction the band restriction imposes on an interval assigned to a range that starts at
+ * zero: the rotated cone of the lower bound needs a positive coefficient to keep a strict interior. Being a
+ * restriction (the engine may go lower), it can only raise the band-respecting cost, never the lower bound.
+ */
+export const BAND_THROTTLE_FLOOR = 0.005;
 
 /** Per-solve data: only values depend on it. */
 export interface ProgramData {
@@ -59,6 +66,16 @@ export interface ProgramData {
    * along d_k, so the node's thrust is flyable (a convex restriction of the non-convex thrust set).
    */
   readonly thrustDirections?: Float64Array;
+  /**
+   * min-propellant-band (zero-order hold): per hold interval k = 0 … N−2 the allowed throttle range
+   * [lo_k, hi_k] (fractions of full thrust, 2(N − 1) entries) that the whole interval keeps: with u_k held
+   * and the mass falling, the thrust m(t)‖u_k‖ sweeps [m_{k+1}σ_k, m_kσ_k] (lossless), so
+   *   m_{k+1}σ_k ≥ lo_k F  (the second-order lower bound of Açıkmeşe & Ploen, expanded at node k + 1)
+   *   m_k σ_k ≤ hi_k F     (the linearised upper bound at node k)
+   * and both lie inside the exact bounds (z ≥ z0): the interval respects the range at every instant.
+   * Absent: [throttleMin, throttleMax] everywhere. The thrustDirections rows are part of this kind too.
+   */
+  readonly throttleIntervals?: Float64Array;
 }
 
 /** Field offsets inside one node's block of variables. */
@@ -278,7 +295,7 @@ export class DescentProgram {
       e.g(r, idx(last, NODE.z), -1);
       e.h(r, -Math.log(m0 - budget));
     }
-    if (kind === 'min-propellant-flyable') {
+    if (kind === 'min-propellant-flyable' || kind === 'min-propellant-band') {
       // σ_k − d_kᵀu_k ≤ 0 where a direction is given; elsewhere d_k = 0 and the row reads σ_k ≤ 2 μ2,k,
       // which the upper thrust bound already implies (σ_k ≤ μ2,k(1 − δ) with δ ≥ 0): inactive.
       const dirs = d.thrustDirections;
@@ -292,10 +309,24 @@ export class DescentProgram {
         e.h(r, set ? 0 : 2 * rho2 * Math.exp(-zRef[k]));
       }
     }
+    const band = kind === 'min-propellant-band';
+    const { fullThrust } = deriveVehicle(veh);
+    const ranges = d.throttleIntervals;
+    if (band) {
+      if (setup.hold !== 'zoh') throw new RangeError("min-propellant-band needs zero-order hold (hold: 'zoh')");
+      if (ranges !== undefined && ranges.length !== 2 * (N - 1)) throw new RangeError(`throttleIntervals: ${ranges.length} entries (must be 2 × (nodes − 1) = ${2 * (N - 1)})`);
+      for (let k = 0; k + 1 < N; k++) {
+        const hi = ranges ? ranges[2 * k + 1] : veh.throttleMax;
+        const mu = hi * fullThrust * Math.exp(-zRef[k]);
+        const r = e.orthRow(1 / S.accel);
+        e.g(r, idx(k, NODE.sigma), 1);
+        e.g(r, idx(k, NODE.z), mu);
+        e.h(r, mu * (1 + zRef[k]));
+      }
+    }
     const rate = veh.throttleRate ?? null;
     if (rate !== null) {
       // |σ_{k+1} − σ_k| ≤ c_k on the magnitude slack (both signs: two rows per interval).
-      const { fullThrust } = deriveVehicle(veh);
       for (let k = 0; k + 1 < N; k++) {
         const c = throttleRateStep(rate, fullThrust, alpha, rho2, dt, zRef[k + 1], zMax[k + 1]);
         for (const sign of [1, -1]) {
@@ -332,6 +363,23 @@ export class DescentProgram {
         e.g(t0 - 2, idx(k, NODE.sigma), -1);
         e.g(t0 - 2, idx(k, NODE.z), -mu1);
         e.h(t0 - 2, -mu1 * zRef[k] - (3 * mu1) / 2);
+      }
+    }
+    if (band) {
+      // Lower end of each interval's range at the interval's END (node k + 1): same rotated cone as above.
+      for (let k = 0; k + 1 < N; k++) {
+        const lo = Math.max(ranges ? ranges[2 * k] : veh.throttleMin, BAND_THROTTLE_FLOOR);
+        const zr = zRef[k + 1];
+        const mu1 = lo * fullThrust * Math.exp(-zr);
+        const t0 = e.soc(3, 1 / S.accel);
+        e.g(t0, idx(k, NODE.sigma), -1);
+        e.g(t0, idx(k + 1, NODE.z), -mu1);
+        e.h(t0, -mu1 * zr - mu1 / 2);
+        e.g(t0 - 1, idx(k + 1, NODE.z), -mu1);
+        e.h(t0 - 1, -mu1 * zr);
+        e.g(t0 - 2, idx(k, NODE.sigma), -1);
+        e.g(t0 - 2, idx(k + 1, NODE.z), -mu1);
+        e.h(t0 - 2, -mu1 * zr - (3 * mu1) / 2);
       }
     }
     if (con.glideSlope !== null) {

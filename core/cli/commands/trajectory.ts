@@ -51,11 +51,15 @@ ${VEHICLE_FLAGS_USAGE}
 
 Status: solved (a flyable optimum, lossless, propellant certified to 0.01 kg), relaxation-gap (the
 convex relaxation was not lossless: the best flyable trajectory found and the certified lower bound are
-both reported), unreachable (certified, with the closest reachable point), solver-failure.
+both reported), unreachable (certified, with the closest reachable point), solver-failure, and with a
+forbidden throttle band (--throttle-band or vehicle.throttleBands) undecided: the relaxation ignoring the
+band does not exclude the target, but no band-respecting trajectory was found (only the lower bound is
+reported). With a band, solved / relaxation-gap mean a band-respecting trajectory within / beyond 0.01 kg
+of the certified lower bound (the band gap is printed).
 Every returned trajectory is re-simulated densely between the nodes; a constraint missed there beyond
 its tolerance is a warning.
 
-Exit codes: 0 solved, relaxation-gap or unreachable (see "status"), 1 solver failure, 2 bad usage or bad study file.
+Exit codes: 0 solved, relaxation-gap, undecided or unreachable (see "status"), 1 solver failure, 2 bad usage or bad study file.
 
 ${CAUTION}`;
 
@@ -142,6 +146,11 @@ export function resultToJson(
     miss_m: round(r.miss),
     tf_bracket_s: [round(r.bracket.lower), round(r.bracket.upper)],
     infeasibility_certificates: r.infeasibleStatuses,
+    /** Forbidden throttle bands: band-respecting propellant less the certified lower bound, kg (null without bands). */
+    band_gap_kg: round(r.bandGap_kg),
+    /** Forbidden throttle bands: max–min–max switch indices (hold intervals) of the returned trajectory. */
+    band_switches: r.bandStructure ? [r.bandStructure.i1, r.bandStructure.i2] : null,
+    band_solves: r.bandSolves,
     losslessness_gap_mps2: t ? round(t.diagnostics.losslessnessGap) : null,
     losslessness_gap_relative: t ? round(t.diagnostics.losslessnessGapRelative) : null,
     lossless: t ? t.diagnostics.lossless : null,
@@ -166,6 +175,8 @@ export function resultToJson(
           thrust_lower_margin: round(between.thrustLowerMargin),
           thrust_upper_margin: round(between.thrustUpperMargin),
           pointing_margin_deg: round(deg(between.pointingMargin_rad)),
+          band_margin: round(between.bandMargin),
+          throttle_rate_margin_per_s: round(between.throttleRateMargin_perS),
           touchdown_position_error_m: round(between.touchdownPositionError_m),
           touchdown_velocity_error_mps: round(between.touchdownVelocityError_mps),
           propellant_kg: round(between.propellant_kg),
@@ -206,7 +217,8 @@ function summary(r: DescentResult, refine: { nodes: number; propellant: number }
     lines.push(`closest point     ${f(r.closestPoint[0], 1)} m E, ${f(r.closestPoint[1], 1)} m N (miss ${f(r.miss, 1)} m)`);
   }
   lines.push(`propellant        ${f(r.propellant)} kg${r.status === 'unreachable' ? ' (minimum-landing-error trajectory)' : r.status === 'relaxation-gap' ? ' (best flyable trajectory found)' : ''}`);
-  if (r.status === 'relaxation-gap') lines.push(`lower bound       ${f(r.propellantLowerBound)} kg (certified by the convex relaxation)`);
+  if (r.status === 'relaxation-gap' || r.status === 'undecided' || Number.isFinite(r.bandGap_kg)) lines.push(`lower bound       ${f(r.propellantLowerBound)} kg (certified by the convex relaxation${Number.isFinite(r.bandGap_kg) || r.status === 'undecided' ? ' ignoring the throttle band' : ''})`);
+  if (Number.isFinite(r.bandGap_kg)) lines.push(`band gap          ${f(r.bandGap_kg, 3)} kg (band-respecting trajectory less the lower bound; switches at intervals ${r.bandStructure ? `${r.bandStructure.i1}, ${r.bandStructure.i2}` : '—'}, ${r.bandSolves} band solves)`);
   lines.push(`time of flight    ${f(r.timeOfFlight)} s  (bracket ${f(r.bracket.lower, 1)}–${f(r.bracket.upper, 1)} s)`);
   if (r.trajectory) {
     const d = r.trajectory.diagnostics;

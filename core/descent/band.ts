@@ -1,0 +1,230 @@
+/**
+ * Forbidden throttle bands: a band-respecting trajectory (an UPPER bound) beside the relaxation that ignores
+ * the band (the certified LOWER bound).
+ *
+ * The thrust set {ρ_min ≤ ‖T‖ ≤ ρ_a} ∪ {ρ_b ≤ ‖T‖ ≤ ρ_max} is not convex, and neither is its lossless
+ * convexification once the band splits it (Malyuta, Szmuk & Açıkmeşe study such semi-continuous input sets
+ * and the conditions under which a relaxation stays lossless; our discretised problems do not meet them in
+ * general). What IS convex: once every hold interval is assigned to ONE allowed throttle range, each
+ * interval's thrust lies in an annulus, and Açıkmeşe & Ploen's lossless convexification applies to it
+ * (program.ts, kind 'min-propellant-band': per interval [lo_k, hi_k], kept at every instant of the interval
+ * with zero-order hold). Any solution of that restriction that is lossless (‖u_k‖ = σ_k, or made so by fixing
+ * thrust directions as in flyable.ts) is a trajectory the engine can fly.
+ *
+ * Why zero-order hold: with a first-order hold a switch between a high and a low node ramps the thrust
+ * linearly through the band between the nodes. Held thrust acceleration keeps each interval inside its
+ * range (the thrust only drifts down with the mass, which the range rows account for); the switch itself is
+ * an instantaneous step at a node.
+ *
+ * Which assignment: the structure of minimum-propellant throttle with a glide slope and pointing limits is
+ * max–min–max (Açıkmeşe & Ploen 2007; Blackmore, Açıkmeşe & Scharf 2010; Lu 2018 for the thrust profile),
+ * so the assignment is described by two switch indices i1 ≤ i2: intervals before i1 and from i2 on use the
+ * highest allowed range, those between use a lower one (with several bands: the allowed range nearest the
+ * relaxed optimum's throttle there). The switch indices are seeded from the relaxed optimum's throttle
+ * profile and improved by a local search (±1 on either index while the cost falls), and the time of flight
+ * by Brent's method on that cost, inside the same free-final-time search (search.ts). Alternating
+ * assignments (needed where a long arc would hover with the hover throttle inside the band) are not
+ * searched: such a target gets no band-respecting trajectory and is reported 'undecided', never reachable.
+ */
+import { isSolved } from '../conic/types.ts';
+import type { Vec3 } from './constants.ts';
+import { bracketFrom, brentMinimise } from './brent.ts';
+import { lossyNodes } from './flyable.ts';
+import { NODE } from './program.ts';
+import type { IgnitionState } from './setup.ts';
+import type { DescentSolver, FixedTimeSolve } from './solver.ts';
+import { LOSSLESS_TOLERANCE } from './trajectory.ts';
+import { allowedThrottleIntervals, deriveVehicle } from './vehicle.ts';
+
+/** A phase assignment of the max–min–max structure: intervals [i1, i2) in the low ranges, the rest high. */
+export interface BandStructure {
+  i1: number;
+  i2: number;
+}
+
+export interface BandSearchResult {
+  /** The cheapest band-respecting fixed-time solve found (kind 'min-propellant-band'), or null. */
+  best: FixedTimeSolve | null;
+  structure: BandStructure | null;
+  /** Conic solves spent. */
+  solves: number;
+  /** Structures evaluated (each one or more solves). */
+  evaluations: number;
+}
+
+export interface BandSearchOptions {
+  /** Most solves the band search may spend (default 80). */
+  maxSolves?: number;
+  /** t_f tolerance of Brent's method on the band-respecting cost, s (default 0.05). */
+  tfTolerance?: number;
+}
+
+/** Throttle fraction of each hold interval of a solve (thrust at the interval's start over full thrust). */
+export function intervalThrottles(solver: DescentSolver, r: FixedTimeSolve): Float64Array {
+  const program = solver.program(r.kind);
+  const N = solver.setup.nodes;
+  const { fullThrust } = deriveVehicle(solver.setup.vehicle);
+  const out = new Float64Array(N - 1);
+  for (let k = 0; k + 1 < N; k++) {
+    const o = k * NODE.size;
+    const u = Math.hypot(program.value(r.solution.x, o + NODE.u), program.value(r.solution.x, o + NODE.u + 1), program.value(r.solution.x, o + NODE.u + 2));
+    out[k] = (Math.exp(program.value(r.solution.x, o + NODE.z)) * u) / fullThrust;
+  }
+  return out;
+}
+
+/** Index of the allowed range nearest to a throttle fraction. */
+function nearestRange(ranges: readonly [number, number][], rho: number): number {
+  let best = 0;
+  let dist = Infinity;
+  ranges.forEach(([lo, hi], i) => {
+    const d = rho < lo ? lo - rho : rho > hi ? rho - hi : 0;
+    if (d < dist) { dist = d; best = i; }
+  });
+  return best;
+}
+
+/**
+ * The max–min–max structure seeded from a relaxed throttle profile: the low arc spans the intervals whose
+ * throttle lies below the middle of the highest band (the first to the last of them).
+ */
+export function seedStructure(throttles: Float64Array, ranges: readonly [number, number][]): BandStructure {
+  const top = ranges[ranges.length - 1];
+  const below = ranges[ranges.length - 2];
+  const mid = 0.5 * (below[1] + top[0]);
+  let i1 = -1;
+  let i2 = -1;
+  for (let k = 0; k < throttles.length; k++) {
+    if (throttles[k] < mid) {
+      if (i1 < 0) i1 = k;
+      i2 = k + 1;
+    }
+  }
+  return i1 < 0 ? { i1: throttles.length, i2: throttles.length } : { i1, i2 };
+}
+
+/** Per-interval [lo, hi] of a structure: low arc intervals take the non-top range nearest the seed throttle. */
+export function structureRanges(s: BandStructure, ranges: readonly [number, number][], seedThrottles: Float64Array): Float64Array {
+  const n = seedThrottles.length;
+  const out = new Float64Array(2 * n);
+  const top = ranges.length - 1;
+  const lower = ranges.slice(0, top);
+  for (let k = 0; k < n; k++) {
+    const i = k >= s.i1 && k < s.i2 ? nearestRange(lower, seedThrottles[k]) : top;
+    out[2 * k] = ranges[i][0];
+    out[2 * k + 1] = ranges[i][1];
+  }
+  return out;
+}
+
+/**
+ * A flyable band-respecting solve at one time of flight for one structure: the restriction itself when it is
+ * lossless, else the same restriction with the thrust directions fixed (d_kᵀu_k ≥ σ_k) first at the lossy
+ * intervals, then at every interval (flyable.ts explains why that is flyable); null when none is.
+ */
+export function bandSolveAt(
+  solver: DescentSolver, tf: number, target: Vec3, ignition: IgnitionState, throttleIntervals: Float64Array,
+): FixedTimeSolve | null {
+  const N = solver.setup.nodes;
+  let r = solver.solveFixed('min-propellant-band', tf, target, ignition, { throttleIntervals });
+  if (!isSolved(r.status)) return null;
+  const program = solver.program('min-propellant-band');
+  const dirs = new Float64Array(3 * N);
+  for (let round = 0; round < 3; round++) {
+    const lossy = lossyNodes(solver, r, ignition, LOSSLESS_TOLERANCE).nodes;
+    if (lossy.length === 0) return r;
+    if (round === 2) return null;
+    const u = (k: number): Vec3 => [0, 1, 2].map((i) => program.value(r.solution.x, k * NODE.size + NODE.u + i)) as unknown as Vec3;
+    const lossySet = new Set(lossy);
+    const targets = round === 0 ? lossy : Array.from({ length: N }, (_, k) => k);
+    for (const k of targets) {
+      // The direction of the nearest lossless node (a lossy node's own direction may be a wasted sideways one).
+      let d: Vec3 | null = null;
+      for (let off = 0; off < N && !d; off++) {
+        for (const j of [k - off, k + off]) {
+          if (d || j < 0 || j >= N || (off > 0 && lossySet.has(j)) || (off === 0 && lossySet.has(k))) continue;
+          const v = u(j);
+          const n = Math.hypot(...v);
+          if (n > 1e-9) d = [v[0] / n, v[1] / n, v[2] / n];
+        }
+      }
+      dirs.set(d ?? [0, 0, 1], 3 * k);
+    }
+    r = solver.solveFixed('min-propellant-band', tf, target, ignition, { throttleIntervals, thrustDirections: dirs });
+    if (!isSolved(r.status)) return null;
+  }
+  return null;
+}
+
+/**
+ * The cheapest band-respecting trajectory found near a relaxed optimum: Brent's method on t_f, each time
+ * a local search over the switch indices (i1, i2) from the best structure so far (seeded by the relaxed
+ * throttle profile). `window` bounds t_f (the relaxed problem's feasible window: the band restriction is
+ * infeasible wherever the relaxation is).
+ */
+export function bandRespectingNear(
+  solver: DescentSolver, relaxed: FixedTimeSolve, target: Vec3, ignition: IgnitionState, window: { lower: number; upper: number }, options: BandSearchOptions = {},
+): BandSearchResult {
+  const maxSolves = options.maxSolves ?? 80;
+  const tfTol = options.tfTolerance ?? 0.05;
+  const start = solver.solves;
+  const spent = () => solver.solves - start;
+  const ranges = allowedThrottleIntervals(solver.setup.vehicle);
+  const seedThrottles = intervalThrottles(solver, relaxed);
+  const nInt = seedThrottles.length;
+  let structure = seedStructure(seedThrottles, ranges);
+  let evaluations = 0;
+  let best: { solve: FixedTimeSolve; structure: BandStructure } | null = null;
+  const atTime = new Map<number, { solve: FixedTimeSolve; structure: BandStructure } | null>();
+
+  const evalStructure = (tf: number, s: BandStructure): FixedTimeSolve | null => {
+    evaluations++;
+    return bandSolveAt(solver, tf, target, ignition, structureRanges(s, ranges, seedThrottles));
+  };
+  const valid = (s: BandStructure) => s.i1 >= 0 && s.i1 <= s.i2 && s.i2 <= nInt;
+  // Local search over (i1, i2) at one t_f, from the best structure so far.
+  const costAt = (tf: number): number => {
+    if (atTime.has(tf)) return atTime.get(tf)?.solve.propellant ?? Infinity;
+    if (spent() >= maxSolves) return Infinity;
+    let cur = structure;
+    let curSolve = evalStructure(tf, cur);
+    // A seed that is infeasible here: try the structures one step away before giving up on this t_f.
+    const moves: BandStructure[] = [];
+    for (;;) {
+      moves.length = 0;
+      for (const [a, b] of [[-1, 0], [1, 0], [0, -1], [0, 1], [-1, 1], [1, -1]]) {
+        const s = { i1: cur.i1 + a, i2: cur.i2 + b };
+        if (valid(s)) moves.push(s);
+      }
+      let improved = false;
+      for (const s of moves) {
+        if (spent() >= maxSolves) break;
+        const r = evalStructure(tf, s);
+        if (r && (!curSolve || r.propellant < curSolve.propellant - 1e-9)) {
+          cur = s;
+          curSolve = r;
+          improved = true;
+          break;
+        }
+      }
+      if (!improved || spent() >= maxSolves) break;
+    }
+    const found = curSolve ? { solve: curSolve, structure: cur } : null;
+    atTime.set(tf, found);
+    if (found) {
+      structure = cur;
+      if (!best || found.solve.propellant < best.solve.propellant) best = found;
+    }
+    return found?.solve.propellant ?? Infinity;
+  };
+
+  const t0 = relaxed.timeOfFlight;
+  const f0 = costAt(t0);
+  if (Number.isFinite(f0)) {
+    const step = Math.max(4 * tfTol, 0.03 * t0);
+    const bb = bracketFrom(costAt, t0, f0, step, window.lower, window.upper, -Infinity);
+    brentMinimise(costAt, bb.a, bb.b, bb.x, bb.fx, tfTol, Math.max(0, Math.min(12, maxSolves - spent())), -Infinity);
+  }
+  const b = best as { solve: FixedTimeSolve; structure: BandStructure } | null;
+  return { best: b?.solve ?? null, structure: b?.structure ?? null, solves: spent(), evaluations };
+}
