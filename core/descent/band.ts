@@ -57,6 +57,8 @@ export interface BandSearchOptions {
   maxSolves?: number;
   /** t_f tolerance of Brent's method on the band-respecting cost, s (default 0.05). */
   tfTolerance?: number;
+  /** Only the relaxed solve's own time of flight (no search over t_f): the fixed-time problem. */
+  fixedTime?: boolean;
 }
 
 /** Throttle fraction of each hold interval of a solve (thrust at the interval's start over full thrust). */
@@ -218,9 +220,18 @@ export function bandRespectingNear(
     return found?.solve.propellant ?? Infinity;
   };
 
-  const t0 = relaxed.timeOfFlight;
-  const f0 = costAt(t0);
-  if (Number.isFinite(f0)) {
+  let t0 = relaxed.timeOfFlight;
+  let f0 = costAt(t0);
+  // No band-respecting trajectory at the relaxed optimum's t_f (typically at the edge of the feasible times,
+  // where rounding the switch interval to one range needs up to one more step): step outward, longer first.
+  for (let j = 0; j < 5 && !Number.isFinite(f0) && !options.fixedTime && spent() < maxSolves; j++) {
+    for (const t of [relaxed.timeOfFlight * (1 + 0.01 * 2 ** j), relaxed.timeOfFlight * (1 - 0.01 * 2 ** j)]) {
+      if (t <= window.lower || t >= window.upper || Number.isFinite(f0)) continue;
+      const f = costAt(t);
+      if (Number.isFinite(f)) { t0 = t; f0 = f; }
+    }
+  }
+  if (Number.isFinite(f0) && !options.fixedTime) {
     const step = Math.max(4 * tfTol, 0.03 * t0);
     const bb = bracketFrom(costAt, t0, f0, step, window.lower, window.upper, -Infinity);
     brentMinimise(costAt, bb.a, bb.b, bb.x, bb.fx, tfTol, Math.max(0, Math.min(12, maxSolves - spent())), -Infinity);
