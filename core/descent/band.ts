@@ -184,12 +184,20 @@ export function bandRespectingNear(
     return bandSolveAt(solver, tf, target, ignition, structureRanges(s, ranges, seedThrottles));
   };
   const valid = (s: BandStructure) => s.i1 >= 0 && s.i1 <= s.i2 && s.i2 <= nInt;
-  // Local search over (i1, i2) at one t_f, from the best structure so far.
-  const costAt = (tf: number): number => {
-    if (atTime.has(tf)) return atTime.get(tf)?.solve.propellant ?? Infinity;
+  const record = (found: { solve: FixedTimeSolve; structure: BandStructure } | null) => {
+    if (found && (!best || found.solve.propellant < best.solve.propellant)) best = found;
+  };
+  // Local search over (i1, i2) at one t_f, from the best structure so far (`local` false: that structure only,
+  // one solve: the cheap cost Brent's method steps over t_f with).
+  const costAt = (tf: number, local = true): number => {
+    if (local && atTime.has(tf)) return atTime.get(tf)?.solve.propellant ?? Infinity;
     if (spent() >= maxSolves) return Infinity;
     let cur = structure;
     let curSolve = evalStructure(tf, cur);
+    if (!local) {
+      record(curSolve ? { solve: curSolve, structure: cur } : null);
+      return curSolve?.propellant ?? Infinity;
+    }
     // A seed that is infeasible here: try the structures one step away before giving up on this t_f.
     const moves: BandStructure[] = [];
     for (;;) {
@@ -213,10 +221,8 @@ export function bandRespectingNear(
     }
     const found = curSolve ? { solve: curSolve, structure: cur } : null;
     atTime.set(tf, found);
-    if (found) {
-      structure = cur;
-      if (!best || found.solve.propellant < best.solve.propellant) best = found;
-    }
+    if (found) structure = cur;
+    record(found);
     return found?.solve.propellant ?? Infinity;
   };
 
@@ -232,9 +238,13 @@ export function bandRespectingNear(
     }
   }
   if (Number.isFinite(f0) && !options.fixedTime) {
+    // Brent's method on t_f with the structure found at t0 (one solve per time), then the local structure
+    // search again at the best time found.
+    const fixed = (tf: number) => (tf === t0 ? f0 : costAt(tf, false));
     const step = Math.max(4 * tfTol, 0.03 * t0);
-    const bb = bracketFrom(costAt, t0, f0, step, window.lower, window.upper, -Infinity);
-    brentMinimise(costAt, bb.a, bb.b, bb.x, bb.fx, tfTol, Math.max(0, Math.min(12, maxSolves - spent())), -Infinity);
+    const bb = bracketFrom(fixed, t0, f0, step, window.lower, window.upper, -Infinity);
+    const res = brentMinimise(fixed, bb.a, bb.b, bb.x, bb.fx, tfTol, Math.max(0, Math.min(16, maxSolves - spent())), -Infinity);
+    if (res.x !== t0 && Number.isFinite(res.fx)) costAt(res.x, true);
   }
   const b = best as { solve: FixedTimeSolve; structure: BandStructure } | null;
   return { best: b?.solve ?? null, structure: b?.structure ?? null, solves: spent(), evaluations };
