@@ -295,7 +295,7 @@ async function runFootprint(o: Options, study: Study, mass: { reserve: number; u
       `status:      ${cancelled ? `stopped early${stop.signalName ? ` by ${stop.signalName}` : ''} (partial result written: ${counts.pending} targets not computed)` : 'complete'}`,
       `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
         (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : '') +
-        (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (not lossless: flyable cost above the certified bound)` : '') +
+        (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (flyable or band-respecting cost above the certified lower bound)` : '') +
         ((counts.undecided ?? 0) > 0 ? `, ${counts.undecided} undecided (throttle band: lower bound within the budget, no band-respecting trajectory found within it)` : ''),
       ...(summary.betweenNodesMissed > 0
         ? [`warning:     ${summary.betweenNodesMissed} target(s) miss a constraint between their nodes in the dense re-simulation (see between_nodes in footprint.csv)`]
