@@ -22,6 +22,9 @@
  *    level over the one interval containing the switch, which the band forbids; rounding that interval
  *    to the lower or upper range moves the landing by at most one step Δt, so
  *    0 ≤ t_band − t_relaxed ≤ Δt and 0 ≤ P_band − P_relaxed ≤ P'(t) Δt = (m0 − P) g Δt / c.
+ *    (The same two facts show that in a vertical landing the band can never cost propellant at a given
+ *    t_f, only make a t_f infeasible: a case where it binds needs a second dimension, and item 1's
+ *    exhaustive reference is that case.)
  * 3. A Mars example (Açıkmeşe & Ploen 2007, parameters second-hand: marsExamples.ts): the relaxed
  *    optimum's throttle is max–min–max (at most two switches between the top range and the lower one),
  *    and the band-respecting trajectory meets the band at every node and between the nodes (dense RK4
