@@ -23,8 +23,9 @@
  * relaxed optimum's throttle there). The switch indices are seeded from the relaxed optimum's throttle
  * profile and improved by a local search (±1 on either index while the cost falls), and the time of flight
  * by Brent's method on that cost, inside the same free-final-time search (search.ts). Alternating
- * assignments (needed where a long arc would hover with the hover throttle inside the band) are not
- * searched: such a target gets no band-respecting trajectory and is reported 'undecided', never reachable.
+ * assignments (needed where a long arc would hover with the hover throttle inside the band) are tried once
+ * as well (alternatingRanges: sigma–delta rounding of the relaxed throttle) and kept when cheaper; no
+ * further search over them. A target with no band-respecting trajectory is 'undecided', never reachable.
  */
 import { isSolved } from '../conic/types.ts';
 import type { Vec3 } from './constants.ts';
@@ -45,7 +46,10 @@ export interface BandStructure {
 export interface BandSearchResult {
   /** The cheapest band-respecting fixed-time solve found (kind 'min-propellant-band'), or null. */
   best: FixedTimeSolve | null;
+  /** Its max–min–max switches; null when none was found or the alternating assignment won (`alternating`). */
   structure: BandStructure | null;
+  /** The returned trajectory uses the alternating assignment (alternatingRanges) rather than max–min–max. */
+  alternating: boolean;
   /** Conic solves spent. */
   solves: number;
   /** Structures evaluated (each one or more solves). */
@@ -120,6 +124,58 @@ export function structureRanges(s: BandStructure, ranges: readonly [number, numb
 }
 
 /**
+ * Alternating assignment: intervals whose relaxed throttle lies inside a band take the range below or above it
+ * by sigma–delta rounding (the running sum of chosen edge minus relaxed throttle is kept near zero), so an
+ * arc that would hold an in-band throttle, such as a hover with the hover throttle inside the band,
+ * alternates between the two ranges with the same mean; intervals inside an allowed range keep it. Null when
+ * no interval's throttle lies in a band (nothing to alternate).
+ */
+export function alternatingRanges(throttles: Float64Array, ranges: readonly [number, number][]): Float64Array | null {
+  const out = new Float64Array(2 * throttles.length);
+  let carry = 0;
+  let any = false;
+  for (let k = 0; k < throttles.length; k++) {
+    const rho = throttles[k];
+    let i = ranges.findIndex(([lo, hi]) => rho >= lo && rho <= hi);
+    if (i < 0) {
+      const above = ranges.findIndex(([lo]) => lo > rho);
+      if (above <= 0) {
+        i = above === 0 ? 0 : ranges.length - 1;
+        carry = 0;
+      } else {
+        any = true;
+        const a = ranges[above - 1][1];
+        const b = ranges[above][0];
+        const wanted = rho + carry;
+        const up = wanted >= 0.5 * (a + b);
+        i = up ? above : above - 1;
+        carry = wanted - (up ? b : a);
+      }
+    } else carry = 0;
+    out[2 * k] = ranges[i][0];
+    out[2 * k + 1] = ranges[i][1];
+  }
+  return any ? out : null;
+}
+
+/** The max–min–max switches of a per-interval assignment, or null when it is not of that form. */
+export function structureOf(assignment: Float64Array, ranges: readonly [number, number][]): BandStructure | null {
+  const n = assignment.length / 2;
+  const topLo = ranges[ranges.length - 1][0];
+  let i1 = -1;
+  let i2 = -1;
+  for (let k = 0; k < n; k++) {
+    if (assignment[2 * k] !== topLo) {
+      if (i1 < 0) i1 = k;
+      i2 = k + 1;
+    }
+  }
+  if (i1 < 0) return { i1: n, i2: n };
+  for (let k = i1; k < i2; k++) if (assignment[2 * k] === topLo) return null;
+  return { i1, i2 };
+}
+
+/**
  * A flyable band-respecting solve at one time of flight for one structure: the restriction itself when it is
  * lossless, else the same restriction with the thrust directions fixed (d_kᵀu_k ≥ σ_k) first at the lossy
  * intervals, then at every interval (flyable.ts explains why that is flyable); null when none is.
@@ -176,7 +232,8 @@ export function bandRespectingNear(
   const nInt = seedThrottles.length;
   let structure = seedStructure(seedThrottles, ranges);
   let evaluations = 0;
-  let best: { solve: FixedTimeSolve; structure: BandStructure } | null = null;
+  let best: { solve: FixedTimeSolve; structure: BandStructure | null } | null = null;
+  let alternating: Float64Array | null = null;
   const atTime = new Map<number, { solve: FixedTimeSolve; structure: BandStructure } | null>();
 
   const evalStructure = (tf: number, s: BandStructure): FixedTimeSolve | null => {
@@ -184,7 +241,7 @@ export function bandRespectingNear(
     return bandSolveAt(solver, tf, target, ignition, structureRanges(s, ranges, seedThrottles));
   };
   const valid = (s: BandStructure) => s.i1 >= 0 && s.i1 <= s.i2 && s.i2 <= nInt;
-  const record = (found: { solve: FixedTimeSolve; structure: BandStructure } | null) => {
+  const record = (found: { solve: FixedTimeSolve; structure: BandStructure | null } | null) => {
     if (found && (!best || found.solve.propellant < best.solve.propellant)) best = found;
   };
   // Local search over (i1, i2) at one t_f, from the best structure so far (`local` false: that structure only,
@@ -192,6 +249,12 @@ export function bandRespectingNear(
   const costAt = (tf: number, local = true): number => {
     if (local && atTime.has(tf)) return atTime.get(tf)?.solve.propellant ?? Infinity;
     if (spent() >= maxSolves) return Infinity;
+    if (!local && alternating) {
+      evaluations++;
+      const r = bandSolveAt(solver, tf, target, ignition, alternating);
+      record(r ? { solve: r, structure: null } : null);
+      return r?.propellant ?? Infinity;
+    }
     let cur = structure;
     let curSolve = evalStructure(tf, cur);
     if (!local) {
@@ -237,6 +300,21 @@ export function bandRespectingNear(
       if (Number.isFinite(f)) { t0 = t; f0 = f; }
     }
   }
+  // The alternating assignment, once at the relaxed optimum's t_f: kept when it beats max–min–max there.
+  const alt = alternatingRanges(seedThrottles, ranges);
+  if (alt && spent() < maxSolves) {
+    evaluations++;
+    const r = bandSolveAt(solver, relaxed.timeOfFlight, target, ignition, alt);
+    if (r && (!Number.isFinite(f0) || r.propellant < f0 - 1e-9)) {
+      // Rounding only the switch intervals gives a max–min–max assignment again: keep it as one.
+      const asStructure = ranges.length === 2 ? structureOf(alt, ranges) : null;
+      if (asStructure) structure = asStructure;
+      else alternating = alt;
+      t0 = relaxed.timeOfFlight;
+      f0 = r.propellant;
+      record({ solve: r, structure: asStructure });
+    }
+  }
   if (Number.isFinite(f0) && !options.fixedTime) {
     // Brent's method on t_f with the structure found at t0 (one solve per time), then the local structure
     // search again at the best time found.
@@ -244,8 +322,8 @@ export function bandRespectingNear(
     const step = Math.max(4 * tfTol, 0.03 * t0);
     const bb = bracketFrom(fixed, t0, f0, step, window.lower, window.upper, -Infinity);
     const res = brentMinimise(fixed, bb.a, bb.b, bb.x, bb.fx, tfTol, Math.max(0, Math.min(16, maxSolves - spent())), -Infinity);
-    if (res.x !== t0 && Number.isFinite(res.fx)) costAt(res.x, true);
+    if (res.x !== t0 && Number.isFinite(res.fx) && !alternating) costAt(res.x, true);
   }
-  const b = best as { solve: FixedTimeSolve; structure: BandStructure } | null;
-  return { best: b?.solve ?? null, structure: b?.structure ?? null, solves: spent(), evaluations };
+  const b = best as { solve: FixedTimeSolve; structure: BandStructure | null } | null;
+  return { best: b?.solve ?? null, structure: b?.structure ?? null, alternating: b !== null && b.structure === null, solves: spent(), evaluations };
 }

@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { DescentSolver } from '../../../core/descent/solver.ts';
 import { landreachConicBackend } from '../../../core/descent/conicBackend.ts';
 import { searchFreeFinalTime } from '../../../core/descent/search.ts';
-import { seedStructure, structureRanges } from '../../../core/descent/band.ts';
+import { alternatingRanges, seedStructure, structureOf, structureRanges } from '../../../core/descent/band.ts';
 import { validateSetup, type DescentSetup, type IgnitionState } from '../../../core/descent/setup.ts';
 import { countByStatus, emptyField, TARGET } from '../../../core/footprint/field.ts';
 import { makeTargetGrid } from '../../../core/footprint/grid.ts';
@@ -60,6 +60,21 @@ describe('throttle band in the search', () => {
     expect(Array.from(structureRanges({ i1: 2, i2: 5 }, ranges, profile))).toEqual([0.6, 0.9, 0.6, 0.9, 0.4, 0.5, 0.2, 0.3, 0.2, 0.3, 0.6, 0.9, 0.6, 0.9]);
     // A profile that never goes low: everything in the top range.
     expect(seedStructure(Float64Array.of(0.9, 0.8), ranges)).toEqual({ i1: 2, i2: 2 });
+  });
+});
+
+describe('alternating assignment (sigma–delta rounding)', () => {
+  it('alternates an in-band arc between the ranges either side, keeping its mean, and leaves in-range intervals alone', () => {
+    const ranges: [number, number][] = [[0.3, 0.4], [0.6, 0.8]];
+    // An arc at 0.5 (inside the band 0.4–0.6): the edges 0.6, 0.4, 0.6, 0.4 have the mean 0.5 (by hand).
+    const out = alternatingRanges(Float64Array.of(0.8, 0.5, 0.5, 0.5, 0.5, 0.35), ranges)!;
+    const pick = Array.from({ length: 6 }, (_, k) => (out[2 * k] === 0.6 ? 'H' : 'L')).join('');
+    expect(pick).toBe('HHLHLL');
+    expect(alternatingRanges(Float64Array.of(0.8, 0.35, 0.7), ranges)).toBeNull();
+    // HHLHLL is not max–min–max; rounding only a switch interval (HHLLHH) is.
+    expect(structureOf(out, ranges)).toBeNull();
+    const switchOnly = alternatingRanges(Float64Array.of(0.8, 0.5, 0.35, 0.35, 0.7, 0.8), ranges)!;
+    expect(structureOf(switchOnly, ranges)).toEqual({ i1: 2, i2: 4 });
   });
 });
 
