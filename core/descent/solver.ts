@@ -106,7 +106,7 @@ export class DescentSolver {
     timeOfFlight: number,
     target: Vec3,
     ignition: IgnitionState,
-    extra: Pick<ProgramData, 'direction' | 'propellantBudget' | 'thrustDirections'> = {},
+    extra: Pick<ProgramData, 'direction' | 'propellantBudget' | 'thrustDirections' | 'throttleIntervals'> = {},
   ): FixedTimeSolve {
     const data: ProgramData = { timeOfFlight, target, ignition, ...extra };
     const e = this.entry(kind, data);

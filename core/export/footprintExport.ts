@@ -9,7 +9,7 @@ import { APP_VERSION, CAUTION } from '../study/provenance.ts';
 export { footprintGeoJson, rightHandRule, type FootprintGeoJsonInput, type FootprintLonLat, type GeoJsonSite, type LocalToLonLat } from './footprintGeoJson.ts';
 export type { FootprintSummary } from '../footprint/studyFootprint.ts';
 
-const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget', 'relaxation-gap'] as const;
+const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget', 'relaxation-gap', 'undecided'] as const;
 
 /** `between_nodes`: the dense re-simulation's verdict (empty: not checked). */
 const BETWEEN_NODES_NAME = ['', 'met', 'missed'] as const;
@@ -48,7 +48,7 @@ export function partialResultLine(field: FootprintField): string | null {
  * One row per target. `between_nodes` is `met` when the re-simulated trajectory meets every constraint between its
  * nodes, `missed` when one is missed beyond tolerance, empty when not checked. `within_budget` is 1 where the minimum propellant is at most `budget_kg` (the usable
  * propellant less the reserve), 0 where it is certainly above it or unreachable, empty where not computed or
- * not established (a relaxation-gap target whose best flyable trajectory is above the budget).
+ * not established (a relaxation-gap target whose best flyable trajectory is above the budget, an undecided one).
  * A partial field (a run stopped early) gets a second comment line saying so.
  */
 export function footprintCsv(field: FootprintField, budget_kg: number): string {

@@ -47,6 +47,8 @@ export interface FootprintSummary {
   overBudget: number;
   /** Targets where the relaxation was not lossless and no flyable trajectory within tolerance of its bound was found. */
   relaxationGap: number;
+  /** Forbidden throttle bands: targets neither proven reachable within the budget nor excluded by the lower bound. */
+  undecided?: number;
   /**
    * Targets whose trajectory misses a constraint between its nodes beyond tolerance in the dense
    * re-simulation (core/descent/verify.ts); 0 when all met.

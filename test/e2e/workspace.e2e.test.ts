@@ -366,7 +366,7 @@ describe.runIf(browser)('workspace in Chromium', () => {
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('save').click()]);
     expect(download.suggestedFilename()).toBe('rim-trade-invented.landreach.json');
     const doc = JSON.parse(await fs.readFile((await download.path())!, 'utf8'));
-    expect(doc).toMatchObject({ format: 'landreach-study', version: 1, name: 'Rim trade (invented)', vehicle: { isp_s: 230 } });
+    expect(doc).toMatchObject({ format: 'landreach-study', version: 2, name: 'Rim trade (invented)', vehicle: { isp_s: 230 } });
     expect(await page.getByTestId('file-state').textContent()).toMatch(/rim-trade-invented\.landreach\.json\s*$/);
     expect(session.problems).toEqual([]);
   });

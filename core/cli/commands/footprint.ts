@@ -11,7 +11,7 @@ import os from 'node:os';
 import { join } from 'node:path';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
-import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
+import { manifestName, parseVehicleFlag, readStudy, removeOrphanTemporaries, VEHICLE_FLAGS_USAGE, type VehicleFlags, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
 import { nominalTargetOnDem, openDem, type Flags } from '../dem.ts';
 import { footprintLonLat, footprintPlace, type FootprintPlace } from '../../footprint/georeferencedFootprint.ts';
@@ -64,6 +64,7 @@ Options:
                      header is read, so any size of DEM will do
   --body-radius-m R, --origin-lat-deg A, --origin-lon-deg B
                      with --terrain: as for landreach hazard (geographic DEMs)
+${VEHICLE_FLAGS_USAGE}
 
 Writes footprint.json (versioned report), footprint.csv (one row per target), footprint.geojson
 (contours and the reserve boundary, RFC 7946: local metres
@@ -94,6 +95,7 @@ interface Options {
   /** --terrain and the flags passed on to the DEM reader. */
   terrain: string | null;
   demFlags: Flags;
+  vehicle: VehicleFlags;
 }
 
 const DEM_FLAGS = ['--target-east-m', '--target-north-m', '--body-radius-m', '--origin-lat-deg', '--origin-lon-deg'];
@@ -121,9 +123,12 @@ function parseArgs(args: string[]): Options {
     refine: null,
     terrain: null,
     demFlags: {},
+    vehicle: {},
   };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
+    const used = parseVehicleFlag(args, i, o.vehicle);
+    if (used > 0) { i += used - 1; continue; }
     const value = () => {
       const v = args[++i];
       if (v === undefined || v.startsWith('--')) throw new UsageError(`${a} needs a value (see landreach footprint --help)`);
@@ -211,7 +216,7 @@ export const footprintCommand: CliCommand = {
   usage: USAGE,
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parseArgs(args);
-    const study: Study = readStudy(o.study);
+    const study: Study = readStudy(o.study, o.vehicle);
     const reserve = o.reserve ?? study.vehicle.propellantReserve_kg;
     const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
     if (reserve >= usable) throw new UsageError(`--reserve-kg ${reserve}: must be below the usable propellant, ${usable} kg (wet minus dry mass)`);
@@ -305,7 +310,8 @@ async function runFootprint(o: Options, study: Study, mass: { reserve: number; u
       `status:      ${cancelled ? `stopped early${stop.signalName ? ` by ${stop.signalName}` : ''} (partial result written: ${counts.pending} targets not computed)` : 'complete'}`,
       `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
         (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : '') +
-        (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (not lossless: flyable cost above the certified bound)` : ''),
+        (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (flyable or band-respecting cost above the certified lower bound)` : '') +
+        ((counts.undecided ?? 0) > 0 ? `, ${counts.undecided} undecided (throttle band: lower bound within the budget, no band-respecting trajectory found within it)` : ''),
       ...(summary.betweenNodesMissed > 0
         ? [`warning:     ${summary.betweenNodesMissed} target(s) miss a constraint between their nodes in the dense re-simulation (see between_nodes in footprint.csv)`]
         : []),
