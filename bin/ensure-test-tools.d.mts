@@ -1,5 +1,5 @@
 /** A reference tool's id. */
-export type ReferenceToolId = 'cvxopt' | 'numpy' | 'matplotlib' | 'pillow' | 'gdal-python' | 'gdal' | 'chromium';
+export type ReferenceToolId = 'cvxopt' | 'numpy' | 'scipy' | 'matplotlib' | 'pillow' | 'gdal-python' | 'gdal' | 'chromium';
 export interface ReferenceTool {
   id: ReferenceToolId;
   /** The name shown to people (CVXOPT, GDAL…). */

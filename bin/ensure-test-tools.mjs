@@ -23,6 +23,7 @@ export const GDAL_PROGRAMS = ['gdalinfo', 'gdal_translate', 'gdal_create', 'gdal
 const PYTHON_MODULES = [
   { id: 'cvxopt', label: 'CVXOPT', module: 'cvxopt', debian: 'python3-cvxopt' },
   { id: 'numpy', label: 'NumPy', module: 'numpy', debian: 'python3-numpy' },
+  { id: 'scipy', label: 'SciPy', module: 'scipy.stats', debian: 'python3-scipy' },
   { id: 'matplotlib', label: 'Matplotlib', module: 'matplotlib', debian: 'python3-matplotlib' },
   { id: 'pillow', label: 'Pillow', module: 'PIL', debian: 'python3-pil' },
   { id: 'gdal-python', label: "GDAL's Python bindings", module: 'osgeo.gdal', debian: 'python3-gdal' },

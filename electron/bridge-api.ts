@@ -12,6 +12,8 @@ export const EXPORT_KINDS = {
   geojson: { extension: 'geojson', label: 'GeoJSON', binary: false },
   json: { extension: 'json', label: 'JSON report', binary: false },
   svg: { extension: 'svg', label: 'SVG map', binary: false },
+  jsonfg: { extension: 'json', label: 'JSON-FG', binary: false },
+  tif: { extension: 'tif', label: 'GeoTIFF', binary: true },
 } as const;
 export type ExportKind = keyof typeof EXPORT_KINDS;
 
@@ -54,8 +56,9 @@ export type OpenTerrainResult =
 export const TERRAIN_EXTENSIONS = ['tif', 'tiff', 'png', 'json'] as const;
 
 /**
- * Largest elevation-model file accepted (256 MiB): core/terrain reads at most 4096 × 4096 cells, which is
- * 64 MiB of Float32 heights uncompressed, or 128 MiB as Float64; anything bigger needs cutting to a window first.
+ * Largest elevation-model file accepted (256 MiB): the app holds the file's bytes in memory (core/terrain then
+ * builds at most 4096 × 4096 cells from it, MAX_GRID_CELLS); a bigger file needs cutting to a window first,
+ * or the command line, which reads a file a byte range at a time.
  */
 export const MAX_TERRAIN_BYTES = 256 * 1024 * 1024;
 

@@ -213,7 +213,7 @@ export async function readTerrainFile(file: string, fs: FileSystem = realFileSys
   if (!info.isFile()) throw new FileServiceError(`${name} is not a file. Choose an elevation model file.`);
   if (info.size > maxBytes) {
     throw new FileServiceError(
-      `${name} is ${(info.size / 1048576).toFixed(1)} MiB, larger than the ${maxBytes / 1048576} MiB an elevation model may be here. Cut a window of at most 4096 × 4096 cells first (e.g. gdal_translate -srcwin).`,
+      `${name} is ${(info.size / 1048576).toFixed(1)} MiB, larger than the ${maxBytes / 1048576} MiB an elevation model may be here (the app holds the file in memory). Cut a window around the site first (e.g. gdal_translate -projwin), or use the command line (landreach hazard --study … --extent-m), which reads a large DEM a window at a time.`,
     );
   }
   try {

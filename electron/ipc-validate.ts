@@ -66,6 +66,8 @@ export function expectExportRequest(value: unknown): ExportRequest {
     // PNG signature (ISO/IEC 15948 §5.2): refuse bytes that are not what the kind says.
     const signature = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
     if (kind === 'png' && !signature.every((b, i) => data[i] === b)) throw new IpcValidationError('invalid png export data: missing PNG signature');
+    // Little-endian TIFF header (TIFF 6.0 §2: "II", 42), as core/terrain's writer makes it.
+    if (kind === 'tif' && !(data[0] === 0x49 && data[1] === 0x49 && data[2] === 42 && data[3] === 0)) throw new IpcValidationError('invalid tif export data: missing TIFF header');
   } else {
     expectText(data, `${kind} export data`);
   }

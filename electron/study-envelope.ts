@@ -8,7 +8,7 @@
 
 export const STUDY_FORMAT = 'landreach-study';
 /** Newest study-file version this build reads and writes. */
-export const STUDY_VERSION = 1;
+export const STUDY_VERSION = 2;
 
 export type EnvelopeCheck =
   | { kind: 'study'; version: number }

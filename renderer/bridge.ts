@@ -71,7 +71,12 @@ const EXPORT_TYPES: Record<string, string> = {
   geojson: 'application/geo+json',
   json: 'application/json',
   svg: 'image/svg+xml',
+  jsonfg: 'application/vnd.ogc.fg+json',
+  tif: 'image/tiff',
 };
+
+/** File extension per export kind, where it is not the kind's name (electron/bridge-api.ts EXPORT_KINDS says the same). */
+const EXPORT_EXTENSIONS: Record<string, string> = { jsonfg: 'json' };
 
 /** The fallback used when the page runs outside Electron. */
 export function createBrowserBridge(): LandreachBridge {
@@ -90,7 +95,7 @@ export function createBrowserBridge(): LandreachBridge {
       const file = await pickFile(TERRAIN_EXTENSIONS.map((e) => `.${e}`).join(','), 'terrain-file-input');
       if (!file) return { status: 'cancelled' };
       if (file.size > MAX_TERRAIN_BYTES) {
-        return { status: 'error', message: `${file.name} is ${(file.size / 1048576).toFixed(1)} MiB, larger than the ${MAX_TERRAIN_BYTES / 1048576} MiB an elevation model may be here. Cut a window of at most 4096 × 4096 cells first.` };
+        return { status: 'error', message: `${file.name} is ${(file.size / 1048576).toFixed(1)} MiB, larger than the ${MAX_TERRAIN_BYTES / 1048576} MiB an elevation model may be here (the app holds the file in memory). Cut a window around the site first (e.g. gdal_translate -projwin), or use the command line, which reads a large DEM a window at a time.` };
       }
       try {
         return { status: 'opened', name: file.name, bytes: new Uint8Array(await file.arrayBuffer()) };
@@ -111,7 +116,7 @@ export function createBrowserBridge(): LandreachBridge {
     },
     async newStudy() {},
     async exportFile(request: ExportRequest): Promise<WriteResult> {
-      const name = withExtension(request.suggestedName, `.${request.kind}`);
+      const name = withExtension(request.suggestedName, `.${EXPORT_EXTENSIONS[request.kind] ?? request.kind}`);
       download(name, request.data, EXPORT_TYPES[request.kind]);
       return { status: 'written', path: name, name };
     },

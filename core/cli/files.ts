@@ -5,7 +5,7 @@
 import { createHash } from 'node:crypto';
 import { closeSync, existsSync, fsyncSync, openSync, readdirSync, readFileSync, renameSync, unlinkSync, writeSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
-import { decodeStudyBytes, parseStudyText, StudyError, type Study } from '../study/index.ts';
+import { decodeStudyBytes, parseStudy, parseStudyJson, StudyError, type Study } from '../study/index.ts';
 import { APP_VERSION, CAUTION } from '../study/provenance.ts';
 import { UsageError } from './command.ts';
 
@@ -13,7 +13,7 @@ import { UsageError } from './command.ts';
  * Reads and validates a study file (UTF-8, a byte-order mark allowed; core/study checks the values and
  * the descent they describe); every problem becomes a UsageError naming the field and the fix.
  */
-export function readStudy(path: string): Study {
+export function readStudy(path: string, vehicle: VehicleFlags = {}): Study {
   let bytes: Uint8Array;
   try {
     bytes = readFileSync(path);
@@ -21,11 +21,59 @@ export function readStudy(path: string): Study {
     throw new UsageError(`cannot read study file '${path}': ${(err as NodeJS.ErrnoException).code ?? (err as Error).message} (check the path)`);
   }
   try {
-    return parseStudyText(decodeStudyBytes(bytes, path), path);
+    const raw = parseStudyJson(decodeStudyBytes(bytes, path), path);
+    return parseStudy(withVehicleFlags(raw, vehicle), path);
   } catch (err) {
     if (err instanceof StudyError) throw new UsageError(err.message);
     throw err;
   }
+}
+
+/** Vehicle fields given on the command line (study format version 2 fields), overriding the study's. */
+export interface VehicleFlags {
+  throttleBands?: [number, number][];
+  throttleRate_perS?: number;
+}
+
+/** The usage text of the vehicle flags, shared by the commands that take them. */
+export const VEHICLE_FLAGS_USAGE = `  --throttle-band LO,HI
+                     a forbidden throttle band (fractions of full thrust, e.g. 0.4,0.6); repeat for
+                     several; replaces the study's vehicle.throttleBands
+  --throttle-rate R  largest throttle rate, fraction of full thrust per second (vehicle.throttleRate_perS)`;
+
+/** Reads one vehicle flag at args[i] into `into`; returns how many arguments it used (0: not a vehicle flag). */
+export function parseVehicleFlag(args: string[], i: number, into: VehicleFlags): number {
+  const a = args[i];
+  if (a !== '--throttle-band' && a !== '--throttle-rate') return 0;
+  const text = args[i + 1];
+  if (text === undefined || text.startsWith('--')) throw new UsageError(`${a} needs a value (e.g. ${a === '--throttle-band' ? '--throttle-band 0.4,0.6' : '--throttle-rate 0.5'})`);
+  if (a === '--throttle-rate') {
+    const v = Number(text);
+    if (!(Number.isFinite(v) && v > 0) || text.trim() === '') throw new UsageError(`--throttle-rate ${text}: must be a positive fraction of full thrust per second, e.g. 0.5`);
+    into.throttleRate_perS = v;
+  } else {
+    const parts = text.split(',').map((x) => Number(x.trim()));
+    if (parts.length !== 2 || !parts.every(Number.isFinite)) throw new UsageError(`--throttle-band ${text}: must be LO,HI as fractions of full thrust, e.g. 0.4,0.6`);
+    (into.throttleBands ??= []).push([parts[0], parts[1]]);
+  }
+  return 2;
+}
+
+/**
+ * The study's JSON with the vehicle flags written in (a version-1 study becomes version 2, which only adds
+ * these optional fields); the study file itself is never touched. Values are checked by the study schema,
+ * so a bad band is reported with the field name like one in the file.
+ */
+function withVehicleFlags(raw: unknown, flags: VehicleFlags): unknown {
+  if (flags.throttleBands === undefined && flags.throttleRate_perS === undefined) return raw;
+  if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) return raw;
+  const doc = raw as Record<string, unknown>;
+  const vehicle = doc.vehicle !== null && typeof doc.vehicle === 'object' && !Array.isArray(doc.vehicle) ? { ...(doc.vehicle as Record<string, unknown>) } : doc.vehicle;
+  if (vehicle !== null && typeof vehicle === 'object') {
+    if (flags.throttleBands !== undefined) (vehicle as Record<string, unknown>).throttleBands = flags.throttleBands;
+    if (flags.throttleRate_perS !== undefined) (vehicle as Record<string, unknown>).throttleRate_perS = flags.throttleRate_perS;
+  }
+  return { ...doc, version: doc.version === 1 ? 2 : doc.version, vehicle };
 }
 
 /**

@@ -8,7 +8,7 @@ import type { CliIo } from './command.ts';
 import type { FootprintField } from '../footprint/field.ts';
 import { footprintFigures } from '../footprint/studyFootprint.ts';
 import { footprintLonLat } from '../footprint/georeferencedFootprint.ts';
-import { footprintGeoJson, partialResultLine, type FootprintLonLat, type GeoJsonSite } from '../study/footprintExport.ts';
+import { footprintGeoJson, partialResultLine, type FootprintLonLat, type GeoJsonSite } from '../export/footprintExport.ts';
 import type { Study } from '../study/index.ts';
 import { TerrainInputError, type ElevationGrid } from '../terrain/grid.ts';
 

@@ -1,18 +1,19 @@
 import type { CliCommand, CliIo } from './command.ts';
 import { UsageError } from './command.ts';
 import { COMMANDS } from './commands/index.ts';
-import { CAUTION } from '../study/provenance.ts';
+import { APP_VERSION, CAUTION } from '../study/provenance.ts';
 
 
-function helpText(): string {
-  const width = Math.max(...COMMANDS.map((c) => c.name.length));
+async function helpText(): Promise<string> {
+  const commands = await Promise.all(COMMANDS.map((c) => c.load()));
+  const width = Math.max(...commands.map((c) => c.name.length));
   return [
     'landreach — powered-descent divert budgeting from the command line',
     '',
-    'Usage: landreach COMMAND [options]   (landreach COMMAND --help for details)',
+    'Usage: landreach COMMAND [options]   (landreach COMMAND --help for details; landreach --version)',
     '',
     'Commands:',
-    ...COMMANDS.map((c) => `  ${c.name.padEnd(width)}  ${c.summary}`),
+    ...commands.map((c) => `  ${c.name.padEnd(width)}  ${c.summary}`),
     '',
     CAUTION,
     '',
@@ -31,14 +32,19 @@ export function defaultIo(): CliIo {
 export async function main(argv: string[], io: CliIo = defaultIo()): Promise<number> {
   const [name, ...rest] = argv;
   if (!name || name === '--help' || name === '-h' || name === 'help') {
-    io.stdout(helpText());
+    io.stdout(await helpText());
     return name ? 0 : 2;
   }
-  const command: CliCommand | undefined = COMMANDS.find((c) => c.name === name);
-  if (!command) {
+  if (name === '--version' || name === '-V') {
+    io.stdout(`landreach ${APP_VERSION}\n`);
+    return 0;
+  }
+  const entry = COMMANDS.find((c) => c.name === name);
+  if (!entry) {
     io.stderr(`landreach: unknown command '${name}'. Known commands: ${COMMANDS.map((c) => c.name).join(', ')}.\n`);
     return 2;
   }
+  const command: CliCommand = await entry.load();
   if (rest.includes('--help') || rest.includes('-h')) {
     io.stdout(command.usage + '\n');
     return 0;

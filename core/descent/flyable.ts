@@ -30,7 +30,7 @@ export function relativeLosslessnessGap(solver: DescentSolver, r: FixedTimeSolve
   return lossyNodes(solver, r, ignition, 0).gap;
 }
 
-function lossyNodes(solver: DescentSolver, r: FixedTimeSolve, ignition: IgnitionState, threshold: number): { gap: number; nodes: number[] } {
+export function lossyNodes(solver: DescentSolver, r: FixedTimeSolve, ignition: IgnitionState, threshold: number): { gap: number; nodes: number[] } {
   const program = solver.program(r.kind);
   const accel = deriveVehicle(solver.setup.vehicle).rho2 / ignition.mass;
   const x = r.solution.x;

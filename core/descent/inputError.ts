@@ -8,6 +8,7 @@ export type DescentField =
   | 'planet.gravity' | 'planet.rotationRate'
   | 'vehicle.wetMass' | 'vehicle.dryMass' | 'vehicle.isp' | 'vehicle.engineCount' | 'vehicle.thrustPerEngine'
   | 'vehicle.cantAngle' | 'vehicle.throttleMin' | 'vehicle.throttleMax' | 'vehicle.pointingLimit'
+  | 'vehicle.throttleBands' | 'vehicle.throttleRate'
   | 'constraints.glideSlope' | 'constraints.maxSpeed' | 'constraints.gateHeight' | 'constraints.gateDescentRate'
   | 'constraints.minAltitude'
   | 'nodes' | 'hold'

@@ -27,16 +27,16 @@ export function rotationAtLatitude(siderealRate: number, latitudeRad: number): V
 }
 
 /**
- * Mars surface gravity 3.71 m/s² and sidereal rotation period 24.6229 h: NASA/NSSDCA Mars Fact Sheet
- * values, quoted from memory. The rotation vector here is for the equator; use
+ * Mars surface gravity 3.71 m/s² and sidereal rotation period 24.6229 h: common-practice values
+ * from the published planetary fact sheets, quoted from memory (second-hand; no check rests on them alone). The rotation vector here is for the equator; use
  * `rotationAtLatitude(MARS_SIDEREAL_RATE, lat)` for a site.
  */
 export const MARS_SURFACE_GRAVITY = 3.71;
 export const MARS_SIDEREAL_RATE = (2 * Math.PI) / (24.6229 * 3600);
 
 /**
- * Moon surface gravity 1.62 m/s² and sidereal rotation period 655.72 h (27.3217 d): NASA/NSSDCA Moon
- * Fact Sheet values, quoted from memory.
+ * Moon surface gravity 1.62 m/s² and sidereal rotation period 655.72 h (27.3217 d): common-practice
+ * values from the published planetary fact sheets, quoted from memory (second-hand).
  */
 export const MOON_SURFACE_GRAVITY = 1.62;
 export const MOON_SIDEREAL_RATE = (2 * Math.PI) / (655.72 * 3600);

@@ -17,6 +17,7 @@
  *   boundary    r_0, v_0, z_0 = ln m0 fixed; r_{N−1} = target + gate height, v_{N−1} = (0, 0, −gate rate)
  *   ZOH only    (u, σ)_{N−1} = (u, σ)_{N−2}: the last node reports the hold value of the last interval
  *   flyable     (min-propellant-flyable only) d_kᵀu_k ≥ σ_k at nodes given a direction d_k (see ProgramData)
+ *   rate        (vehicle.throttleRate set) |σ_{k+1} − σ_k| ≤ c_k, see throttleRateStep below
  * Minimum propellant: maximise z_{N−1}. Minimum landing error (Blackmore 2010): the horizontal
  * landing position is free and ‖(r_{N−1} − target)_xy‖ ≤ e is minimised (with a tiny propellant tie-break).
  *
@@ -36,12 +37,19 @@ import { deriveVehicle } from './vehicle.ts';
  * as the vehicle can (Blackmore et al. 2010). max-divert: land as far along a horizontal direction as a
  * propellant budget allows (the reach boundary of the footprint, one direction at a time).
  */
-export type ProgramKind = 'min-propellant' | 'min-landing-error' | 'max-divert' | 'min-propellant-flyable';
+export type ProgramKind = 'min-propellant' | 'min-landing-error' | 'max-divert' | 'min-propellant-flyable' | 'min-propellant-band';
 
 /** Kinds that land exactly on the target (the landing point is data). */
 export function landsOnTarget(kind: ProgramKind): boolean {
-  return kind === 'min-propellant' || kind === 'min-propellant-flyable';
+  return kind === 'min-propellant' || kind === 'min-propellant-flyable' || kind === 'min-propellant-band';
 }
+
+/**
+ * Lowest throttle fraction the band restriction imposes on an interval assigned to a range that starts at
+ * zero: the rotated cone of the lower bound needs a positive coefficient to keep a strict interior. Being a
+ * restriction (the engine may go lower), it can only raise the band-respecting cost, never the lower bound.
+ */
+export const BAND_THROTTLE_FLOOR = 0.005;
 
 /** Per-solve data: only values depend on it. */
 export interface ProgramData {
@@ -58,6 +66,16 @@ export interface ProgramData {
    * along d_k, so the node's thrust is flyable (a convex restriction of the non-convex thrust set).
    */
   readonly thrustDirections?: Float64Array;
+  /**
+   * min-propellant-band (zero-order hold): per hold interval k = 0 … N−2 the allowed throttle range
+   * [lo_k, hi_k] (fractions of full thrust, 2(N − 1) entries) that the whole interval keeps: with u_k held
+   * and the mass falling, the thrust m(t)‖u_k‖ sweeps [m_{k+1}σ_k, m_kσ_k] (lossless), so
+   *   m_{k+1}σ_k ≥ lo_k F  (the second-order lower bound of Açıkmeşe & Ploen, expanded at node k + 1)
+   *   m_k σ_k ≤ hi_k F     (the linearised upper bound at node k)
+   * and both lie inside the exact bounds (z ≥ z0): the interval respects the range at every instant.
+   * Absent: [throttleMin, throttleMax] everywhere. The thrustDirections rows are part of this kind too.
+   */
+  readonly throttleIntervals?: Float64Array;
 }
 
 /** Field offsets inside one node's block of variables. */
@@ -277,7 +295,7 @@ export class DescentProgram {
       e.g(r, idx(last, NODE.z), -1);
       e.h(r, -Math.log(m0 - budget));
     }
-    if (kind === 'min-propellant-flyable') {
+    if (kind === 'min-propellant-flyable' || kind === 'min-propellant-band') {
       // σ_k − d_kᵀu_k ≤ 0 where a direction is given; elsewhere d_k = 0 and the row reads σ_k ≤ 2 μ2,k,
       // which the upper thrust bound already implies (σ_k ≤ μ2,k(1 − δ) with δ ≥ 0): inactive.
       const dirs = d.thrustDirections;
@@ -289,6 +307,34 @@ export class DescentProgram {
         e.g(r, idx(k, NODE.sigma), 1);
         for (let i = 0; i < 3; i++) e.g(r, idx(k, NODE.u + i), -dk[i]);
         e.h(r, set ? 0 : 2 * rho2 * Math.exp(-zRef[k]));
+      }
+    }
+    const band = kind === 'min-propellant-band';
+    const { fullThrust } = deriveVehicle(veh);
+    const ranges = d.throttleIntervals;
+    if (band) {
+      if (setup.hold !== 'zoh') throw new RangeError("min-propellant-band needs zero-order hold (hold: 'zoh')");
+      if (ranges !== undefined && ranges.length !== 2 * (N - 1)) throw new RangeError(`throttleIntervals: ${ranges.length} entries (must be 2 × (nodes − 1) = ${2 * (N - 1)})`);
+      for (let k = 0; k + 1 < N; k++) {
+        const hi = ranges ? ranges[2 * k + 1] : veh.throttleMax;
+        const mu = hi * fullThrust * Math.exp(-zRef[k]);
+        const r = e.orthRow(1 / S.accel);
+        e.g(r, idx(k, NODE.sigma), 1);
+        e.g(r, idx(k, NODE.z), mu);
+        e.h(r, mu * (1 + zRef[k]));
+      }
+    }
+    const rate = veh.throttleRate ?? null;
+    if (rate !== null) {
+      // |σ_{k+1} − σ_k| ≤ c_k on the magnitude slack (both signs: two rows per interval).
+      for (let k = 0; k + 1 < N; k++) {
+        const c = throttleRateStep(rate, fullThrust, alpha, rho2, dt, zRef[k + 1], zMax[k + 1]);
+        for (const sign of [1, -1]) {
+          const r = e.orthRow(1 / S.accel);
+          e.g(r, idx(k + 1, NODE.sigma), sign);
+          e.g(r, idx(k, NODE.sigma), -sign);
+          e.h(r, c);
+        }
       }
     }
     if (con.minAltitude !== null) {
@@ -317,6 +363,23 @@ export class DescentProgram {
         e.g(t0 - 2, idx(k, NODE.sigma), -1);
         e.g(t0 - 2, idx(k, NODE.z), -mu1);
         e.h(t0 - 2, -mu1 * zRef[k] - (3 * mu1) / 2);
+      }
+    }
+    if (band) {
+      // Lower end of each interval's range at the interval's END (node k + 1): same rotated cone as above.
+      for (let k = 0; k + 1 < N; k++) {
+        const lo = Math.max(ranges ? ranges[2 * k] : veh.throttleMin, BAND_THROTTLE_FLOOR);
+        const zr = zRef[k + 1];
+        const mu1 = lo * fullThrust * Math.exp(-zr);
+        const t0 = e.soc(3, 1 / S.accel);
+        e.g(t0, idx(k, NODE.sigma), -1);
+        e.g(t0, idx(k + 1, NODE.z), -mu1);
+        e.h(t0, -mu1 * zr - mu1 / 2);
+        e.g(t0 - 1, idx(k + 1, NODE.z), -mu1);
+        e.h(t0 - 1, -mu1 * zr);
+        e.g(t0 - 2, idx(k, NODE.sigma), -1);
+        e.g(t0 - 2, idx(k + 1, NODE.z), -mu1);
+        e.h(t0 - 2, -mu1 * zr - (3 * mu1) / 2);
       }
     }
     if (con.glideSlope !== null) {
@@ -367,6 +430,27 @@ export class DescentProgram {
       e.c(idx(last, NODE.z), -1);
     }
   }
+}
+
+/**
+ * The bound c on |σ_{k+1} − σ_k| that keeps the thrust-magnitude change over one step within the throttle-rate
+ * limit, |T_{k+1} − T_k| ≤ R F Δt (R the rate in full thrust per second, F the full net thrust), for every
+ * mass the program allows. The program's variables are mass-normalised (σ = Γ/m, Açıkmeşe & Ploen 2007), so
+ * the thrust T_k = m_k σ_k (where ‖u_k‖ = σ_k) is bilinear; split
+ *     T_{k+1} − T_k = m_{k+1}(σ_{k+1} − σ_k) − (m_k − m_{k+1}) σ_k
+ * and bound each part over the program's mass bounds: m_{k+1} ≤ m̄_{k+1} = e^{zMax_{k+1}} (burning at the
+ * lowest thrust), and (m_k − m_{k+1})σ_k ≤ α Δt ρ2 · ρ2 e^{−zRef_{k+1}} (the mass flow is at most α ρ2,
+ * and σ_k ≤ ρ2/m_k ≤ ρ2 e^{−zRef_{k+1}}). So
+ *     m̄_{k+1}|σ_{k+1} − σ_k| ≤ R F Δt − α Δt ρ2² e^{−zRef_{k+1}}
+ * is a convex (linear) SUFFICIENT condition: conservative by the mass-loss term (α ρ2²/m per second, a few
+ * thousandths of full thrust per second on the demo lander) and by the ratio m̄_{k+1}/m_{k+1} ≥ 1 of the
+ * mass bounds. It constrains the flown thrust only where the relaxation is lossless (‖u_k‖ = σ_k): the
+ * search checks that, and restores a flyable thrust with the rows kept where it is not (flyable.ts).
+ * Returns a value ≥ 0 (0: the rate is below the mass-loss drift there; validateSetup refuses such rates).
+ */
+export function throttleRateStep(rate: number, fullThrust: number, alpha: number, rho2: number, dt: number, zRefNext: number, zMaxNext: number): number {
+  const drift = alpha * dt * rho2 * rho2 * Math.exp(-zRefNext);
+  return Math.max(0, (rate * fullThrust * dt - drift) / Math.exp(zMaxNext));
 }
 
 /** Tie-break weight of −z_final in the minimum-landing-error objective (objective in units of the length scale). */

@@ -25,6 +25,8 @@ import { timeOfFlightBracket } from './bracket.ts';
 import type { TimeBracket } from './bracket.ts';
 import { bracketFrom, brentMinimise } from './brent.ts';
 import { flyableAt, relativeLosslessnessGap } from './flyable.ts';
+import { bandRespectingNear } from './band.ts';
+import type { BandStructure } from './band.ts';
 import { slopeMinimise } from './slopeMinimise.ts';
 import type { SlopePoint } from './slopeMinimise.ts';
 import type { ProgramKind } from './program.ts';
@@ -79,6 +81,8 @@ export interface SearchOptions {
   landingErrorTfTolerance?: number;
   /** Seek a flyable trajectory when the relaxation is not lossless (default true; false reports the gap only). */
   restoreFlyable?: boolean;
+  /** Forbidden throttle bands: most solves the band-respecting search may spend per target (default 80). */
+  bandMaxSolves?: number;
 }
 
 /** First step of the local search, as a fraction of the starting t_f. */
@@ -94,8 +98,13 @@ const FLYABLE_TF_TOLERANCE = 0.02;
  * more than the tolerance above the certified lower bound (or none was found): both are reported.
  * unreachable: certified (infeasibility certificates or a positive minimum landing error).
  * solver-failure: neither a solution nor a certificate.
+ * undecided (forbidden throttle bands only): the relaxation that ignores the band does not exclude the target
+ * (its certified lower bound is within the budget, or there is no budget), but no band-respecting trajectory
+ * was found within the budget: neither reachable nor unreachable is proven. With bands, 'solved' means a
+ * band-respecting trajectory within the propellant tolerance of the lower bound, 'relaxation-gap' one that
+ * costs more (both figures reported; band.ts).
  */
-export type DescentStatus = 'solved' | 'relaxation-gap' | 'unreachable' | 'solver-failure';
+export type DescentStatus = 'solved' | 'relaxation-gap' | 'unreachable' | 'solver-failure' | 'undecided';
 
 export interface DescentResult {
   status: DescentStatus;
@@ -130,6 +139,15 @@ export interface DescentResult {
   peakTilt: number;
   /** Reachable-set runs: the certified lower bound above the budget when the search stopped for it, kg; else NaN. */
   overBudgetBound_kg: number;
+  /**
+   * Forbidden throttle bands: band-respecting propellant less the certified lower bound (the relaxation that
+   * ignores the band), kg; NaN without bands or when no band-respecting trajectory was found.
+   */
+  bandGap_kg: number;
+  /** Forbidden throttle bands: the max–min–max switch indices of the returned trajectory (hold intervals), or null. */
+  bandStructure: BandStructure | null;
+  /** Forbidden throttle bands: conic solves the band-respecting search spent (included in `solves`). */
+  bandSolves: number;
   warnings: string[];
 }
 
@@ -283,7 +301,7 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
   const result = (partial: Partial<DescentResult> & Pick<DescentResult, 'status'>): DescentResult => ({
     target, timeOfFlight: NaN, propellant: NaN, propellantLowerBound: NaN, solves: solver.solves - startSolves, bracket: br,
     closestPoint: null, miss: NaN, infeasibleStatuses: [], failures: 0, kind: null, trajectory: null,
-    relaxedLosslessnessGap: NaN, curvature: NaN, peakTilt: NaN, overBudgetBound_kg: NaN, warnings, ...partial,
+    relaxedLosslessnessGap: NaN, curvature: NaN, peakTilt: NaN, overBudgetBound_kg: NaN, bandGap_kg: NaN, bandStructure: null, bandSolves: 0, warnings, ...partial,
   });
   const decodeOf = (r: FixedTimeSolve) => ((options.decode ?? true) ? decodeTrajectory(solver.program(r.kind), r.solution.x, r.timeOfFlight, target) : null);
 
@@ -305,6 +323,7 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
       return result({ ...common, status: 'solved', timeOfFlight: relaxed.timeOfFlight, propellant: relaxed.propellant, overBudgetBound_kg: lowerBound, relaxedLosslessnessGap: NaN });
     }
     const relGap = relativeLosslessnessGap(solver, relaxed, ignition);
+    if ((solver.setup.vehicle.throttleBands ?? []).length > 0) return finishBand(phase, relaxed, lowerBound, relGap, common);
     if (relGap <= LOSSLESS_TOLERANCE) {
       return result({
         ...common, status: 'solved', timeOfFlight: relaxed.timeOfFlight, propellant: relaxed.propellant,
@@ -334,6 +353,48 @@ export function searchFreeFinalTime(solver: DescentSolver, target: Vec3, ignitio
       relaxedLosslessnessGap: relGap,
       trajectory: decodeOf(returned),
       peakTilt: peakTiltOf(solver, returned),
+    });
+  };
+
+  /**
+   * Forbidden throttle bands: the relaxed optimum (ignoring the band) gives the certified lower bound; the
+   * band-respecting trajectory comes from the phase-assigned restriction (band.ts).
+   */
+  const finishBand = (
+    phase: Phase, relaxed: FixedTimeSolve, lowerBound: number, relGap: number,
+    common: Pick<DescentResult, 'propellantLowerBound' | 'infeasibleStatuses' | 'failures' | 'curvature' | 'kind'>,
+  ): DescentResult => {
+    const bound = Number.isFinite(lowerBound) ? lowerBound : relaxed.propellant;
+    let lo = br.lower;
+    let hi = br.upper;
+    for (const tf of phase.infeasibleTimes) {
+      if (tf < relaxed.timeOfFlight && tf > lo) lo = tf;
+      if (tf > relaxed.timeOfFlight && tf < hi) hi = tf;
+    }
+    const before = solver.solves;
+    const band = bandRespectingNear(solver, relaxed, target, ignition, { lower: lo, upper: hi }, { maxSolves: options.bandMaxSolves });
+    const bandSolves = solver.solves - before;
+    const budgetKg = options.propellantBudget_kg;
+    const shared = { ...common, propellantLowerBound: bound, relaxedLosslessnessGap: relGap, bandSolves };
+    if (!band.best) {
+      warnings.push(`forbidden throttle band: no band-respecting trajectory found (${band.evaluations} phase assignments tried); certified lower bound ${bound.toFixed(2)} kg only`);
+      return result({ ...shared, status: 'undecided', timeOfFlight: relaxed.timeOfFlight });
+    }
+    const ub = band.best.propellant;
+    const gap = ub - bound;
+    const overBudget = budgetKg !== undefined && ub > budgetKg;
+    if (overBudget) warnings.push(`forbidden throttle band: the best band-respecting trajectory found, ${ub.toFixed(2)} kg, is above the budget ${budgetKg.toFixed(2)} kg while the lower bound ${bound.toFixed(2)} kg is not`);
+    else if (gap > propTol) warnings.push(`forbidden throttle band: band-respecting trajectory ${ub.toFixed(2)} kg, certified lower bound ${bound.toFixed(2)} kg (gap ${gap.toFixed(3)} kg)`);
+    return result({
+      ...shared,
+      status: overBudget ? 'undecided' : gap <= propTol ? 'solved' : 'relaxation-gap',
+      timeOfFlight: band.best.timeOfFlight,
+      propellant: ub,
+      kind: band.best.kind,
+      trajectory: decodeOf(band.best),
+      peakTilt: peakTiltOf(solver, band.best),
+      bandGap_kg: gap,
+      bandStructure: band.structure,
     });
   };
 

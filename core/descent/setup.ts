@@ -73,6 +73,9 @@ export function validateSetup(s: DescentSetup): void {
     throw new DescentInputError('nodes', String(s.nodes), `must be a whole number from 5 to ${MAX_NODES}`);
   }
   if (s.hold !== 'zoh' && s.hold !== 'foh') throw new DescentInputError('hold', String(s.hold), "must be 'zoh' or 'foh'");
+  if ((s.vehicle.throttleBands ?? []).length > 0 && s.hold !== 'zoh') {
+    throw new DescentInputError('hold', String(s.hold), "must be 'zoh' with forbidden throttle bands: a linear thrust ramp between a high and a low node would cross the band between nodes (the study file switches to 'zoh' by itself)");
+  }
   const c = s.constraints;
   if (c.glideSlope !== null && !(c.glideSlope > 0 && c.glideSlope < Math.PI / 2)) {
     throw new DescentInputError('constraints.glideSlope', `${(c.glideSlope * 180) / Math.PI}°`, 'must be between 0° and 90°, or absent');
@@ -95,6 +98,17 @@ export function validateSetup(s: DescentSetup): void {
   // The descent ends at the gate: a lowest altitude above it could hold only between nodes' samples.
   if (c.minAltitude !== null && c.minAltitude > c.gateHeight) {
     throw new DescentInputError('constraints.minAltitude', `${c.minAltitude} m`, `must not be above the gate height ${c.gateHeight} m, where the powered descent ends; lower it or raise the gate`);
+  }
+  // The throttle-rate rows (program.ts throttleRateStep) reserve the thrust change that mass loss alone causes
+  // at full thrust on the dry vehicle, α ρ2²/m_dry per second: a rate at or below it could not be met at all.
+  const rate = s.vehicle.throttleRate ?? null;
+  if (rate !== null) {
+    const d = deriveVehicle(s.vehicle);
+    const drift = (d.alpha * d.rho2 * d.rho2) / (s.vehicle.dryMass * d.fullThrust);
+    if (!(rate > drift)) {
+      throw new DescentInputError('vehicle.throttleRate', `${rate} per s`,
+        `must be above ${drift.toPrecision(3)} per s, the throttle change that the mass loss at full thrust alone causes on this vehicle; raise it, or leave it out for no limit`);
+    }
   }
   // Full thrust must hold the vehicle's weight at its lightest, or the vertical speed only ever grows
   // downward and the descent can never be stopped.

@@ -77,13 +77,36 @@ export class DescentSolver {
     }
   }
 
+  /**
+   * The last solved point of each problem kind, to start later solves from (`resetTo`). Monte Carlo samples
+   * start from the nominal optimum this way: a fixed start, so a sample does not depend on the samples its
+   * worker solved before, without paying a cold start per sample.
+   */
+  warmStarts(): ReadonlyMap<ProgramKind, ConicSolution> {
+    const out = new Map<ProgramKind, ConicSolution>();
+    // Copies: a later solve must not change what was saved.
+    for (const [kind, e] of this.programs) {
+      if (e.last) out.set(kind, { ...e.last, x: e.last.x.slice(), y: e.last.y.slice(), z: e.last.z.slice(), s: e.last.s.slice() });
+    }
+    return out;
+  }
+
+  /** `reset()`, then warm starts from `saved` (from `warmStarts()` of a solver with the same setup). */
+  resetTo(saved: ReadonlyMap<ProgramKind, ConicSolution>): void {
+    this.reset();
+    for (const [kind, solution] of saved) {
+      const e = this.programs.get(kind);
+      if (e) e.last = solution;
+    }
+  }
+
   /** Solves one fixed-final-time problem (`extra`: the direction and budget of a max-divert problem). */
   solveFixed(
     kind: ProgramKind,
     timeOfFlight: number,
     target: Vec3,
     ignition: IgnitionState,
-    extra: Pick<ProgramData, 'direction' | 'propellantBudget' | 'thrustDirections'> = {},
+    extra: Pick<ProgramData, 'direction' | 'propellantBudget' | 'thrustDirections' | 'throttleIntervals'> = {},
   ): FixedTimeSolve {
     const data: ProgramData = { timeOfFlight, target, ignition, ...extra };
     const e = this.entry(kind, data);

@@ -30,6 +30,25 @@ export interface VehicleModel {
   readonly throttleMax: number;
   /** Largest thrust tilt from vertical, rad (π or more: unconstrained). */
   readonly pointingLimit: number;
+  /**
+   * Forbidden throttle bands (open intervals of thrust fraction, like throttleMin), increasing, disjoint and
+   * strictly inside (throttleMin, throttleMax). Absent or empty: none. See band.ts for how they are solved.
+   */
+  readonly throttleBands?: readonly (readonly [number, number])[];
+  /** Largest throttle rate |dρ/dt|, fraction of full thrust per second; absent or null: unlimited. */
+  readonly throttleRate?: number | null;
+}
+
+/** The allowed throttle intervals [lo, hi] (fractions of full thrust) left between the forbidden bands. */
+export function allowedThrottleIntervals(v: VehicleModel): [number, number][] {
+  const out: [number, number][] = [];
+  let lo = v.throttleMin;
+  for (const [a, b] of v.throttleBands ?? []) {
+    out.push([lo, a]);
+    lo = b;
+  }
+  out.push([lo, v.throttleMax]);
+  return out;
 }
 
 export interface VehicleDerived {
@@ -81,6 +100,19 @@ export function validateVehicle(v: VehicleModel): void {
   }
   if (!(v.throttleMin >= 0 && v.throttleMin < v.throttleMax && v.throttleMax <= 1)) {
     throw new DescentInputError('vehicle.throttleMin', `throttle range [${v.throttleMin}, ${v.throttleMax}]`, 'need 0 ≤ throttleMin < throttleMax ≤ 1');
+  }
+  const bands = v.throttleBands ?? [];
+  for (let i = 0; i < bands.length; i++) {
+    const [lo, hi] = bands[i];
+    const prev = i > 0 ? bands[i - 1][1] : v.throttleMin;
+    if (!(Number.isFinite(lo) && Number.isFinite(hi) && lo < hi && lo > prev && hi < v.throttleMax)) {
+      throw new DescentInputError('vehicle.throttleBands', `[${lo}, ${hi}] (band ${i + 1})`,
+        `bands must be [lo, hi] with lo < hi, strictly inside (throttleMin ${v.throttleMin}, throttleMax ${v.throttleMax}), in increasing order and not overlapping`);
+    }
+  }
+  const rate = v.throttleRate ?? null;
+  if (rate !== null && !(rate > 0 && Number.isFinite(rate))) {
+    throw new DescentInputError('vehicle.throttleRate', `${rate} per s`, 'must be a positive fraction of full thrust per second, or absent for no limit');
   }
   if (!(v.pointingLimit > 0)) {
     throw new DescentInputError('vehicle.pointingLimit', `${v.pointingLimit / DEG}°`, 'must be positive; 180° leaves the thrust direction free');

@@ -47,6 +47,17 @@ export interface BetweenNodesReport {
   thrustUpperMargin: number;
   /** Smallest angle inside the pointing limit, rad (NaN without a limit). */
   pointingMargin_rad: number;
+  /**
+   * Forbidden throttle bands: the smallest distance of the thrust fraction from the nearest band edge,
+   * positive outside every band, negative inside one (NaN without bands).
+   */
+  bandMargin: number;
+  /**
+   * Throttle-rate limit: the limit less the largest mean rate |ρ(t + Δt) − ρ(t)|/Δt over every window of one
+   * node step Δt, full thrust per second (NaN without a limit). A window of one step is how the program
+   * states the limit (|ρ_{k+1} − ρ_k| ≤ R Δt); with zero-order hold the thrust steps at the nodes.
+   */
+  throttleRateMargin_perS: number;
   /** Distance of the re-simulated end point from the gate point, m, and of its velocity from the gate velocity, m/s. */
   touchdownPositionError_m: number;
   touchdownVelocityError_mps: number;
@@ -92,10 +103,22 @@ export function verifyBetweenNodes(setup: DescentSetup, traj: DecodedTrajectory,
   let thrustLo = Infinity;
   let thrustHi = Infinity;
   let point = pointing ? Infinity : NaN;
+  const bands = setup.vehicle.throttleBands ?? [];
+  let band = bands.length > 0 ? Infinity : NaN;
+  const rateLimit = setup.vehicle.throttleRate ?? null;
+  // Thrust fraction at every re-simulation point (the first of each interval's points is the node itself).
+  const fractions = new Float64Array((N - 1) * SUBSTEPS + 1);
+  let sample = 0;
   const observe = (x: Float64Array, ux: number, uy: number, uz: number, interior: boolean) => {
     const m = x[6];
     const un = Math.sqrt(ux * ux + uy * uy + uz * uz);
     const thrust = m * un;
+    const fraction = thrust / veh.fullThrust;
+    if (sample < fractions.length) fractions[sample++] = fraction;
+    for (const [lo, hi] of bands) {
+      const d = fraction <= lo ? lo - fraction : fraction >= hi ? fraction - hi : -Math.min(fraction - lo, hi - fraction);
+      band = Math.min(band, d);
+    }
     thrustLo = Math.min(thrustLo, (thrust - veh.rho1) / veh.fullThrust);
     thrustHi = Math.min(thrustHi, (veh.rho2 - thrust) / veh.fullThrust);
     if (pointing && un > 0) point = Math.min(point, setup.vehicle.pointingLimit - Math.acos(Math.max(-1, Math.min(1, uz / un))));
@@ -139,6 +162,12 @@ export function verifyBetweenNodes(setup: DescentSetup, traj: DecodedTrajectory,
       observe(x, u[0], u[1], u[2], !last);
     }
   }
+  let rateMargin = NaN;
+  if (rateLimit !== null) {
+    let worst = 0;
+    for (let i = SUBSTEPS; i < sample; i++) worst = Math.max(worst, Math.abs(fractions[i] - fractions[i - SUBSTEPS]) / dt);
+    rateMargin = rateLimit - worst;
+  }
   const posErr = Math.hypot(x[0] - gateTop[0], x[1] - gateTop[1], x[2] - gateTop[2]);
   const velErr = Math.hypot(x[3], x[4], x[5] + con.gateDescentRate);
   const T = VERIFY_TOLERANCES;
@@ -152,6 +181,9 @@ export function verifyBetweenNodes(setup: DescentSetup, traj: DecodedTrajectory,
   miss('minimum thrust', thrustLo, T.thrustFraction, '% of full thrust', 100, 2);
   miss('maximum thrust', thrustHi, T.thrustFraction, '% of full thrust', 100, 2);
   miss('pointing limit', point, T.pointing_rad, '°', 180 / Math.PI, 3);
+  miss('forbidden throttle band', band, T.thrustFraction, '% of full thrust', 100, 2);
+  // The rate over one node step, to the same 0.1 % of full thrust over that step.
+  miss('throttle-rate limit', rateMargin * dt, T.thrustFraction, '% of full thrust per node step', 100, 2);
   if (posErr > T.touchdownPosition_m) violations.push(`re-simulated end point ${posErr.toFixed(2)} m from the gate point (tolerance ${T.touchdownPosition_m} m)`);
   if (velErr > T.touchdownVelocity_mps) violations.push(`re-simulated end velocity ${velErr.toFixed(3)} m/s from the gate velocity (tolerance ${T.touchdownVelocity_mps} m/s)`);
   return {
@@ -162,6 +194,8 @@ export function verifyBetweenNodes(setup: DescentSetup, traj: DecodedTrajectory,
     thrustLowerMargin: veh.rho1 > 0 ? thrustLo : NaN,
     thrustUpperMargin: thrustHi,
     pointingMargin_rad: point,
+    bandMargin: band,
+    throttleRateMargin_perS: rateMargin,
     touchdownPositionError_m: posErr,
     touchdownVelocityError_mps: velErr,
     propellant_kg: s.mass[0] - x[6],

@@ -175,3 +175,11 @@ export function rayBoundaryDistance(g: MultiPolygon, x0: number, y0: number, dx:
   }
   return best;
 }
+
+/** A "nice" step (1, 2 or 5 × 10ⁿ) near span / count. */
+export function niceStep(span: number, count: number): number {
+  const raw = span / Math.max(1, count);
+  const p = 10 ** Math.floor(Math.log10(raw));
+  const m = raw / p;
+  return (m < 1.5 ? 1 : m < 3.5 ? 2 : m < 7.5 ? 5 : 10) * p;
+}

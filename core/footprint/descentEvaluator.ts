@@ -106,11 +106,13 @@ export function descentEvaluator(ctx: DescentFootprintContext, backend?: ConicBa
     }
     const code = res.status === 'solved' ? TARGET.reachable
       : res.status === 'relaxation-gap' ? TARGET.relaxationGap
+        : res.status === 'undecided' ? TARGET.undecided
         : res.status === 'unreachable' ? TARGET.unreachable : TARGET.failed;
     const out: TargetOutcome = {
       code,
       // relaxation-gap: the best flyable trajectory (an upper bound; NaN when none was found).
-      propellant_kg: res.status === 'solved' || res.status === 'relaxation-gap' ? res.propellant : NaN,
+      // undecided (throttle band): the band-respecting cost above the budget when one was found, else NaN.
+      propellant_kg: res.status === 'solved' || res.status === 'relaxation-gap' || res.status === 'undecided' ? res.propellant : NaN,
       // Unreachable: the time of flight of the closest-approach (minimum-landing-error) trajectory.
       timeOfFlight_s: res.status === 'solver-failure' ? NaN : res.timeOfFlight,
       peakTilt_deg: res.status === 'solved' || res.status === 'relaxation-gap' ? res.peakTilt * RAD : NaN,

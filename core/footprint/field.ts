@@ -32,6 +32,14 @@ export const TARGET = {
    * the small (safe) side. Never merged with `reachable`: footprints, exports and the app show it apart.
    */
   relaxationGap: 5,
+  /**
+   * Forbidden throttle bands only (core/descent/band.ts): the relaxation that ignores the band does not
+   * exclude the target (its certified lower bound is within the budget, or no budget was set), but no
+   * band-respecting trajectory was found within it. Neither reachable nor unreachable is proven:
+   * `propellant_kg` holds the band-respecting cost when one was found above the budget, NaN otherwise. Never
+   * merged with `reachable`; contours do not count it as reached.
+   */
+  undecided: 6,
 } as const;
 export type TargetCode = (typeof TARGET)[keyof typeof TARGET];
 
@@ -154,7 +162,7 @@ export function rowBuffers(r: FieldRow): ArrayBuffer[] {
 }
 
 export function countByStatus(field: FootprintField): Record<keyof typeof TARGET, number> {
-  const out = { pending: 0, reachable: 0, unreachable: 0, failed: 0, overBudget: 0, relaxationGap: 0 };
+  const out = { pending: 0, reachable: 0, unreachable: 0, failed: 0, overBudget: 0, relaxationGap: 0, undecided: 0 };
   const names = Object.keys(TARGET) as (keyof typeof TARGET)[];
   for (const code of field.status) out[names[code]]++;
   return out;

@@ -4,10 +4,26 @@
  * the same placement `landreach hazard --study` uses for the safe reachable set, then converted with
  * core/terrain's `terrainLonLat`. Pure; shared by the command line and (later) the desktop app.
  */
-import type { ElevationGrid } from '../terrain/grid.ts';
-import { terrainLonLat } from '../terrain/georeference.ts';
+import type { ElevationGrid, GridGeoreference } from '../terrain/grid.ts';
+import { terrainLonLat, terrainProjection } from '../terrain/georeference.ts';
+import { crsIdentity, type CrsIdentity } from '../terrain/crsIdentity.ts';
 import { groundFrameOnDem } from '../terrain/groundFrame.ts';
-import type { FootprintLonLat } from '../study/footprintGeoJson.ts';
+
+/** Converts local east–north metres (from the nominal target) to [longitude, latitude] in degrees. */
+export type LocalToLonLat = (east_m: number, north_m: number) => [number, number];
+
+/** Longitude/latitude for the footprint and what they refer to. */
+export interface FootprintLonLat {
+  toLonLat: LocalToLonLat;
+  /** True when the coordinates are WGS 84, as RFC 7946 assumes. */
+  wgs84: boolean;
+  /** What the coordinates refer to, in words (e.g. "WGS 84 longitude/latitude (EPSG:4326)"). */
+  datum: string;
+  /** The body the study is on (e.g. "mars"). */
+  body: string;
+  /** Anything else a reader must know (e.g. how local metres relate to the DEM's grid). */
+  note?: string;
+}
 
 /** Millimetres, without a "-0.000". */
 const metres = (v: number) => (Math.round(v * 1000) / 1000 + 0).toFixed(3);
@@ -16,7 +32,7 @@ const metres = (v: number) => (Math.round(v * 1000) / 1000 + 0).toFixed(3);
  * Null when the terrain has no georeference; throws core/terrain's TerrainInputError (naming the CRS)
  * when its CRS cannot be converted. `body` is the study's planet body ("mars", "moon", "custom").
  */
-export function footprintLonLat(grid: ElevationGrid, target_m: readonly [number, number], body: string, source = 'terrain'): FootprintLonLat | null {
+export function footprintLonLat(grid: Pick<ElevationGrid, 'georeference'>, target_m: readonly [number, number], body: string, source = 'terrain'): FootprintLonLat | null {
   const ref = terrainLonLat(grid.georeference, source);
   if (!ref) return null;
   const [tE, tN] = target_m;
@@ -49,5 +65,47 @@ export function footprintLonLat(grid: ElevationGrid, target_m: readonly [number,
     datum: ref.datum,
     body: ref.wgs84 ? 'earth' : body,
     note: notes.join(' '),
+  };
+}
+
+/**
+ * The footprint in the DEM's own projected CRS: where each local point (east, north of the nominal target,
+ * ground metres) lies in the DEM's easting/northing — the same ground frame `footprintLonLat` and
+ * `landreach hazard --study` use (core/terrain/groundFrame.ts: DEM offset = J · ground offset) — and how the
+ * CRS is named: its registered code when it has one (core/terrain/crsIdentity.ts), else its PROJ string.
+ */
+export interface FootprintPlace {
+  /** Local metres → the DEM CRS's easting, northing (m). */
+  toCrs(east_m: number, north_m: number): [number, number];
+  /** The nominal target in the DEM's CRS, m. */
+  readonly target_m: readonly [number, number];
+  /** DEM metres per ground metre at the target, row-major [∂E/∂east, ∂E/∂north, ∂N/∂east, ∂N/∂north]. */
+  readonly jacobian: readonly [number, number, number, number];
+  /** The DEM's georeference (its CRS travels with rasters written from it). */
+  readonly georeference: GridGeoreference;
+  /** The CRS's registered code and URI, or null (then `proj4` is all there is). */
+  readonly identity: CrsIdentity | null;
+  /** The CRS as a PROJ string and a name for readers. */
+  readonly proj4: string;
+  readonly crsName: string;
+}
+
+/**
+ * Null unless the terrain is projected (a geographic DEM's frame is not a CRS of its own: its exports keep
+ * longitude/latitude). Throws core/terrain's TerrainInputError (naming the CRS) when the CRS cannot be used.
+ */
+export function footprintPlace(grid: Pick<ElevationGrid, 'georeference'>, target_m: readonly [number, number], source = 'terrain'): FootprintPlace | null {
+  const georeference = grid.georeference;
+  if (georeference?.model !== 'projected') return null;
+  const projection = terrainProjection(georeference, source)!;
+  const ground = groundFrameOnDem(georeference, target_m, source);
+  return {
+    toCrs: (e, n) => ground.toDem(e, n),
+    target_m: [target_m[0], target_m[1]],
+    jacobian: ground.jacobian,
+    georeference,
+    identity: crsIdentity(georeference),
+    proj4: projection.crs.proj4,
+    crsName: projection.crs.name,
   };
 }

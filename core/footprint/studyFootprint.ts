@@ -4,11 +4,7 @@
  */
 import type { Study } from '../study/schema.ts';
 import { studyToDescent } from '../study/toDescent.ts';
-import type { FootprintSummary } from '../study/footprintExport.ts';
-import { footprintSvg, niceStep } from '../study/footprintSvg.ts';
-import { sampleColormap, VIRIDIS } from '../study/colormap.ts';
-import type { Ellipse } from './ellipse.ts';
-import { guaranteedDivertRadius, propellantRegions, regionBounds, type PropellantRegion, type DivertRadius } from './contours.ts';
+import { guaranteedDivertRadius, niceStep, propellantRegions, regionBounds, type PropellantRegion, type DivertRadius } from './contours.ts';
 import type { DescentFootprintContext } from './descentEvaluator.ts';
 import type { BoundaryRefinement } from './refine.ts';
 import { BETWEEN_NODES, countByStatus, TARGET, type FootprintField } from './field.ts';
@@ -39,6 +35,43 @@ export function defaultLevels(field: FootprintField, budget: number): number[] {
   for (let v = Math.ceil(min / step) * step; v < budget - 1e-9; v += step) levels.push(v);
   levels.push(budget);
   return levels;
+}
+
+export interface FootprintSummary {
+  targets: number;
+  reachable: number;
+  unreachable: number;
+  failed: number;
+  pending: number;
+  /** Targets stopped early as certainly over the budget (reachable-set runs only). */
+  overBudget: number;
+  /** Targets where the relaxation was not lossless and no flyable trajectory within tolerance of its bound was found. */
+  relaxationGap: number;
+  /** Forbidden throttle bands: targets neither proven reachable within the budget nor excluded by the lower bound. */
+  undecided?: number;
+  /**
+   * Targets whose trajectory misses a constraint between its nodes beyond tolerance in the dense
+   * re-simulation (core/descent/verify.ts); 0 when all met.
+   */
+  betweenNodesMissed: number;
+  /**
+   * Present when the budget boundary was refined coarse-to-fine: area and divert radius then come from the
+   * refined boundary; `solves` includes the refinement's.
+   */
+  boundaryRefinement?: { factor: number; extraTargets: number; extraSolves: number; unrefinedArea_m2: number; complete: boolean };
+  usablePropellant_kg: number;
+  reserve_kg: number;
+  budget_kg: number;
+  /** Area of {propellant ≤ budget}, m². */
+  reachableArea_m2: number;
+  guaranteedDivertRadius_m: number;
+  /** True when the divert radius is limited by the grid's extent rather than by reach. */
+  divertRadiusLimitedByGrid: boolean;
+  minPropellant_kg: number;
+  maxPropellant_kg: number;
+  solves: number;
+  /** The run stopped (Ctrl-C, a signal, Cancel) before every target was computed: `pending` are missing. */
+  cancelled: boolean;
 }
 
 export interface FootprintFigures {
@@ -107,22 +140,4 @@ export function footprintFigures(
     };
   }
   return { summary, levels_kg, bands, reachable, divert };
-}
-
-/**
- * The report map of a field and its figures (core/study/footprintSvg.ts): propellant bands in viridis, the
- * reachable region at the budget, the guaranteed divert circle, and an optional landing ellipse.
- */
-export function footprintMapSvg(field: FootprintField, figures: FootprintFigures, text: { title: string; caption: string[] }, ellipse?: Ellipse | null): string {
-  return footprintSvg({
-    title: text.title,
-    bounds_m: regionBounds(field),
-    bands: figures.bands,
-    reachable: figures.reachable,
-    budget_kg: figures.summary.budget_kg,
-    colormap: (t) => sampleColormap(VIRIDIS, t) as unknown as [number, number, number],
-    divertRadius_m: figures.divert.radius_m,
-    caption: text.caption,
-    ellipse,
-  });
 }

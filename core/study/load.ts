@@ -3,7 +3,7 @@
  * field, its value and how to fix it. Never throws on user input with anything but StudyError.
  */
 import type { Study } from './schema.ts';
-import { STUDY_FORMAT, STUDY_VERSION, StudySchema } from './schema.ts';
+import { STUDY_FORMAT, STUDY_VERSION, StudySchema, VERSION_2_VEHICLE_FIELDS } from './schema.ts';
 import { studyDescentProblem } from './toDescent.ts';
 
 export interface StudyProblem {
@@ -52,10 +52,28 @@ function preview(v: unknown, depth: number): string {
   return Array.isArray(v) ? `[${parts.join(',')}]` : `{${parts.join(',')}}`;
 }
 
-/** Older format versions are migrated here, one step at a time, before validation. */
-function migrate(raw: Record<string, unknown>): Record<string, unknown> {
-  // Version 1 is the first format; future versions add a step per version.
-  return raw;
+/**
+ * Older format versions are migrated here, one step at a time, before validation. The input is never
+ * modified (a copy is returned), so the user's document stays as it was.
+ * 1 → 2: version 2 only adds optional vehicle fields (throttleBands, throttleRate_perS), so a version-1
+ * study reads as the same study; a version-1 file that already carries one of them is refused (it was
+ * written by hand against the newer format), naming the fix.
+ */
+export function migrate(raw: Record<string, unknown>): { study: Record<string, unknown>; problems: StudyProblem[] } {
+  const problems: StudyProblem[] = [];
+  let study = raw;
+  if (raw.version === 1) {
+    const vehicle = raw.vehicle;
+    if (vehicle !== null && typeof vehicle === 'object' && !Array.isArray(vehicle)) {
+      for (const f of VERSION_2_VEHICLE_FIELDS) {
+        if (f in vehicle) {
+          problems.push({ field: `vehicle.${f}`, value: show((vehicle as Record<string, unknown>)[f]), message: 'is a study format version 2 field: set "version": 2 at the top of the file to use it' });
+        }
+      }
+    }
+    study = { ...raw, version: 2 };
+  }
+  return { study, problems };
 }
 
 export function parseStudy(input: unknown, source = 'study'): Study {
@@ -69,7 +87,9 @@ export function parseStudy(input: unknown, source = 'study'): Study {
   if (typeof raw.version === 'number' && raw.version > STUDY_VERSION) {
     throw new StudyError([{ field: 'version', value: show(raw.version), message: `this program reads versions up to ${STUDY_VERSION}; use a newer Landreach` }], source);
   }
-  const r = StudySchema.safeParse(migrate(raw), { reportInput: true });
+  const migrated = migrate(raw);
+  if (migrated.problems.length > 0) throw new StudyError(migrated.problems, source);
+  const r = StudySchema.safeParse(migrated.study, { reportInput: true });
   if (r.success) {
     // The values are each in range; now the study as a descent (derived quantities, cross-field physics).
     const p = studyDescentProblem(r.data);

@@ -1,5 +1,5 @@
 /**
- * The study file, format version 1: the one definition (zod) from which validation, defaults, types
+ * The study file, format version 2 (version 1 files are migrated on reading, load.ts): the one definition (zod) from which validation, defaults, types
  * and the committed JSON Schema (study.schema.json) all come.
  *
  * Units are in the field names (SI; angles in degrees at this boundary). Frame: x east, y north,
@@ -8,7 +8,9 @@
 import { z } from 'zod';
 
 export const STUDY_FORMAT = 'landreach-study';
-export const STUDY_VERSION = 1;
+export const STUDY_VERSION = 2;
+/** Fields that version 2 added (all optional): a version-1 file carrying one is refused, naming the fix. */
+export const VERSION_2_VEHICLE_FIELDS = ['throttleBands', 'throttleRate_perS'] as const;
 
 const num = (unit: string) => z.number({ error: `must be a finite number (${unit})` }).describe(unit);
 const finite = (unit: string) => num(unit);
@@ -59,6 +61,17 @@ export const VehicleSchema = z
     throttleMax: fraction('fraction of full thrust'),
     /** Largest thrust tilt from vertical, degrees; 180 leaves it free. */
     pointingLimit_deg: num('degrees from vertical').gt(0, { error: 'must be in (0, 180] degrees' }).max(180, { error: 'must be in (0, 180] degrees' }).default(180),
+    /**
+     * (Version 2.) Forbidden throttle bands: open intervals [lo, hi] of thrust fraction in which the engine
+     * cannot run stably, each inside [throttleMin, throttleMax], in increasing order and not overlapping.
+     * Default none.
+     */
+    throttleBands: z.array(
+      z.tuple([fraction('fraction of full thrust'), fraction('fraction of full thrust')], { error: 'must be a pair [lo, hi] of thrust fractions' }),
+      { error: 'must be a list of [lo, hi] pairs, e.g. [[0.4, 0.6]]' },
+    ).max(8, { error: 'must have at most 8 bands' }).default([]),
+    /** (Version 2.) Largest throttle rate |dρ/dt|, fraction of full thrust per second; null: unlimited. */
+    throttleRate_perS: positive('fraction of full thrust per second').nullable().default(null),
   })
   .superRefine((v, ctx) => {
     if (v.dryMass_kg + v.propellantReserve_kg >= v.wetMass_kg) {
@@ -69,6 +82,24 @@ export const VehicleSchema = z
     }
     if (v.throttleMin >= v.throttleMax) {
       ctx.addIssue({ code: 'custom', path: ['throttleMin'], input: v.throttleMin, message: `must be below throttleMax (${v.throttleMax})` });
+    }
+    const bands = v.throttleBands;
+    for (let i = 0; i < bands.length; i++) {
+      const [lo, hi] = bands[i];
+      const path = ['throttleBands', i];
+      if (!(lo < hi)) {
+        ctx.addIssue({ code: 'custom', path, input: bands[i], message: `lo ${lo} must be below hi ${hi}: write the band as [lower fraction, upper fraction]` });
+      } else if (lo <= v.throttleMin || hi >= v.throttleMax) {
+        ctx.addIssue({
+          code: 'custom', path, input: bands[i],
+          message: `must lie strictly inside [throttleMin ${v.throttleMin}, throttleMax ${v.throttleMax}]: a band reaching a limit only moves that limit; change throttleMin/throttleMax instead`,
+        });
+      } else if (i > 0 && lo <= bands[i - 1][1]) {
+        ctx.addIssue({
+          code: 'custom', path, input: bands[i],
+          message: `must start above the previous band's hi ${bands[i - 1][1]}: list bands in increasing order and merge overlapping or touching ones`,
+        });
+      }
     }
   });
 

@@ -42,6 +42,8 @@ export function studyToDescent(study: Study): StudyDescent {
       throttleMin: v.throttleMin,
       throttleMax: v.throttleMax,
       pointingLimit: v.pointingLimit_deg >= 180 ? Math.PI : v.pointingLimit_deg * DEG,
+      throttleBands: v.throttleBands.map(([lo, hi]) => [lo, hi] as const),
+      throttleRate: v.throttleRate_perS,
     },
     constraints: {
       glideSlope: c.glideSlope_deg === null ? null : c.glideSlope_deg * DEG,
@@ -51,7 +53,9 @@ export function studyToDescent(study: Study): StudyDescent {
       minAltitude: altitudeFloor_m(c),
     },
     nodes: study.discretisation.nodes,
-    hold: study.discretisation.hold,
+    // A forbidden band needs piecewise-constant thrust (band.ts: a linear ramp between a high and a low node
+    // would cross the band between nodes), so a study with bands is discretised with zero-order hold.
+    hold: v.throttleBands.length > 0 ? 'zoh' : study.discretisation.hold,
   };
   const ignition: IgnitionState = {
     position: study.ignition.position_m,
@@ -74,6 +78,8 @@ const STUDY_FIELD: Record<DescentField, string> = {
   'vehicle.throttleMin': 'vehicle.throttleMin',
   'vehicle.throttleMax': 'vehicle.throttleMax',
   'vehicle.pointingLimit': 'vehicle.pointingLimit_deg',
+  'vehicle.throttleBands': 'vehicle.throttleBands',
+  'vehicle.throttleRate': 'vehicle.throttleRate_perS',
   'constraints.glideSlope': 'constraints.glideSlope_deg',
   'constraints.maxSpeed': 'constraints.maxSpeed_mps',
   'constraints.gateHeight': 'constraints.gateHeight_m',

@@ -5,11 +5,13 @@
  * compared after Math.fround), PixelIsPoint vs PixelIsArea, projected metres, and geographic degrees
  * converted to a flat local east–north frame around a chosen origin.
  */
-import { fromArrayBuffer } from 'geotiff';
+import { GeoTIFF } from 'geotiff';
 import type { GeoTIFFImage } from 'geotiff';
-import type { ElevationGrid, GridGeoreference, GridSpec } from './grid.ts';
+import type { ElevationGrid, GridFrame, GridGeoreference, GridSpec } from './grid.ts';
 import { MAX_GRID_CELLS, TerrainInputError, checkDimensions, makeGrid, requireSomeData } from './grid.ts';
-import { checkDirectory, noDataAsSample, readWindow, tiffLayout } from './tiff-blocks.ts';
+import { checkDirectoryAt, emptyBlockStats, noDataAsSample, readTiffHeader, readWindow, tiffLayout, type TiffHeader, type TiffLayout } from './tiff-blocks.ts';
+import { geotiffSourceOf, isByteSource, memoryByteSource, type ByteSource } from './byte-source.ts';
+import { AVERAGING_BYTES_PER_CELL, GRID_BYTES_PER_CELL, planRegionRead, type DemLevel, type DemRead, type DemRegionRequest } from './dem-region.ts';
 import { CHECKED_PROJECTIONS_TEXT, makeProjection, projectedCrsFromGeoKeys } from './projection.ts';
 import { WGS84_SEMI_MAJOR_AXIS_M, geographicToLocal, localFrameScale, type GeographicFrame } from './georeference.ts';
 
@@ -184,17 +186,17 @@ function checkNoAlpha(image: GeoTIFFImage, samples: number, source: string): voi
 /** Reads band 1 (the elevation) of a GeoTIFF into an ElevationGrid. Errors are TerrainInputError. */
 export async function readGeoTiff(bytes: Uint8Array | ArrayBuffer, options: GeoTiffReadOptions = {}): Promise<ElevationGrid> {
   const source = options.sourceName ?? 'GeoTIFF';
-  // geotiff wants a whole ArrayBuffer: use the view's own buffer when it spans all of it, else copy
-  // (a small Node Buffer may be a view into a larger shared pool).
-  const whole = bytes instanceof Uint8Array && bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength && bytes.buffer instanceof ArrayBuffer;
-  const buf = bytes instanceof Uint8Array ? (whole ? (bytes.buffer as ArrayBuffer) : new Uint8Array(bytes).buffer) : bytes;
-  if (buf.byteLength < 8) fail(source, `only ${buf.byteLength} bytes; not a TIFF file (truncated?)`);
-  const head = new Uint8Array(buf, 0, 4);
-  const le = head[0] === 0x49 && head[1] === 0x49;
-  const be = head[0] === 0x4d && head[1] === 0x4d;
-  if (!le && !be) fail(source, 'not a TIFF file (no II/MM byte-order mark); give a GeoTIFF, a 16-bit PNG or a JSON grid');
+  const u8 = bytes instanceof Uint8Array ? bytes : new Uint8Array(bytes);
+  // A geographic DEM read through a window keeps its frame's origin at the window's centre (unless given).
+  const dem = await openGeoTiff(u8, options, options.window ?? 'image');
+  return guarded(source, async () => {
+    return (await dem.readPixels(options.window ?? [0, 0, dem.width, dem.height])).grid;
+  });
+}
+
+async function guarded<T>(source: string, f: () => Promise<T>): Promise<T> {
   try {
-    return await readImage(bytes instanceof Uint8Array ? bytes : new Uint8Array(bytes), buf, source, options);
+    return await f();
   } catch (err) {
     if (err instanceof TerrainInputError) throw err;
     const why = err instanceof Error ? err.message : String(err);
@@ -202,23 +204,59 @@ export async function readGeoTiff(bytes: Uint8Array | ArrayBuffer, options: GeoT
   }
 }
 
-async function readImage(bytes: Uint8Array, buf: ArrayBuffer, source: string, options: GeoTiffReadOptions): Promise<ElevationGrid> {
-  checkDirectory(bytes, source);
-  const tiff = await fromArrayBuffer(buf);
+/**
+ * Opens a GeoTIFF for windowed reads: reads and checks the header, the first directory, the GeoKeys and the
+ * CRS (nothing is decoded yet), and fixes the DEM's frame, which every read of it shares. Give a ByteSource
+ * to read a file a range at a time (the CLI), or the bytes (the app). For geographic DEMs the frame's origin
+ * is the whole image's centre unless `originLatitude_deg`/`originLongitude_deg` are given
+ * (`originWindow` is readGeoTiff's window rule).
+ */
+export async function openGeoTiff(
+  input: ByteSource | Uint8Array | ArrayBuffer,
+  options: GeoTiffReadOptions = {},
+  originWindow: readonly [number, number, number, number] | 'image' = 'image',
+): Promise<GeoTiffDem> {
+  const source = options.sourceName ?? 'GeoTIFF';
+  const src = isByteSource(input) ? input : memoryByteSource(input instanceof Uint8Array ? input : new Uint8Array(input));
+  if (src.byteLength < 8) fail(source, `only ${src.byteLength} bytes; not a TIFF file (truncated?)`);
+  const head = await src.read(0, 4);
+  const le = head[0] === 0x49 && head[1] === 0x49;
+  const be = head[0] === 0x4d && head[1] === 0x4d;
+  if (!le && !be) fail(source, 'not a TIFF file (no II/MM byte-order mark); give a GeoTIFF, a 16-bit PNG or a JSON grid');
+  return guarded(source, () => openImage(src, source, options, originWindow));
+}
+
+/** An opened GeoTIFF: its frame, its levels, and windowed reads that decode only the blocks they need. */
+export interface GeoTiffDem {
+  readonly sourceName: string;
+  /** Full-resolution size, pixels. */
+  readonly width: number;
+  readonly height: number;
+  /** The whole image's placement (no heights): the frame every read shares. */
+  readonly frame: GridFrame;
+  /** Full resolution then the overviews (reduced-resolution IFDs, NewSubfileType bit 0), finest first. */
+  levels(): Promise<readonly DemLevel[]>;
+  /** Reads a pixel window of a level, averaging `decimation` × `decimation` pixels into a cell. */
+  readPixels(window: readonly [number, number, number, number], level?: number, decimation?: number, maxCells?: number): Promise<DemRead>;
+  /** Reads the region at the resolution asked (see DemRegionRequest), within the memory bound. */
+  readRegion(request: DemRegionRequest): Promise<DemRead>;
+}
+
+interface LevelImage {
+  level: DemLevel;
+  image: GeoTIFFImage;
+  layout: TiffLayout;
+  affine: Affine;
+}
+
+async function openImage(src: ByteSource, source: string, options: GeoTiffReadOptions, originWindow: readonly [number, number, number, number] | 'image'): Promise<GeoTiffDem> {
+  const header = await readTiffHeader(src, source);
+  await checkDirectoryAt(src, header, header.firstDirectory, source);
+  const tiff = await GeoTIFF.fromSource(geotiffSourceOf(src) as never);
   const image = await tiff.getImage(0);
   const layout = tiffLayout(image, source);
   const { width: fullW, height: fullH } = layout;
   checkNoAlpha(image, layout.samplesPerPixel, source);
-  const [c0, r0, c1, r1] = options.window ?? [0, 0, fullW, fullH];
-  if (![c0, r0, c1, r1].every(Number.isInteger) || c0 < 0 || r0 < 0 || c1 > fullW || r1 > fullH || c1 <= c0 || r1 <= r0) {
-    fail(source, `invalid window [${c0}, ${r0}, ${c1}, ${r1}] for a ${fullW} × ${fullH} image (need 0 ≤ col0 < col1 ≤ width, 0 ≤ row0 < row1 ≤ height)`);
-  }
-  const w = c1 - c0;
-  const h = r1 - r0;
-  if (w * h > MAX_GRID_CELLS) {
-    fail(source, `is ${w} × ${h} = ${w * h} cells, over the limit of ${MAX_GRID_CELLS} (4096 × 4096); pass a window of at most that many cells`);
-  }
-  checkDimensions(w, h, `${source} window`);
   checkGeoKeyDirectory(image, source);
   const geoKeys = image.getGeoKeys() ?? {};
   const pixelIsPoint = geoKeys.GTRasterTypeGeoKey === 2;
@@ -241,59 +279,169 @@ async function readImage(bytes: Uint8Array, buf: ArrayBuffer, source: string, op
     fail(source, `invalid verticalScale: ${verticalScale} (must be a finite non-zero number of metres per unit)`);
   }
 
-  const heights = new Float32Array(w * h);
-  const mask = new Uint8Array(w * h);
-  let outOfRange = -1;
-  let outValue = 0;
-  await readWindow(image, bytes, layout, [c0, r0, c1, r1], 0, noDataAsSample(noData, layout), (k, v) => {
-    if (isNoData(v)) {
-      mask[k] = 1;
-      heights[k] = NaN;
-    } else {
-      heights[k] = v * verticalScale;
-      // A sample float32 heights cannot hold (±Infinity, or past ±3.4e38 m) is no height: refuse, never
-      // turn it silently into no-data (GDAL reads it as a value).
-      if (!Number.isFinite(heights[k]) && outOfRange < 0) { outOfRange = k; outValue = v; }
-    }
-  }, source);
-  if (outOfRange >= 0) {
-    fail(source, `sample ${outValue} at column ${c0 + (outOfRange % w)}, row ${r0 + Math.floor(outOfRange / w)} is not a height (beyond ±3.4e38 m); the file is corrupt, or its voids need a no-data value (gdal_edit.py -a_nodata)`);
-  }
-
-  let spec: GridSpec;
-  const wx0 = affine.x0 + c0 * affine.dx;
-  const wy0 = affine.y0 - r0 * affine.dy;
-  // Geotransform of the window read (corner of its pixel 0,0), in the source CRS.
-  const geoTransform = [wx0, affine.dx, 0, wy0, 0, -affine.dy] as const;
+  // The frame, fixed once: a projected CRS is taken from the GeoKeys through the projection libraries and
+  // refused here, naming it, when it cannot be handled (projection.ts) — nothing is decoded on a DEM whose
+  // metres we cannot place on its body. Geographic DEMs: the local frame's origin, once for every read.
+  const epsg = Number(geoKeys.ProjectedCSTypeGeoKey);
+  const crs = modelType === 1 ? projectedCrsFromGeoKeys(geoKeys, source) : undefined;
+  let unit_m = 1;
+  let geoOptions = options;
   if (modelType === 2) {
-    spec = geographicSpec(source, geoKeys, affine, { w, h, wx0, wy0 }, options);
+    const [oc0, or0, oc1, or1] = originWindow === 'image' ? [0, 0, fullW, fullH] : originWindow;
+    const o = geographicSpec(source, geoKeys, affine, { w: oc1 - oc0, h: or1 - or0, wx0: affine.x0 + oc0 * affine.dx, wy0: affine.y0 - or0 * affine.dy }, options);
+    const lf = o.georeference.localFrame!;
+    geoOptions = { ...options, originLatitude_deg: lf.originLatitude_deg, originLongitude_deg: lf.originLongitude_deg };
   } else {
-    const epsg = Number(geoKeys.ProjectedCSTypeGeoKey);
-    // A projected CRS is taken from the GeoKeys (EPSG code or user-defined keys) through the projection
-    // libraries, and refused here, naming it, when it cannot be handled (projection.ts): nothing is
-    // computed on a DEM whose metres we cannot place on its body.
-    const crs = modelType === 1 ? projectedCrsFromGeoKeys(geoKeys, source) : undefined;
-    const georeference: GridGeoreference = {
-      model: modelType === 1 ? 'projected' : 'none',
-      geoTransform,
-      ...(Number.isInteger(epsg) && epsg > 0 && epsg < 32767 ? { projectedEpsg: epsg } : {}),
-      ...(crs ? { projectedCrs: crs } : {}),
-    };
     // Projected CRS in feet or kilometres: the local frame is in metres, the georeference keeps file units.
     // Without ProjLinearUnitsGeoKey the unit is the CRS's own (an EPSG code in US feet is in feet, as GDAL
     // reads it); with it, the two must agree.
     const crsUnit = crs ? makeProjection(crs).unit_m : 1;
     const unitKey = geoKeys.ProjLinearUnitsGeoKey;
-    const f = modelType === 1 && unitKey !== undefined ? unitToMetres(source, 'ProjLinearUnitsGeoKey', unitKey) : crsUnit;
-    if (Math.abs(crsUnit - f) > 1e-9 * f) {
-      fail(source, `ProjLinearUnitsGeoKey ${String(unitKey)} (${f} m) disagrees with the unit of the CRS ${crs?.name} (${crsUnit} m); re-save the file with GDAL`);
+    unit_m = modelType === 1 && unitKey !== undefined ? unitToMetres(source, 'ProjLinearUnitsGeoKey', unitKey) : crsUnit;
+    if (Math.abs(crsUnit - unit_m) > 1e-9 * unit_m) {
+      fail(source, `ProjLinearUnitsGeoKey ${String(unitKey)} (${unit_m} m) disagrees with the unit of the CRS ${crs?.name} (${crsUnit} m); re-save the file with GDAL`);
     }
-    spec = { width: w, height: h, pixelSizeX_m: affine.dx * f, pixelSizeY_m: affine.dy * f, originEast_m: wx0 * f, originNorth_m: wy0 * f, georeference };
   }
-  const grid = makeGrid(spec, heights, mask);
-  requireSomeData(grid, source);
-  return grid;
+  /** The grid spec of a window [c0, r0) of w × h cells, each `k` pixels of a level with affine `a`. */
+  const specOf = (a: Affine, c0: number, r0: number, w: number, h: number, k: number): GridSpec => {
+    const wx0 = a.x0 + c0 * a.dx;
+    const wy0 = a.y0 - r0 * a.dy;
+    const cell: Affine = { x0: a.x0, y0: a.y0, dx: a.dx * k, dy: a.dy * k };
+    if (modelType === 2) return geographicSpec(source, geoKeys, cell, { w, h, wx0, wy0 }, geoOptions);
+    const georeference: GridGeoreference = {
+      model: modelType === 1 ? 'projected' : 'none',
+      // Geotransform of the window read (corner of its pixel 0,0), in the source CRS.
+      geoTransform: [wx0, cell.dx, 0, wy0, 0, -cell.dy],
+      ...(Number.isInteger(epsg) && epsg > 0 && epsg < 32767 ? { projectedEpsg: epsg } : {}),
+      ...(crs ? { projectedCrs: crs } : {}),
+    };
+    return { width: w, height: h, pixelSizeX_m: cell.dx * unit_m, pixelSizeY_m: cell.dy * unit_m, originEast_m: wx0 * unit_m, originNorth_m: wy0 * unit_m, georeference };
+  };
+  const whole = specOf(affine, 0, 0, fullW, fullH, 1);
+  const frame: GridFrame = {
+    width: fullW, height: fullH, pixelSizeX_m: whole.pixelSizeX_m, pixelSizeY_m: whole.pixelSizeY_m,
+    originEast_m: whole.originEast_m ?? 0, originNorth_m: whole.originNorth_m ?? 0, ...(whole.georeference ? { georeference: whole.georeference } : {}),
+  };
+  const base: LevelImage = {
+    level: { level: 0, width: fullW, height: fullH, pixelSizeX_m: frame.pixelSizeX_m, pixelSizeY_m: frame.pixelSizeY_m },
+    image, layout, affine,
+  };
+  let levelList: Promise<LevelImage[]> | null = null;
+  const levels = () => (levelList ??= overviewLevels(src, header, tiff, base, source, frame));
+
+  const readPixels = async (window: readonly [number, number, number, number], levelIndex = 0, k = 1, maxCells = MAX_GRID_CELLS): Promise<DemRead> => {
+    const L = levelIndex === 0 ? base : (await levels())[levelIndex];
+    if (!L) fail(source, `has no overview level ${levelIndex}`);
+    const [c0, r0, c1, r1] = window;
+    const { width: lw, height: lh } = L.level;
+    if (![c0, r0, c1, r1].every(Number.isInteger) || c0 < 0 || r0 < 0 || c1 > lw || r1 > lh || c1 <= c0 || r1 <= r0) {
+      fail(source, `invalid window [${c0}, ${r0}, ${c1}, ${r1}] for a ${lw} × ${lh} image (need 0 ≤ col0 < col1 ≤ width, 0 ≤ row0 < row1 ≤ height)`);
+    }
+    if (!(Number.isInteger(k) && k >= 1)) fail(source, `invalid decimation: ${k} (must be a whole number ≥ 1)`);
+    const w = Math.ceil((c1 - c0) / k);
+    const h = Math.ceil((r1 - r0) / k);
+    const limit = Math.min(maxCells, MAX_GRID_CELLS);
+    if (w * h > limit) {
+      fail(source, `is ${w} × ${h} = ${w * h} cells, over the limit of ${limit} (${limit === MAX_GRID_CELLS ? '4096 × 4096, ' : ''}${limit * (k > 1 ? AVERAGING_BYTES_PER_CELL : GRID_BYTES_PER_CELL)} bytes of grid); pass a window of at most that many cells, or read the region a footprint needs at the resolution it needs (CLI: hazard --study with --extent-m, footprint and trajectory --terrain)`);
+    }
+    checkDimensions(w, h, `${source} window`);
+    const n = w * h;
+    const heights = new Float32Array(n);
+    const mask = new Uint8Array(n);
+    const sum = k > 1 ? new Float64Array(n) : null;
+    const count = k > 1 ? new Uint32Array(n) : null;
+    const bad: { at: [number, number, number] | null } = { at: null };
+    const stats = emptyBlockStats();
+    await readWindow(L.image, src, L.layout, window, 0, noDataAsSample(noData, L.layout), (col, row, v) => {
+      if (isNoData(v)) {
+        if (!sum) { mask[row * w + col] = 1; heights[row * w + col] = NaN; }
+        return;
+      }
+      const z = v * verticalScale;
+      // A sample float32 heights cannot hold (±Infinity, or past ±3.4e38 m) is no height: refuse, never
+      // turn it silently into no-data (GDAL reads it as a value).
+      if (!Number.isFinite(Math.fround(z))) { bad.at ??= [col, row, v]; return; }
+      if (sum && count) {
+        // Block average (GDAL's -r average): the mean of the valid pixels under the cell, no-data left out.
+        const i = Math.floor(row / k) * w + Math.floor(col / k);
+        sum[i] += z;
+        count[i]++;
+      } else heights[row * w + col] = z;
+    }, source, stats);
+    if (bad.at) {
+      const [col, row, v] = bad.at;
+      fail(source, `sample ${v} at column ${c0 + col}, row ${r0 + row} is not a height (beyond ±3.4e38 m); the file is corrupt, or its voids need a no-data value (gdal_edit.py -a_nodata)`);
+    }
+    if (sum && count) {
+      for (let i = 0; i < n; i++) {
+        if (count[i] === 0) { mask[i] = 1; heights[i] = NaN; } else heights[i] = sum[i] / count[i];
+      }
+    }
+    const grid = makeGrid(specOf(L.affine, c0, r0, w, h, k), heights, mask);
+    requireSomeData(grid, source);
+    const gridBytes = n * (sum ? AVERAGING_BYTES_PER_CELL : GRID_BYTES_PER_CELL);
+    const overview = L.level.level > 0;
+    return {
+      grid,
+      report: {
+        level: L.level.level,
+        overview,
+        decimation: k,
+        method: overview ? (k > 1 ? 'overview, block average' : 'overview') : k > 1 ? 'block average' : 'full resolution',
+        window: [c0, r0, c1, r1],
+        levelSize: [L.level.width, L.level.height],
+        cells: n,
+        gridBytes,
+        blocksDecoded: stats.blocksDecoded,
+        blocksSparse: stats.blocksSparse,
+        bytesRead: stats.bytesRead,
+        largestBlockBytes: stats.largestBlockBytes,
+        workingBytes: gridBytes + 2 * stats.largestBlockBytes + (L.layout.predictor !== 1 ? stats.largestBlockBytes : 0),
+      },
+    };
+  };
+
+  const readRegion = async (req: DemRegionRequest): Promise<DemRead> => {
+    const plan = planRegionRead(await (req.resolution === undefined || req.resolution === 'native' ? [base.level] : (await levels()).map((l) => l.level)), frame, req, source);
+    return readPixels(plan.window, plan.level, plan.decimation, req.maxCells);
+  };
+
+  return { sourceName: source, width: fullW, height: fullH, frame, levels: async () => (await levels()).map((l) => l.level), readPixels, readRegion };
 }
+
+/**
+ * The overviews GDAL would use: the IFDs after the first whose NewSubfileType has the reduced-resolution bit
+ * (1) and not the mask bit (4), with band 1 of the same sample type; their pixel size is the full image's
+ * times the size ratio, as GDAL places overviews. Each directory is checked before it is parsed.
+ */
+async function overviewLevels(src: ByteSource, header: TiffHeader, tiff: GeoTIFF, base: LevelImage, source: string, frame: GridFrame): Promise<LevelImage[]> {
+  const out: LevelImage[] = [base];
+  let at = await checkDirectoryAt(src, header, header.firstDirectory, source);
+  const seen = new Set<number>([header.firstDirectory]);
+  for (let index = 1; at !== 0 && index <= MAX_DIRECTORIES; index++) {
+    if (seen.has(at)) fail(source, `image directory ${index} points back to an earlier one (offset ${at}); the file is corrupt — re-save it with GDAL`);
+    seen.add(at);
+    const next = await checkDirectoryAt(src, header, at, source, `image directory ${index}`);
+    const image = await tiff.getImage(index);
+    const fd = image.getFileDirectory();
+    const kind = fd.hasTag('NewSubfileType' as never) ? Number(fd.getValue('NewSubfileType' as never)) : 0;
+    if ((kind & 1) === 1 && (kind & 4) === 0) {
+      const layout = tiffLayout(image, `${source} (overview IFD ${index})`);
+      if (layout.sampleFormat === base.layout.sampleFormat && layout.bitsPerSample === base.layout.bitsPerSample && layout.samplesPerPixel === base.layout.samplesPerPixel) {
+        const fx = base.level.width / layout.width;
+        const fy = base.level.height / layout.height;
+        const affine: Affine = { x0: base.affine.x0, y0: base.affine.y0, dx: base.affine.dx * fx, dy: base.affine.dy * fy };
+        out.push({ image, layout, affine, level: { level: 0, width: layout.width, height: layout.height, pixelSizeX_m: frame.pixelSizeX_m * fx, pixelSizeY_m: frame.pixelSizeY_m * fy } });
+      }
+    }
+    at = next;
+  }
+  const overviews = out.slice(1).sort((a, b) => b.level.width - a.level.width);
+  return [base, ...overviews.map((o, i) => ({ ...o, level: { ...o.level, level: i + 1 } }))];
+}
+
+/** Most image directories looked at for overviews (GDAL writes one per overview level and mask). */
+const MAX_DIRECTORIES = 64;
 
 function geographicSpec(
   source: string,

@@ -20,7 +20,7 @@ export interface GridGeoreference {
    * Projected sources: the CRS as a PROJ string and a name (projection.ts), taken from the file's GeoKeys
    * (EPSG code or user-defined keys). Without it a projected georeference falls back on `projectedEpsg`.
    */
-  readonly projectedCrs?: { readonly proj4: string; readonly name: string };
+  readonly projectedCrs?: { readonly proj4: string; readonly name: string; readonly planetocentric?: boolean; readonly geoKeys?: Readonly<Record<string, unknown>> };
   /** EPSG code of a geographic CRS, when the file named one. */
   readonly geographicEpsg?: number;
   /** 'projected' (metres), 'geographic' (degrees, converted to a local frame), or 'none' (no CRS). */
@@ -53,9 +53,16 @@ export interface ElevationGrid {
   readonly georeference?: GridGeoreference;
 }
 
+/** A grid's size and placement without its heights (an opened DEM's frame before anything is read). */
+export type GridFrame = Omit<ElevationGrid, 'heights' | 'noData'>;
+
 /**
- * Largest grid any reader builds: 4096 × 4096 cells (≈ 64 MB of Float32 heights plus masks). Larger
- * files must be read through a window (`window` option of the readers).
+ * The memory bound: the largest grid any reader builds, 4096 × 4096 = 16 777 216 cells — 80 MiB of Float32
+ * heights and Uint8 masks (5 bytes a cell), 272 MiB while block averaging (17 bytes a cell), plus one TIFF
+ * block at a time (dem-region.ts). A hazard map on such a grid holds about 40 bytes a cell more (slope,
+ * footprint slope, roughness, flags, distance transform: ≈ 0.7 GiB at the bound). Larger files are read as a
+ * window of them (`openGeoTiff(…).readRegion`: the region an analysis needs, at full resolution, from an
+ * overview or block-averaged; or the `window` option of readGeoTiff).
  */
 export const MAX_GRID_CELLS = 4096 * 4096;
 

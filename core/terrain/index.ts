@@ -1,6 +1,7 @@
 /** core/terrain: elevation grids in, slope / hazard / safe-site products out. Pure; no node:*. */
 export * from './grid.ts';
 export * from './geotiff-reader.ts';
+export * from './byte-source.ts';
 export * from './georeference.ts';
 export * from './projection.ts';
 export * from './png-reader.ts';
@@ -17,3 +18,6 @@ export * from './demo-terrain.ts';
 export * from './lzw.ts';
 export { MAX_BLOCK_BYTES, MAX_DECODED_BYTES } from './tiff-blocks.ts';
 export * from './groundFrame.ts';
+export * from './demo-site-file.ts';
+export * from './tiff-deflate-writer.ts';
+export * from './dem-region.ts';

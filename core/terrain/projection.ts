@@ -41,6 +41,11 @@ export interface ProjectedCrs {
    * cannot say it and proj4js's latitudes are geodetic (planetographic), so makeProjection converts.
    */
   readonly planetocentric?: boolean;
+  /**
+   * The GeoKeys the CRS was read from (by name, as geotiff.js gives them), kept so that rasters written in
+   * the DEM's CRS (tiff-writer.ts) carry the very keys GDAL reads the DEM with.
+   */
+  readonly geoKeys?: Readonly<Record<string, unknown>>;
 }
 
 type Params = Map<string, string | true>;
@@ -88,6 +93,9 @@ function correctUserDefined(m: Params, keys: Record<string, unknown>): void {
   }
 }
 
+/** GeoKeys that define a horizontal CRS (model type, citations, geographic and projected keys): not the raster type nor vertical keys. */
+const CRS_KEY = /^(GTModelType|GTCitation|Geog|Geographic|Geodetic|PrimeMeridian|Ellipsoid|Projected|PCS|Projection|Proj)/;
+
 function crsName(keys: Record<string, unknown>): string {
   const code = Number(keys.ProjectedCSTypeGeoKey);
   if (Number.isInteger(code) && code > 0 && code !== USER_DEFINED) return `EPSG:${code}`;
@@ -131,7 +139,8 @@ export function projectedCrsFromGeoKeys(keys: Record<string, unknown>, source: s
   const citations = [keys.GTCitationGeoKey, keys.GeogCitationGeoKey, keys.PCSCitationGeoKey].filter((c) => typeof c === 'string').join(' ');
   const a = Number(m.get('a')), b = Number(m.get('b'));
   const planetocentric = /\bocentric\b/i.test(citations) && Number.isFinite(a) && Number.isFinite(b) && a !== b;
-  return checkedCrs({ proj4: writeProj(m), name, ...(planetocentric ? { planetocentric: true } : {}) }, source);
+  const crsKeys = Object.fromEntries(Object.entries(keys).filter(([k]) => CRS_KEY.test(k)));
+  return checkedCrs({ proj4: writeProj(m), name, ...(planetocentric ? { planetocentric: true } : {}), geoKeys: crsKeys }, source);
 }
 
 /** The checked projection methods in words, for messages. */

@@ -16,6 +16,7 @@ import type { GeoTIFFImage } from 'geotiff';
 import { TerrainInputError } from './grid.ts';
 import { TIFF_COMPRESSIONS, codecUsesPredictor, decodeBlock } from './tiff-codecs.ts';
 import { zstdReady } from './zstd.ts';
+import type { ByteSource } from './byte-source.ts';
 
 /**
  * Largest decoded strip or tile: 256 MiB. Above it a file is refused before decoding (re-tile it:
@@ -195,19 +196,37 @@ async function indexed(image: GeoTIFFImage, tag: string, index: number): Promise
   return typeof v === 'bigint' ? Number(v) : Number(v);
 }
 
+/** What one readWindow call did: counted by the reader itself, for the memory figures of a read. */
+export interface BlockReadStats {
+  /** Blocks decoded (read from the file and decompressed), one at a time. */
+  blocksDecoded: number;
+  /** Blocks never written (byte count 0, GDAL SPARSE_OK): no bytes read, filled with the null value. */
+  blocksSparse: number;
+  /** Bytes of block data fetched from the source. */
+  bytesRead: number;
+  /** Largest decoded block, bytes: with its compressed bytes and a predictor copy, the per-block working set. */
+  largestBlockBytes: number;
+}
+
+export function emptyBlockStats(): BlockReadStats {
+  return { blocksDecoded: 0, blocksSparse: 0, bytesRead: 0, largestBlockBytes: 0 };
+}
+
 /**
- * Reads sample `band` (0-based) over the window [c0, r0, c1, r1) and hands each value to `put(k, value)`
- * with k the row-major index in the window. Values of never-written blocks are `nullValue`.
+ * Reads sample `band` (0-based) over the window [c0, r0, c1, r1) and hands each value to
+ * `put(col, row, value)` with (col, row) relative to the window's corner. Values of never-written blocks are
+ * `nullValue`. Only the blocks the window intersects are read, one at a time, from `file`.
  */
 export async function readWindow(
   image: GeoTIFFImage,
-  file: Uint8Array,
+  file: ByteSource,
   layout: TiffLayout,
   window: readonly [number, number, number, number],
   band: number,
   nullValue: number,
-  put: (k: number, value: number) => void,
+  put: (col: number, row: number, value: number) => void,
   source: string,
+  stats: BlockReadStats = emptyBlockStats(),
 ): Promise<void> {
   const [c0, r0, c1, r1] = window;
   const { blockWidth: bw, blockHeight: bh, bitsPerSample, samplesPerPixel: spp, planar, littleEndian } = layout;
@@ -220,7 +239,7 @@ export async function readWindow(
   let total = 0;
   for (let by = by0; by < by1; by++) total += (bx1 - bx0) * bw * rowsOf(by) * pixelSamples * bytes;
   if (total > MAX_DECODED_BYTES) {
-    fail(source, `reading window [${c0}, ${r0}, ${c1}, ${r1}] would decode ${total} bytes of ${layout.tiled ? 'tiles' : 'strips'}, over the limit of ${MAX_DECODED_BYTES} (1 GiB); read a smaller window, or re-tile the file (gdal_translate -co TILED=YES)`);
+    fail(source, `reading window [${c0}, ${r0}, ${c1}, ${r1}] would decode ${total} bytes of ${layout.tiled ? 'tiles' : 'strips'}, over the limit of ${MAX_DECODED_BYTES} (1 GiB); read a smaller window, build overviews so a coarse read decodes less (gdaladdo -r average FILE 2 4 8 16 32), or re-tile the file (gdal_translate -co TILED=YES)`);
   }
   if (layout.compression === 50000 || (layout.compression === 34887 && layout.lercParameters?.[1] === 2)) {
     try {
@@ -233,7 +252,6 @@ export async function readWindow(
   const countsTag = layout.tiled ? 'TileByteCounts' : 'StripByteCounts';
   const read = sampleReader(layout);
   const valueLe = layout.predictor === 3 ? false : littleEndian;
-  const outWidth = c1 - c0;
   const sampleInPixel = planar === 1 ? band : 0;
   const planeOffset = planar === 2 ? band * across * down : 0;
   for (let by = by0; by < by1; by++) {
@@ -247,7 +265,8 @@ export async function readWindow(
       const cx0 = Math.max(c0, bx * bw), cx1 = Math.min(c1, (bx + 1) * bw, layout.width);
       const ry0 = Math.max(r0, by * bh), ry1 = Math.min(r1, by * bh + rows);
       if (count === 0) {
-        for (let r = ry0; r < ry1; r++) for (let c = cx0; c < cx1; c++) put((r - r0) * outWidth + (c - c0), nullValue);
+        stats.blocksSparse++;
+        for (let r = ry0; r < ry1; r++) for (let c = cx0; c < cx1; c++) put(c - c0, r - r0, nullValue);
         continue;
       }
       const expectedBytes = bw * rows * pixelSamples * bytes;
@@ -261,12 +280,16 @@ export async function readWindow(
       }
       // Uncompressed blocks are read at their declared size, as libtiff does; others by their byte count.
       const end = layout.compression === 1 ? offset + expectedBytes : offset + count;
-      if (!Number.isInteger(offset) || offset <= 0 || offset > file.length || end > file.length) {
-        fail(source, `${offsetsTag}[${index}] = ${offset} with ${at} = ${count} runs past the end of the ${file.length}-byte file (truncated or corrupt); re-save the file from its source`);
+      if (!Number.isInteger(offset) || offset <= 0 || offset > file.byteLength || end > file.byteLength) {
+        fail(source, `${offsetsTag}[${index}] = ${offset} with ${at} = ${count} runs past the end of the ${file.byteLength}-byte file (truncated or corrupt); re-save the file from its source`);
       }
+      const stored = await file.read(offset, end - offset);
+      stats.blocksDecoded++;
+      stats.bytesRead += stored.byteLength;
+      stats.largestBlockBytes = Math.max(stats.largestBlockBytes, expectedBytes);
       let block: Uint8Array;
       try {
-        block = decodeBlock(file.subarray(offset, end), {
+        block = decodeBlock(stored, {
           compression: layout.compression, expectedBytes, width: bw, height: rows, samples: pixelSamples,
           sampleFormat: layout.sampleFormat, bitsPerSample, lercParameters: layout.lercParameters,
         });
@@ -282,7 +305,7 @@ export async function readWindow(
       for (let r = ry0; r < ry1; r++) {
         const rowBase = (r - by * bh) * bw;
         for (let c = cx0; c < cx1; c++) {
-          put((r - r0) * outWidth + (c - c0), read(view, ((rowBase + c - bx * bw) * pixelSamples + sampleInPixel) * bytes, valueLe));
+          put(c - c0, r - r0, read(view, ((rowBase + c - bx * bw) * pixelSamples + sampleInPixel) * bytes, valueLe));
         }
       }
     }
@@ -295,41 +318,70 @@ const INTEGER_TAGS = new Set([256, 257, 258, 259, 273, 277, 278, 279, 284, 317, 
 /** Bytes per value of the TIFF field types (TIFF 6.0 Section 2; BigTIFF adds 16–18). */
 const FIELD_TYPE_BYTES: Record<number, number> = { 1: 1, 2: 1, 3: 2, 4: 4, 5: 8, 6: 1, 7: 1, 8: 2, 9: 4, 10: 8, 11: 4, 12: 8, 13: 4, 16: 8, 17: 8, 18: 8 };
 
-/**
- * Checks the first image directory before the `geotiff` package parses it: its entries, and every value
- * stored outside an entry, must lie inside the file. This bounds what parsing allocates by the file's
- * size (a corrupt count cannot ask for gigabytes).
- */
-export function checkDirectory(file: Uint8Array, source: string): void {
-  const v = new DataView(file.buffer, file.byteOffset, file.byteLength);
-  const le = file[0] === 0x49;
+/** The file's byte order and TIFF flavour, from its 16-byte header. */
+export interface TiffHeader {
+  littleEndian: boolean;
+  bigTiff: boolean;
+  /** Offset of the first image directory. */
+  firstDirectory: number;
+}
+
+function u64(v: DataView, at: number, le: boolean): number {
+  return Number(v.getBigUint64(at, le));
+}
+
+/** Reads and checks the header (TIFF 6.0 Section 2; BigTIFF). */
+export async function readTiffHeader(file: ByteSource, source: string): Promise<TiffHeader> {
+  const head = await file.read(0, 16);
+  const v = new DataView(head.buffer, head.byteOffset, head.byteLength);
+  const le = head[0] === 0x49;
   const magic = v.getUint16(2, le);
   const big = magic === 43;
   if (magic !== 42 && !big) fail(source, `not a TIFF file (version ${magic}, expected 42 or 43 for BigTIFF)`);
-  if (big && (file.length < 16 || v.getUint16(4, le) !== 8 || v.getUint16(6, le) !== 0)) fail(source, 'BigTIFF header is corrupt; re-save the file with GDAL');
-  const at = big ? Number(v.getBigUint64(8, le)) : v.getUint32(4, le);
+  if (big && (file.byteLength < 16 || v.getUint16(4, le) !== 8 || v.getUint16(6, le) !== 0)) fail(source, 'BigTIFF header is corrupt; re-save the file with GDAL');
+  return { littleEndian: le, bigTiff: big, firstDirectory: big ? u64(v, 8, le) : v.getUint32(4, le) };
+}
+
+/**
+ * Checks one image directory before the `geotiff` package parses it: its entries, and every value stored
+ * outside an entry, must lie inside the file. This bounds what parsing allocates by the file's size (a
+ * corrupt count cannot ask for gigabytes). Returns the offset of the next directory (0: none).
+ */
+export async function checkDirectoryAt(file: ByteSource, header: TiffHeader, at: number, source: string, which = 'first image directory'): Promise<number> {
+  const { littleEndian: le, bigTiff: big } = header;
+  const size = file.byteLength;
   const countBytes = big ? 8 : 2;
   const entryBytes = big ? 20 : 12;
   const inline = big ? 8 : 4;
-  if (!(at >= 8 && at + countBytes <= file.length)) fail(source, `first image directory offset ${at} is outside the ${file.length}-byte file (truncated or corrupt)`);
-  const entries = big ? Number(v.getBigUint64(at, le)) : v.getUint16(at, le);
-  if (entries < 1 || at + countBytes + entries * entryBytes > file.length) {
-    fail(source, `image directory at ${at} declares ${entries} entries, which do not fit in the ${file.length}-byte file (truncated or corrupt)`);
+  if (!(at >= 8 && at + countBytes <= size)) fail(source, `${which} offset ${at} is outside the ${size}-byte file (truncated or corrupt)`);
+  const countView = await file.read(at, countBytes);
+  const cv = new DataView(countView.buffer, countView.byteOffset, countView.byteLength);
+  const entries = big ? u64(cv, 0, le) : cv.getUint16(0, le);
+  if (entries < 1 || at + countBytes + entries * entryBytes > size) {
+    fail(source, `image directory at ${at} declares ${entries} entries, which do not fit in the ${size}-byte file (truncated or corrupt)`);
   }
+  const tableBytes = entries * entryBytes + (big ? 8 : 4);
+  const table = await file.read(at + countBytes, tableBytes);
+  const v = new DataView(table.buffer, table.byteOffset, table.byteLength);
   for (let e = 0; e < entries; e++) {
-    const p = at + countBytes + e * entryBytes;
+    const p = e * entryBytes;
     const tagId = v.getUint16(p, le);
-    const size = FIELD_TYPE_BYTES[v.getUint16(p + 2, le)];
-    if (size === undefined) continue; // unknown field types are skipped by readers (TIFF 6.0)
-    const count = big ? Number(v.getBigUint64(p + 4, le)) : v.getUint32(p + 4, le);
-    if (INTEGER_TAGS.has(tagId) && ![1, 3, 4, 16].includes(v.getUint16(p + 2, le))) {
-      fail(source, `tag ${tagId} is stored as TIFF type ${v.getUint16(p + 2, le)}, but TIFF 6.0 requires an unsigned integer type there (GDAL refuses it too); re-save the file with GDAL`);
+    const type = v.getUint16(p + 2, le);
+    const bytesPer = FIELD_TYPE_BYTES[type];
+    if (bytesPer === undefined) continue; // unknown field types are skipped by readers (TIFF 6.0)
+    const count = big ? u64(v, p + 4, le) : v.getUint32(p + 4, le);
+    if (INTEGER_TAGS.has(tagId) && ![1, 3, 4, 16].includes(type)) {
+      fail(source, `tag ${tagId} is stored as TIFF type ${type}, but TIFF 6.0 requires an unsigned integer type there (GDAL refuses it too); re-save the file with GDAL`);
     }
-    const length = count * size;
+    const length = count * bytesPer;
     if (length <= inline) continue;
-    const offset = big ? Number(v.getBigUint64(p + 12, le)) : v.getUint32(p + 8, le);
-    if (offset + length > file.length) {
-      fail(source, `directory entry for tag ${tagId} declares ${count} values (${length} bytes) at offset ${offset}, past the end of the ${file.length}-byte file (truncated or corrupt)`);
+    const offset = big ? u64(v, p + 12, le) : v.getUint32(p + 8, le);
+    if (offset + length > size) {
+      fail(source, `directory entry for tag ${tagId} declares ${count} values (${length} bytes) at offset ${offset}, past the end of the ${size}-byte file (truncated or corrupt)`);
     }
   }
+  // The next-directory offset follows the entries; a table cut by the end of the file has none.
+  const nextAt = entries * entryBytes;
+  if (table.byteLength < nextAt + (big ? 8 : 4)) return 0;
+  return big ? u64(v, nextAt, le) : v.getUint32(nextAt, le);
 }

@@ -1,6 +1,6 @@
 /**
- * The few declarations we use from two packages that ship no types of their own: pako (a port of zlib,
- * inflate only) and lerc (Esri's LERC decoder, pure JavaScript). Both are also what the `geotiff` package
+ * The few declarations we use from two packages that ship no types of their own: pako (a port of zlib:
+ * inflate, and deflate for the demo DEM's writer) and lerc (Esri's LERC decoder, pure JavaScript). Both are also what the `geotiff` package
  * itself uses for Deflate and LERC.
  */
 declare module 'pako' {
@@ -13,6 +13,7 @@ declare module 'pako' {
     msg: string;
     ended: boolean;
   }
+  export function deflate(data: Uint8Array, options?: { level?: number }): Uint8Array;
 }
 
 declare module 'lerc' {

@@ -1,5 +1,5 @@
 /** Result figures as the app shows them: a label, a value with its unit, and a note where it needs one. */
-import type { FootprintSummary } from '../../core/study/footprintExport.ts';
+import type { FootprintSummary } from '../../core/export/footprintExport.ts';
 import type { PickedTrajectory } from '../../core/footprint/pickedTrajectory.ts';
 
 export interface Figure {
@@ -20,6 +20,9 @@ export function footprintFigureList(s: FootprintSummary): Figure[] {
     // Never merged with the reachable ones: the relaxation was not lossless there (core/footprint/field.ts).
     ...(s.relaxationGap > 0
       ? [{ label: 'Relaxation gap', value: `${s.relaxationGap} targets`, note: 'not lossless: flyable cost above the certified bound (contours use the flyable cost)' }]
+      : []),
+    ...((s.undecided ?? 0) > 0
+      ? [{ label: 'Undecided', value: `${s.undecided} targets`, note: 'throttle band: the lower bound does not exclude them, but no band-respecting trajectory was found within the budget' }]
       : []),
     { label: 'Budget', value: `${fixed(s.budget_kg, 1)} kg`, note: `usable ${fixed(s.usablePropellant_kg, 1)} kg − reserve ${fixed(s.reserve_kg, 1)} kg` },
     // Targets not computed count as out of reach (core/footprint/contours.ts), so a partial field gives
@@ -42,6 +45,14 @@ export function trajectoryFigureList(t: PickedTrajectory, budget_kg: number): Fi
       { label: 'Target', value: at },
       { label: 'Status', value: 'unreachable', note: `closest landing ${fixed(t.miss_m, 0)} m away` },
       { label: 'Time of flight', value: `${fixed(t.timeOfFlight_s, 2)} s`, note: 'closest-approach trajectory' },
+    ];
+  }
+  if (t.status === 'undecided') {
+    return [
+      { label: 'Target', value: at },
+      { label: 'Status', value: 'undecided', note: 'throttle band: neither reachable nor unreachable is proven' },
+      { label: 'Propellant', value: Number.isFinite(t.propellant_kg) ? `${fixed(t.propellant_kg, 2)} kg (band-respecting, above the budget)` : 'no band-respecting trajectory found', note: `certified lower bound ${fixed(t.propellantLowerBound_kg, 2)} kg (ignoring the band)` },
+      ...warningFigure(t),
     ];
   }
   if (t.status === 'relaxation-gap') {

@@ -1,10 +1,10 @@
 /**
  * Study results as the app shows and exports them (pure): the table of each study, the minimum-altitude
- * verdict, the export files (core/study/studyExport.ts, the CLI's writers), the landing ellipse for the
+ * verdict, the export files (core/export/studyExport.ts, the CLI's writers), the landing ellipse for the
  * scene and the probability-of-reach map as a drape.
  */
 import type { Ellipse } from '../../core/footprint/ellipse.ts';
-import { altitudeStudyCsvLines, DISPERSION_MODEL, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReport } from '../../core/study/studyExport.ts';
+import { altitudeStudyCsvLines, DISPERSION_MODEL, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReport } from '../../core/export/studyExport.ts';
 import type { AltitudeStudyResult, DispersionStudyResult, ReachMap, StudyResult } from '../compute/study-session.ts';
 import type { LandingEllipse } from '../scene/scene-objects.ts';
 import type { ElevationGrid } from '../scene/elevation-grid.ts';

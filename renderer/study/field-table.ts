@@ -53,6 +53,13 @@ export const GROUPS: readonly GroupSpec[] = [
   { id: 'discretisation', title: 'Discretisation', summary: 'Time nodes of the convex descent problem for single trajectories.' },
 ];
 
+/**
+ * The first forbidden throttle band (core/study `vehicle.throttleBands[0]`) as two numeric fields: these two ids
+ * are not paths of the document; the study model turns them into the band list (renderer/study/study-model.ts).
+ */
+export const BAND_LOW_FIELD = 'vehicle.throttleBandLow';
+export const BAND_HIGH_FIELD = 'vehicle.throttleBandHigh';
+
 /** The numeric inputs of a core/study document (core/study/schema.ts), with the demo study's values. */
 export const FIELDS: readonly FieldSpec[] = [
   { id: 'planet.gravity_mps2', group: 'planet', label: 'Surface gravity', unit: 'm/s²', min: 0.01, max: 30, step: 0.01, defaultValue: 3.71, help: 'Magnitude of gravitational acceleration, assumed uniform over the descent.' },
@@ -66,6 +73,9 @@ export const FIELDS: readonly FieldSpec[] = [
   { id: 'vehicle.cantAngle_deg', group: 'vehicle', label: 'Engine cant angle', unit: '°', min: 0, max: 80, maxExclusive: true, step: 1, defaultValue: 20, help: 'Outward tilt of each engine from the thrust axis; the net thrust is n · T · cos(cant).' },
   { id: 'vehicle.throttleMin', group: 'vehicle', label: 'Minimum throttle', unit: '', min: 0, max: 1, step: 0.01, defaultValue: 0.25, help: 'Lowest thrust fraction once lit (the engines cannot be shut down mid-descent).' },
   { id: 'vehicle.throttleMax', group: 'vehicle', label: 'Maximum throttle', unit: '', min: 0, max: 1, minExclusive: true, step: 0.01, defaultValue: 0.85, help: 'Highest thrust fraction allowed for the planned descent (keeps a margin).' },
+  { id: BAND_LOW_FIELD, group: 'vehicle', label: 'Forbidden throttle from', unit: '', min: 0, max: 1, zeroMeansNone: true, step: 0.01, defaultValue: 0, help: 'Lower edge of a throttle band the engine cannot run in (0 in both band fields: no band). Further bands in the study file are kept.' },
+  { id: BAND_HIGH_FIELD, group: 'vehicle', label: 'Forbidden throttle to', unit: '', min: 0, max: 1, zeroMeansNone: true, step: 0.01, defaultValue: 0, help: 'Upper edge of the forbidden throttle band (0 in both band fields: no band).' },
+  { id: 'vehicle.throttleRate_perS', group: 'vehicle', label: 'Throttle rate limit', unit: '/s', min: 0, max: 100, zeroMeansNone: true, step: 0.05, defaultValue: 0, help: 'Largest change of throttle per second, as a fraction of full thrust (0: no limit). Forbidden throttle bands are read from the study file and kept.' },
   { id: 'vehicle.pointingLimit_deg', group: 'vehicle', label: 'Thrust tilt limit', unit: '°', min: 0, max: 180, minExclusive: true, step: 1, defaultValue: 75, help: 'Largest angle between the thrust vector and the local vertical (180: free).' },
 
   { id: 'ignition.position_m.2', group: 'ignition', label: 'Altitude', unit: 'm', min: 1, max: 1e5, step: 10, defaultValue: 1800, help: 'Height above the nominal target at ignition.' },
@@ -80,7 +90,7 @@ export const FIELDS: readonly FieldSpec[] = [
   { id: 'constraints.gateHeight_m', group: 'constraints', label: 'Gate height', unit: 'm', min: 0, max: 1e4, step: 1, defaultValue: 20, help: 'Powered descent ends this high above the target; a final vertical segment follows.' },
   { id: 'constraints.gateDescentRate_mps', group: 'constraints', label: 'Gate descent rate', unit: 'm/s', min: 0, max: 100, step: 0.1, defaultValue: 1, help: 'Downward speed at the gate.' },
 
-  { id: 'vehicle.propellantReserve_kg', group: 'reserve', label: 'Reserve at touchdown', unit: 'kg', min: 0, max: 1e6, step: 5, defaultValue: 20, help: 'Targets that need more than (propellant on board − reserve) are outside the footprint.' },
+  { id: 'vehicle.propellantReserve_kg', group: 'reserve', label: 'Reserve at touchdown', unit: 'kg', min: 0, max: 1e6, step: 5, defaultValue: 150, help: 'Targets that need more than (propellant on board − reserve) are outside the footprint.' },
 
   { id: 'discretisation.nodes', group: 'discretisation', label: 'Time nodes', unit: '', min: 5, max: 2000, integer: true, step: 1, defaultValue: 50, help: 'Nodes of picked-target trajectories (footprint targets use a fixed coarser count).' },
 ];

@@ -6,7 +6,7 @@
  * planet body, hold, …) ride along unchanged in the raw values under BASE_DOCUMENT_KEY, so opening and
  * saving a study loses nothing. Whole documents are validated by core/study's zod schema (toCoreStudy).
  */
-import { FIELDS, GROUPS, type FieldSpec, type GroupSpec } from './field-table.ts';
+import { BAND_HIGH_FIELD, BAND_LOW_FIELD, FIELDS, GROUPS, type FieldSpec, type GroupSpec } from './field-table.ts';
 import { STUDY_FORMAT, STUDY_VERSION } from '../../core/study/schema.ts';
 import { MARS_SURFACE_GRAVITY, MOON_SURFACE_GRAVITY } from '../../core/descent/planet.ts';
 import { parseStudyJson, StudyError } from '../../core/study/load.ts';
@@ -26,7 +26,7 @@ const DEMO_BASE: Record<string, unknown> = {
   name: 'Untitled study',
   description: 'INVENTED demo data: the vehicle, the site and the ignition state are made up for illustration and match no real mission or vehicle.',
   planet: { body: 'mars' },
-  site: { name: 'Aster Basin (invented site)', invented: true },
+  site: { name: 'Orvessa Plain (invented)', invented: true },
   vehicle: { name: 'LR-Demo lander (invented)', invented: true },
   ignition: {},
   constraints: { minAltitude_m: null },
@@ -39,6 +39,9 @@ const SCHEMA_DEFAULTS: Record<string, number> = {
   'vehicle.propellantReserve_kg': 0,
   'vehicle.cantAngle_deg': 0,
   'vehicle.pointingLimit_deg': 180,
+  'vehicle.throttleRate_perS': 0,
+  [BAND_LOW_FIELD]: 0,
+  [BAND_HIGH_FIELD]: 0,
   'constraints.glideSlope_deg': 0,
   'constraints.maxSpeed_mps': 0,
   'constraints.gateHeight_m': 0,
@@ -164,12 +167,38 @@ function baseOf(doc: Record<string, unknown>): Record<string, unknown> {
     const parent = getPath(base, parts.slice(0, -1).join('.')) as Record<string, unknown> | undefined;
     if (parent && typeof parent === 'object' && !Array.isArray(parent)) delete parent[parts[parts.length - 1]];
   }
+  // The first band rides in its two fields; the others stay in the base document.
+  const vehicle = base.vehicle as Record<string, unknown> | undefined;
+  if (vehicle && typeof vehicle === 'object' && Array.isArray(vehicle.throttleBands)) vehicle.throttleBands = vehicle.throttleBands.slice(1);
   for (const vector of ['ignition.position_m', 'ignition.velocity_mps']) {
     const [group, key] = vector.split('.');
     const g = base[group] as Record<string, unknown> | undefined;
     if (g && typeof g === 'object') delete g[key];
   }
   return base;
+}
+
+/** Edge (0: lower, 1: upper) of the document's first forbidden throttle band; null when it has none. */
+function firstBandEdge(doc: unknown, edge: 0 | 1): unknown {
+  const bands = getPath(doc, 'vehicle.throttleBands');
+  if (bands === undefined) return undefined;
+  return Array.isArray(bands) && Array.isArray(bands[0]) ? bands[0][edge] : null;
+}
+
+/**
+ * The two band fields (written by setPath as vehicle.throttleBandLow/High) back into `vehicle.throttleBands`:
+ * both 0 (null) is no first band; otherwise [lo, hi] first, the file's further bands after it (core/study
+ * then checks the list and names `vehicle.throttleBands.0` if the pair is not a valid band).
+ */
+function bandFieldsToList(doc: Record<string, unknown>): void {
+  const vehicle = doc.vehicle as Record<string, unknown>;
+  const lo = vehicle[BAND_LOW_FIELD.split('.')[1]];
+  const hi = vehicle[BAND_HIGH_FIELD.split('.')[1]];
+  delete vehicle[BAND_LOW_FIELD.split('.')[1]];
+  delete vehicle[BAND_HIGH_FIELD.split('.')[1]];
+  const rest = Array.isArray(vehicle.throttleBands) ? vehicle.throttleBands : [];
+  const set = (typeof lo === 'number' && lo !== 0) || (typeof hi === 'number' && hi !== 0);
+  vehicle.throttleBands = set ? [[lo ?? 0, hi ?? 0], ...rest] : rest;
 }
 
 function presetGravity(doc: unknown): number | undefined {
@@ -207,6 +236,7 @@ export function createLocalStudyModel(): StudyModel {
       }
       const doc: Record<string, unknown> = { ...structuredClone(base), format: STUDY_FORMAT, version: STUDY_VERSION, name };
       for (const f of FIELDS) setPath(doc, f.id, f.zeroMeansNone && values[f.id] === 0 ? null : values[f.id]);
+      bandFieldsToList(doc);
       return doc;
     },
     fromText(text) {
@@ -228,7 +258,7 @@ export function createLocalStudyModel(): StudyModel {
       const raw: RawValues = {};
       const missing: string[] = [];
       for (const f of FIELDS) {
-        let value = getPath(doc, f.id);
+        let value = f.id === BAND_LOW_FIELD || f.id === BAND_HIGH_FIELD ? firstBandEdge(doc, f.id === BAND_LOW_FIELD ? 0 : 1) : getPath(doc, f.id);
         if (value === undefined && f.id === 'planet.gravity_mps2') value = presetGravity(doc);
         if (value === null && f.zeroMeansNone) value = 0;
         if (value === undefined && f.id in SCHEMA_DEFAULTS) value = SCHEMA_DEFAULTS[f.id];

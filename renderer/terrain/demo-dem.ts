@@ -7,7 +7,7 @@ import demoDemUrl from '../../assets/demo/terrain/demo-site.tif?url';
 import demoDemInfo from '../../assets/demo/terrain/demo-site.json';
 
 export const DEMO_DEM_FILE = 'demo-site.tif';
-/** e.g. "Meridian Shoal (invented demo site)". */
+/** "Orvessa Plain (invented)" (core/terrain DEMO_SITE_NAME, written into demo-site.json). */
 export const DEMO_DEM_NAME: string = demoDemInfo.name;
 
 export async function fetchDemoDem(): Promise<Uint8Array> {

@@ -6,7 +6,7 @@
  * under it is). Pure: runs in the terrain worker and in unit tests. Analysis stays at DEM resolution.
  */
 import {
-  PROJECTIONS_CHECKED, TerrainInputError, decimatedMesh, gridGeometry, hazardMap, readGeoTiff, readJsonGrid, readPngHeightmap, requireSomeData,
+  MAX_GRID_CELLS, PROJECTIONS_CHECKED, TerrainInputError, decimatedMesh, gridGeometry, hazardMap, openGeoTiff, readJsonGrid, readPngHeightmap, requireSomeData,
   resampleHazardFlags, resampleHeights, validCount, type ElevationGrid, type GridGeoreference, type GridSpec, type HazardLimits,
 } from '../../core/terrain/index.ts';
 import type { ElevationGrid as DisplayGrid } from '../scene/elevation-grid.ts';
@@ -34,11 +34,28 @@ export function sniffTerrainFormat(bytes: Uint8Array): TerrainFormat | null {
   return head.startsWith('{') ? 'landreach-json-grid' : null;
 }
 
+/**
+ * A GeoTIFF of at most MAX_GRID_CELLS is read whole. A larger one (e.g. a 20k × 20k DTM) is read at full
+ * resolution — the hazard map needs it — over the largest window of at most 4096 × 4096 cells about the DEM's
+ * centre (the default nominal target), decoding only the blocks under it; its name says which window. The
+ * footprint and the scene then work on that window (a target outside it is refused as off the DEM).
+ */
+async function readLargeGeoTiff(bytes: Uint8Array, name: string): Promise<{ grid: ElevationGrid; shownName: string }> {
+  const dem = await openGeoTiff(bytes, { sourceName: name });
+  if (dem.width * dem.height <= MAX_GRID_CELLS) return { grid: (await dem.readPixels([0, 0, dem.width, dem.height])).grid, shownName: name };
+  const side = Math.sqrt(MAX_GRID_CELLS);
+  const w = Math.min(dem.width, side), h = Math.min(dem.height, Math.floor(MAX_GRID_CELLS / w));
+  const c0 = Math.floor((dem.width - w) / 2), r0 = Math.floor((dem.height - h) / 2);
+  const { grid } = await dem.readPixels([c0, r0, c0 + w, r0 + h]);
+  return { grid, shownName: `${name} (full-resolution window ${w} × ${h} about the centre of its ${dem.width} × ${dem.height})` };
+}
+
 /** Reads an elevation model; errors are TerrainInputErrors naming the file and the problem. */
-export async function readTerrain(bytes: Uint8Array, name: string, png: PngHeightmapInputs): Promise<{ grid: ElevationGrid; format: TerrainFormat }> {
+export async function readTerrain(bytes: Uint8Array, name: string, png: PngHeightmapInputs): Promise<{ grid: ElevationGrid; format: TerrainFormat; shownName: string }> {
   const format = sniffTerrainFormat(bytes);
   let grid: ElevationGrid;
-  if (format === 'geotiff') grid = await readGeoTiff(bytes, { sourceName: name });
+  let shownName = name;
+  if (format === 'geotiff') ({ grid, shownName } = await readLargeGeoTiff(bytes, name));
   else if (format === 'png-heightmap') {
     if (png.pixelSize_m === null || png.heightScale_m === null) {
       throw new TerrainInputError(`${name}: a PNG heightmap carries no pixel size or height scale; enter “PNG pixel size” and “PNG height step” in the Terrain group, then load it again`);
@@ -54,7 +71,7 @@ export async function readTerrain(bytes: Uint8Array, name: string, png: PngHeigh
     throw new TerrainInputError(`${name}: not a GeoTIFF, 16-bit PNG heightmap or Landreach JSON grid (unrecognised first bytes); choose one of those`);
   }
   requireSomeData(grid, name);
-  return { grid, format };
+  return { grid, format, shownName };
 }
 
 /** Facts about the DEM the Terrain group shows. Plain data (crosses the worker boundary). */

@@ -22,9 +22,9 @@ async function handle(job: TerrainJob): Promise<{ result: TerrainJobResult; tran
       const onTerrain = footprintOnTerrain(last.grid, last.map, last.display, job.footprint, job.budget_kg, job.target);
       return { result: { ok: true, onTerrain }, transfer: [onTerrain.displayShare.buffer as ArrayBuffer] };
     }
-    const { grid, format } = await readTerrain(job.bytes, job.name, job.png);
+    const { grid, format, shownName } = await readTerrain(job.bytes, job.name, job.png);
     const map = hazardMap(grid, job.limits);
-    const product = terrainProduct(grid, job.name, format, job.limits, job.maxVertices, map);
+    const product = terrainProduct(grid, shownName, format, job.limits, job.maxVertices, map);
     last = { grid, map, display: product.display.spec };
     return { result: { ok: true, product }, transfer: productTransfer(product) };
   } catch (error) {

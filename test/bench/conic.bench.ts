@@ -6,7 +6,9 @@
  * footprint engine uses it; median after a warm-up) and "cold" (validation, equilibration, ordering,
  * analysis and solve).
  * CVXOPT's time is measured inside Python around `solvers.conelp` only (no JSON transfer), with the same
- * 1e-8 tolerances as ours.
+ * 1e-8 tolerances as ours. conelp factorises the KKT system densely whenever there are second-order cones
+ * (its sparse factorisation is for LPs and QPs), so it is a correctness reference more than a speed peer:
+ * the specialised peers (Clarabel, ECOS) are in peers.bench.ts.
  */
 import { ConicWorkspace, solveConic } from '../../core/conic/index.ts';
 import { controlInstance } from '../support/socp-instances.ts';

@@ -1,7 +1,8 @@
 /**
  * Descent benchmark: free-final-time solves for a grid of targets around the demo study's nominal
  * target, warm-started from the neighbour's t_f as a footprint run would, with our solver and with
- * CVXOPT (conelp through the test bridge) running the very same search on a few of the targets.
+ * CVXOPT (conelp through the test bridge; a dense KKT factorisation with second-order cones) running the
+ * very same search on a few of the targets.
  * Target (issue 3): one free-final-time target solve under 20 ms at N = 50. Two paths are timed: the
  * bracketing search warm-started from the neighbour's t_f (`descent.msPerTarget`), and the footprint's
  * continuation path for neighbouring targets (`descent.continuation.*`).

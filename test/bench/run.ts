@@ -7,6 +7,8 @@ import os from 'node:os';
 import { benchConic } from './conic.bench.ts';
 import { benchDescent } from './descent.bench.ts';
 import { benchFootprint } from './footprint.bench.ts';
+import { benchLandingSuccess } from './landingSuccess.bench.ts';
+import { benchPeers } from './peers.bench.ts';
 import { benchTerrain } from './terrain.bench.ts';
 import { formatFigure, type BenchResult } from './util.ts';
 
@@ -22,6 +24,14 @@ const SUITES: Record<string, { target: string; run: () => Promise<BenchResult[]>
   footprint: {
     target: 'target: 41 × 41 demo footprint < 10 s with 2 workers',
     run: () => benchFootprint([41]),
+  },
+  'landing-success': {
+    target: 'target: 1,000 closed-loop samples on the demo well under a minute with 2 workers',
+    run: () => benchLandingSuccess(1000, 2),
+  },
+  peers: {
+    target: 'target: kept-workspace warm solve ≥ 8× Clarabel per solve at N = 30 and N = 50; cold solve no slower than Clarabel cold',
+    run: () => benchPeers([30, 50]),
   },
   terrain: {
     target: 'target: hazard map of a 2048 × 2048 DEM < 2 s and < 200 MB',

@@ -7,6 +7,8 @@ let session: Session;
 // Debian chromium: a CI run fails without it (test/support/reference-tools.ts).
 const browser = referenceToolsReady('chromium');
 const DEMO_STUDY = new URL('../../assets/demo/demo-lander.study.json', import.meta.url);
+// The invented site's 2 km inset at 2 m about the nominal target: small grids drape over it at a fine scale.
+const DEMO_INSET = new URL('../../assets/demo/terrain/demo-inset.tif', import.meta.url);
 
 beforeAll(async () => {
   if (!browser) return;
@@ -71,6 +73,9 @@ describe.runIf(browser)('footprint in Chromium (demo study, small grids)', () =>
     expect(await page.locator('[data-field="vehicle.thrustPerEngine_N"] input').inputValue()).toBe('3300');
     expect(await page.locator('[data-field="ignition.position_m.0"] input').inputValue()).toBe('-2500');
     expect(await page.getByTestId('status-ok').count()).toBe(1);
+    const [dem] = await Promise.all([page.waitForEvent('filechooser'), page.getByTestId('load-dem').click()]);
+    await dem.setFiles(DEMO_INSET.pathname);
+    await page.waitForFunction(() => document.querySelector('[data-testid="terrain-size"]')?.textContent === '1000 × 1000 cells (2,000 m × 2,000 m)');
   });
 
   it('computes a 7 × 7 footprint in workers, drapes it on the terrain and outlines the reserve boundary', async () => {
@@ -79,7 +84,7 @@ describe.runIf(browser)('footprint in Chromium (demo study, small grids)', () =>
     await page.getByTestId('view-top').click();
     await page.waitForTimeout(200);
     const before = await drapeStats();
-    // The grid spans the demo DEM (±512 m about its centre). Over ±500 m the demo study's minimum propellant
+    // The grid lies on the demo inset (±1000 m about its centre). Over ±500 m the demo study's minimum propellant
     // runs from about 204 to 240 kg (`landreach footprint --grid 7x7 --extent-m 500`), so a 280 kg reserve
     // (budget 500 − 280 = 220 kg) puts the reserve boundary inside the grid.
     await page.locator('[data-field="vehicle.propellantReserve_kg"] input').fill('280');
@@ -164,7 +169,7 @@ describe.runIf(browser)('footprint in Chromium (demo study, small grids)', () =>
     // Pixel readback against the exported numbers: where the scene draws the cheapest target the drape is
     // viridis' dark end, where it draws the dearest, its bright end (green channel: 1 at the purple end,
     // 231 at the yellow end of viridis; lighting scales both). Median of 5 × 5 pixels, past 1-px lines.
-    // Interior targets only: the outer ring (±500 m) lies within a few pixels of the DEM's edge (±512 m).
+    // Interior targets only, away from the grid's outer ring.
     const byCost = reachable.filter((r) => Math.abs(Number(r[0])) < 400 && Math.abs(Number(r[1])) < 400).sort((a, b) => Number(a[3]) - Number(b[3]));
     const [cheap, dear] = [byCost[0], byCost[byCost.length - 1]].map((r) => [Number(r[0]), Number(r[1])]);
     const greens = await page.evaluate(([a, b]) => {

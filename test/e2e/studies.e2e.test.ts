@@ -33,9 +33,9 @@ describe.runIf(browser)('trade studies in Chromium (demo study)', () => {
     await chooser.setFiles(DEMO_STUDY.pathname);
     await page.waitForFunction(() => (document.querySelector('[data-testid="study-name"]') as HTMLInputElement).value.startsWith('Demo: invented lander'));
     await page.getByTestId('study-tab-ignition-altitude').click();
-    // Defaults: 0.6 … 1.4 × the demo study's 1800 m ignition altitude (assets/demo), and its 20 kg reserve.
+    // Defaults: 0.6 … 1.4 × the demo study's 1800 m ignition altitude (assets/demo), and its 150 kg reserve.
     expect(await page.getByTestId('study-altitudes').inputValue()).toBe('1080, 1440, 1800, 2160, 2520');
-    expect(await page.getByTestId('study-altitude-reserve').inputValue()).toBe('20');
+    expect(await page.getByTestId('study-altitude-reserve').inputValue()).toBe('150');
   });
 
   it('names the field and the fix for a bad input, and will not run', async () => {

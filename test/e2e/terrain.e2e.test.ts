@@ -97,14 +97,16 @@ describe.runIf(browser)('terrain in Chromium', () => {
     const { page } = session;
     await page.getByTestId('status-ok').waitFor();
     await page.waitForFunction(() => ((document.querySelector('[data-testid="scene-canvas"]') as HTMLCanvasElement & { landreachScene?: { framesDrawn: number } })?.landreachScene?.framesDrawn ?? 0) > 0);
-    expect(await page.getByTestId('terrain-name').textContent()).toMatch(/INVENTED demo DEM: Meridian Shoal \(invented demo site\)/);
+    expect(await page.getByTestId('terrain-name').textContent()).toMatch(/INVENTED demo DEM: Orvessa Plain \(invented\)/);
     expect(await page.locator('.legend-title').textContent()).toMatch(/Terrain height \(m\) — INVENTED demo DEM/);
-    // assets/demo/terrain/demo-site.json: 512 × 512 cells of 2 m, no CRS (gdalinfo: an engineering CRS, origin 0, 0).
-    expect(await page.getByTestId('terrain-size').textContent()).toBe('512 × 512 cells (1,024 m × 1,024 m)');
-    expect(await page.getByTestId('terrain-crs').textContent()).toBe('no CRS: local east/north metres');
+    // assets/demo/terrain/demo-site.json: 2000 × 2000 cells of 10 m, equirectangular on a Mars-sized sphere
+    // (gdalinfo shows the CRS: test/reference/terrain/demo-site.test.ts).
+    expect(await page.getByTestId('terrain-size').textContent()).toBe('2000 × 2000 cells (20,000 m × 20,000 m)');
+    expect(await page.getByTestId('terrain-crs').textContent()).toBe('projected, user-defined CRS "Equirectangular, Mars sphere, Orvessa Plain (invented)" (equirectangular)');
     expect(await page.getByTestId('terrain-safe').textContent()).toMatch(/^\d+\.\d % /);
-    // Decimated for display to 256 × 256 samples of 4 m, centred on the nominal target (the DEM's centre).
-    expect(await layout()).toEqual({ width: 256, height: 256, pixelSize_m: 4, west_m: -510, north_m: 510 });
+    // Decimated for display to 250 × 250 samples of 80 m (8 × 8 blocks: at most 257 × 257 vertices), centred on
+    // the nominal target (the DEM's centre): the first sample's centre is 40 m inside the ±10 km edge.
+    expect(await layout()).toEqual({ width: 250, height: 250, pixelSize_m: 80, west_m: -9960, north_m: 9960 });
     const shown = await sceneStats([[-450, 450], [450, 450], [-450, -450], [450, -450], [0, 0]]);
     expect(shown.onGround).toEqual([true, true, true, true, true]);
     // Drawn over at least half the area the terrain's corners enclose on screen (relief may hide some of the
@@ -198,7 +200,7 @@ describe.runIf(browser)('terrain in Chromium', () => {
     // Back to the demo DEM, its target at its centre again.
     await page.getByTestId('demo-dem').click();
     await page.waitForFunction(() => /INVENTED/.test(document.querySelector('[data-testid="terrain-name"]')?.textContent ?? ''));
-    expect(await layout()).toEqual({ width: 256, height: 256, pixelSize_m: 4, west_m: -510, north_m: 510 });
+    expect(await layout()).toEqual({ width: 250, height: 250, pixelSize_m: 80, west_m: -9960, north_m: 9960 });
     expect(session.problems).toEqual([]);
   });
 });

@@ -164,7 +164,7 @@ describe.runIf(browser)('workspace in Chromium', () => {
         }
       }
       // Where the scene says the ground is, the pixel must be terrain, not background.
-      // The demo DEM spans ±512 m about the nominal target (its centre by default).
+      // The demo DEM spans ±10 km about the nominal target (its centre by default).
       const probes = [[-400, 400], [400, 400], [-400, -400], [400, -400], [0, 300]].map(([e, n]) => {
         const p = canvas.landreachScene.projectGroundPoint(e, n);
         return p ? differs(4 * (Math.floor(p.y) * copy.width + Math.floor(p.x))) : null;
@@ -212,7 +212,9 @@ describe.runIf(browser)('workspace in Chromium', () => {
       const values = new Float32Array(width * height);
       for (let r = 0; r < height; r++) for (let c = 0; c < width; c++) values[r * width + c] = west_m + c * pixelSize_m;
       const before = scene.framesDrawn;
-      scene.setDrape({ values, range: [west_m, west_m + (width - 1) * pixelSize_m] });
+      // The colour range spans ±500 m about the target (values beyond it take the end colours), so the two
+      // probes at ±480 m sit near the ends of the colour map whatever the DEM's extent.
+      scene.setDrape({ values, range: [-500, 500] });
       while (scene.framesDrawn === before) await new Promise((r) => requestAnimationFrame(r));
       const copy = document.createElement('canvas');
       copy.width = canvas.width;
@@ -379,7 +381,7 @@ describe.runIf(browser)('workspace in Chromium', () => {
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('save').click()]);
     expect(download.suggestedFilename()).toBe('rim-trade-invented.landreach.json');
     const doc = JSON.parse(await fs.readFile((await download.path())!, 'utf8'));
-    expect(doc).toMatchObject({ format: 'landreach-study', version: 1, name: 'Rim trade (invented)', vehicle: { isp_s: 230 } });
+    expect(doc).toMatchObject({ format: 'landreach-study', version: 2, name: 'Rim trade (invented)', vehicle: { isp_s: 230 } });
     expect(await page.getByTestId('file-state').textContent()).toMatch(/rim-trade-invented\.landreach\.json\s*$/);
     expect(session.problems).toEqual([]);
   });

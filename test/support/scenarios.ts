@@ -16,10 +16,13 @@ export function demoStudy(): Study {
   return parseStudyText(readFileSync(DEMO_STUDY_PATH, 'utf8'));
 }
 
-/** The invented demo lander loaded with 250 kg of usable propellant instead of 500, so footprints have an edge. */
+/**
+ * The invented demo lander loaded with 250 kg of usable propellant instead of 500 and a 20 kg reserve, so
+ * footprints have an edge close to the nominal target.
+ */
 export function lowPropellantDemo(nodes = 30): { study: Study; ctx: DescentFootprintContext } {
   const demo = demoStudy();
-  const study = { ...demo, vehicle: { ...demo.vehicle, wetMass_kg: demo.vehicle.dryMass_kg + 250 } };
+  const study = { ...demo, vehicle: { ...demo.vehicle, wetMass_kg: demo.vehicle.dryMass_kg + 250, propellantReserve_kg: 20 } };
   return { study, ctx: footprintContext(study, nodes) };
 }
 

@@ -11,21 +11,25 @@ import os from 'node:os';
 import { join } from 'node:path';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
-import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
+import { manifestName, parseVehicleFlag, readStudy, removeOrphanTemporaries, VEHICLE_FLAGS_USAGE, type VehicleFlags, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
-import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
-import { footprintLonLat } from '../../footprint/georeferencedFootprint.ts';
-import type { FootprintLonLat } from '../../study/footprintExport.ts';
+import { nominalTargetOnDem, openDem, type Flags } from '../dem.ts';
+import { footprintLonLat, footprintPlace, type FootprintPlace } from '../../footprint/georeferencedFootprint.ts';
+import type { FootprintLonLat } from '../../export/footprintExport.ts';
 import { TerrainInputError } from '../../terrain/grid.ts';
 import type { Study } from '../../study/index.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../study/footprintExport.ts';
+import { footprintCsv, footprintGeoJson, footprintReport, partialResultLine } from '../../export/footprintExport.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
 import { iterationModule } from '../../conic/index.ts';
 import { MAX_NODES } from '../../descent/setup.ts';
 import { reachExtent } from '../../footprint/studyRuns.ts';
 import { makeTargetGrid, parseGridSize } from '../../footprint/grid.ts';
-import { FOOTPRINT_NODES, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintFigures, type FootprintFigures } from '../../footprint/studyFootprint.ts';
+import type { FootprintField } from '../../footprint/field.ts';
+import { footprintMapSvg } from '../../export/footprintSvg.ts';
+import { footprintJsonFg } from '../../export/footprintJsonFg.ts';
+import { footprintPropellantTiff, footprintReachableTiff } from '../../export/footprintRasters.ts';
 
 const USAGE = `Usage: landreach footprint STUDY.json --out DIR [options]
 
@@ -46,17 +50,25 @@ Options:
   --reachable-only   stop each target's search once it is certainly over the budget (such targets are
                      reported 'over-budget' with the best trajectory found as their cost, an upper
                      bound; levels above the budget are then not drawn)
-  --terrain DEM      a georeferenced GeoTIFF (EPSG:4326, a UTM zone on WGS 84, or degrees on a sphere):
-                     footprint.geojson then carries longitude/latitude geometry, the nominal target placed
-                     at --target-east-m, --target-north-m of the DEM's frame (default: the DEM's centre)
+  --terrain DEM      a georeferenced GeoTIFF (EPSG:4326, a UTM zone on WGS 84, degrees on a sphere, or a
+                     projected CRS on another body, e.g. IAU_2015 codes): footprint.geojson then carries
+                     longitude/latitude geometry, the nominal target placed at --target-east-m,
+                     --target-north-m of the DEM's frame (default: the DEM's centre). With a projected DEM
+                     the footprint is also written in the DEM's own CRS: footprint.fg.json (OGC JSON-FG:
+                     shapes in the DEM's easting/northing under 'place', its CRS in 'coordRefSys'),
+                     footprint-propellant.tif (minimum propellant, kg, Float32, NaN where not
+                     established) and footprint-reachable.tif (Byte: 1 reachable with the reserve kept,
+                     0 not, 255 not established), one pixel centred on each target. Only the DEM's
+                     header is read, so any size of DEM will do
   --body-radius-m R, --origin-lat-deg A, --origin-lon-deg B
                      with --terrain: as for landreach hazard (geographic DEMs)
+${VEHICLE_FLAGS_USAGE}
 
 Writes footprint.json (versioned report), footprint.csv (one row per target), footprint.geojson
 (contours and the reserve boundary, RFC 7946: local metres
 in the properties, longitude/latitude geometry with --terrain, null geometry without) and footprint.svg (a map for reports),
 then footprint.manifest.json last: each file's size and SHA-256, and the run record (date, time taken,
-workers, how the run ended). The four result files are the same bytes for the same inputs, whatever the
+workers, how the run ended). The result files are the same bytes for the same inputs, whatever the
 number of workers; \`landreach verify DIR\` checks a folder's set against its manifest.
 
 Ctrl-C (once or more), SIGTERM or SIGHUP stop the run: every finished row is written and the files say
@@ -81,6 +93,7 @@ interface Options {
   /** --terrain and the flags passed on to the DEM reader. */
   terrain: string | null;
   demFlags: Flags;
+  vehicle: VehicleFlags;
 }
 
 const DEM_FLAGS = ['--target-east-m', '--target-north-m', '--body-radius-m', '--origin-lat-deg', '--origin-lon-deg'];
@@ -108,9 +121,12 @@ function parseArgs(args: string[]): Options {
     refine: null,
     terrain: null,
     demFlags: {},
+    vehicle: {},
   };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
+    const used = parseVehicleFlag(args, i, o.vehicle);
+    if (used > 0) { i += used - 1; continue; }
     const value = () => {
       const v = args[++i];
       if (v === undefined || v.startsWith('--')) throw new UsageError(`${a} needs a value (see landreach footprint --help)`);
@@ -164,7 +180,7 @@ function parseArgs(args: string[]): Options {
  * Grid half-width from the reach boundary (max-divert cone programs along 16 directions): 10 % beyond the
  * farthest reach, rounded up to 100 m, so the footprint shows its edge.
  */
-function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): number {
+export function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): number {
   let reach;
   try {
     reach = reachExtent(study, budget_kg, nodes);
@@ -177,13 +193,16 @@ function autoExtent(study: Study, budget_kg: number, nodes: number, io: CliIo): 
 }
 
 /** Reads --terrain, places the nominal target on it and builds the longitude/latitude conversion. */
-async function terrainPlacement(path: string, flags: Flags, body: string): Promise<{ target_m: [number, number]; lonLat: FootprintLonLat }> {
+async function terrainPlacement(path: string, flags: Flags, body: string): Promise<{ target_m: [number, number]; lonLat: FootprintLonLat; place: FootprintPlace | null }> {
   try {
-    const { grid } = await readDem(path, flags, '--terrain');
-    const [tE, tN] = nominalTargetOnDem(grid, flags);
-    const lonLat = footprintLonLat(grid, [tE, tN], body, `--terrain ${path}`);
+    // Placing the target needs the DEM's frame and CRS only: the GeoTIFF is opened, no heights are read
+    // (a 50k × 50k DEM costs its header and directory).
+    const opened = await openDem(path, flags, '--terrain');
+    await opened.close();
+    const [tE, tN] = nominalTargetOnDem(opened.frame, flags);
+    const lonLat = footprintLonLat(opened.frame, [tE, tN], body, `--terrain ${path}`);
     if (!lonLat) throw new UsageError(`--terrain ${path}: has no georeference (no CRS), so there is no longitude/latitude to write; give a GeoTIFF with a CRS (gdal_translate -a_srs …)`);
-    return { target_m: [tE, tN], lonLat };
+    return { target_m: [tE, tN], lonLat, place: footprintPlace(opened.frame, [tE, tN], `--terrain ${path}`) };
   } catch (err) {
     if (err instanceof TerrainInputError) throw new UsageError(err.message);
     throw err;
@@ -196,7 +215,7 @@ export const footprintCommand: CliCommand = {
   usage: USAGE,
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parseArgs(args);
-    const study: Study = readStudy(o.study);
+    const study: Study = readStudy(o.study, o.vehicle);
     const reserve = o.reserve ?? study.vehicle.propellantReserve_kg;
     const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
     if (reserve >= usable) throw new UsageError(`--reserve-kg ${reserve}: must be below the usable propellant, ${usable} kg (wet minus dry mass)`);
@@ -217,7 +236,7 @@ export const footprintCommand: CliCommand = {
   },
 };
 
-const OUTPUT_NAMES = ['footprint.json', 'footprint.csv', 'footprint.geojson', 'footprint.svg'];
+const OUTPUT_NAMES = ['footprint.json', 'footprint.csv', 'footprint.geojson', 'footprint.svg', 'footprint.fg.json', 'footprint-propellant.tif', 'footprint-reachable.tif'];
 
 async function runFootprint(o: Options, study: Study, mass: { reserve: number; usable: number; budget: number }, stop: StopRequest, io: CliIo): Promise<number> {
   const { reserve, usable, budget } = mass;
@@ -267,6 +286,7 @@ async function runFootprint(o: Options, study: Study, mass: { reserve: number; u
       path: join(o.out, 'footprint.svg'),
       text: footprintMapSvg(field, figures, { title: `Divert footprint — ${study.name}`, caption }),
     },
+    ...(placement?.place ? demCrsFiles(o.out, placement.place, placement.lonLat, { field, figures, reserve, budget, stoppedEarly, description: `${study.name}, inputs ${hash.slice(0, 16)}` }) : []),
   ];
   const manifest = writeOutputSet(files, {
     name: manifestName('footprint'),
@@ -289,7 +309,8 @@ async function runFootprint(o: Options, study: Study, mass: { reserve: number; u
       `status:      ${cancelled ? `stopped early${stop.signalName ? ` by ${stop.signalName}` : ''} (partial result written: ${counts.pending} targets not computed)` : 'complete'}`,
       `targets:     ${counts.reachable} reachable, ${counts.unreachable} unreachable, ${counts.failed} failed, ${counts.pending} not computed` +
         (counts.overBudget > 0 ? `, ${counts.overBudget} over budget (search stopped early)` : '') +
-        (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (not lossless: flyable cost above the certified bound)` : ''),
+        (counts.relaxationGap > 0 ? `, ${counts.relaxationGap} with a relaxation gap (flyable or band-respecting cost above the certified lower bound)` : '') +
+        ((counts.undecided ?? 0) > 0 ? `, ${counts.undecided} undecided (throttle band: lower bound within the budget, no band-respecting trajectory found within it)` : ''),
       ...(summary.betweenNodesMissed > 0
         ? [`warning:     ${summary.betweenNodesMissed} target(s) miss a constraint between their nodes in the dense re-simulation (see between_nodes in footprint.csv)`]
         : []),
@@ -310,6 +331,21 @@ async function runFootprint(o: Options, study: Study, mass: { reserve: number; u
   );
   if (stop.exitCode !== null) return stop.exitCode;
   return counts.failed > 0 && counts.reachable === 0 ? 1 : 0;
+}
+
+/** The footprint in the DEM's own projected CRS: JSON-FG beside the RFC 7946 file, and the two rasters. */
+function demCrsFiles(
+  out: string,
+  place: FootprintPlace,
+  lonLat: FootprintLonLat,
+  r: { field: FootprintField; figures: FootprintFigures; reserve: number; budget: number; stoppedEarly: string | null; description: string },
+) {
+  const jsonFg = footprintJsonFg({ contours: r.figures.bands, reachable: r.figures.reachable, reserve_kg: r.reserve, place, lonLat, stoppedEarly: r.stoppedEarly });
+  return [
+    { path: join(out, 'footprint.fg.json'), text: JSON.stringify(jsonFg) },
+    { path: join(out, 'footprint-propellant.tif'), bytes: () => footprintPropellantTiff(r.field, place, r.description) },
+    { path: join(out, 'footprint-reachable.tif'), bytes: () => footprintReachableTiff(r.field, r.budget, place, r.description) },
+  ];
 }
 
 /**

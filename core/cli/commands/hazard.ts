@@ -4,10 +4,11 @@
  */
 import { mkdir, access } from 'node:fs/promises';
 import { basename, resolve, join } from 'node:path';
-import { num, readDem, type Flags } from '../dem.ts';
+import { demReadLine, nominalTargetOnDem, num, openDem, wholeDem, type Flags, type OpenedDem } from '../dem.ts';
+import { autoExtent } from './footprint.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
-import type { ElevationGrid, HazardLimits, HazardMap } from '../../terrain/index.ts';
+import type { DemReadReport, ElevationGrid, HazardLimits, HazardMap } from '../../terrain/index.ts';
 import { CAUTION } from '../../study/provenance.ts';
 import os from 'node:os';
 import type { Study } from '../../study/index.ts';
@@ -22,6 +23,7 @@ import {
   DEFAULT_HAZARD_LIMITS, HAZARD_MARGIN, HAZARD_ROUGHNESS, HAZARD_SLOPE, HAZARD_UNKNOWN, TerrainInputError,
   gridGeometry, gridRasterGeoreference, hazardMap, toDegrees, validCount, writeGeoTiff,
   groundFrameOnDem, rankSites, resampleReachability, safeReachableSet, type GridSpec,
+  GRID_BYTES_PER_CELL, MAX_GRID_CELLS, groundRegionOnDem, hazardMargin_m,
 } from '../../terrain/index.ts';
 
 
@@ -47,7 +49,12 @@ Options:
   --lander-diameter-m D     lander footprint diameter, m              (default ${DEFAULT_HAZARD_LIMITS.landerDiameter_m})
   --margin-m M              safety margin around hazards, m           (default ${DEFAULT_HAZARD_LIMITS.safetyMargin_m})
   --roughness max|rms       roughness measure                         (default max)
-  --window C0,R0,C1,R1      read only this pixel window of a GeoTIFF (needed above 4096 × 4096 cells)
+  --window C0,R0,C1,R1      read only this pixel window of a GeoTIFF
+  --extent-m M              with --study: half-width of the footprint grid, m; only the DEM window it needs
+                            (the grid's cells, plus the lander radius, the safety margin and two pixels) is
+                            read and analysed, at full resolution. Default: the whole DEM when it has at most
+                            4096 × 4096 cells, else the footprint command's reach-boundary extent. The
+                            window must fit ${MAX_GRID_CELLS} cells (4096 × 4096) at full resolution.
   --body-radius-m R         body radius for geographic (degree) GeoTIFFs without one
   --origin-lat-deg A, --origin-lon-deg B
                             geographic GeoTIFFs: origin of the local east–north frame (default: grid centre)
@@ -74,7 +81,7 @@ ${CAUTION}`;
 const VALUE_FLAGS = new Set([
   'out', 'max-slope-deg', 'max-roughness-m', 'lander-diameter-m', 'margin-m', 'roughness', 'window',
   'body-radius-m', 'origin-lat-deg', 'origin-lon-deg', 'vertical-scale', 'pixel-size-m', 'height-scale-m', 'height-offset-m', 'study',
-  'target-east-m', 'target-north-m', 'targets', 'workers', 'sites',
+  'target-east-m', 'target-north-m', 'targets', 'workers', 'sites', 'extent-m',
 ]);
 const BOOLEAN_FLAGS = new Set(['overwrite']);
 
@@ -150,7 +157,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
   if (typeof flags.out !== 'string') throw new UsageError('--out DIR is required');
   const study = typeof flags.study === 'string' ? readStudy(flags.study) : null;
   if (!study) {
-    for (const f of ['target-east-m', 'target-north-m', 'targets', 'workers', 'sites']) {
+    for (const f of ['target-east-m', 'target-north-m', 'targets', 'workers', 'sites', 'extent-m']) {
       if (flags[f] !== undefined) throw new UsageError(`--${f} only applies with --study STUDY.json`);
     }
   }
@@ -186,7 +193,15 @@ async function run(args: string[], io: CliIo): Promise<number> {
   const stop = new StopRequest(io).install();
   try {
     io.stderr(`reading ${demPath}\n`);
-    const { grid, format } = await readDem(demPath, flags);
+    const opened = await openDem(demPath, flags);
+    let demRead: { grid: ElevationGrid; target_m: [number, number]; extent_m: number | null; report: DemReadReport | null; what: string | null };
+    try {
+      demRead = await hazardGrid(opened, study, flags, limits, io);
+    } finally {
+      await opened.close();
+    }
+    const { grid } = demRead;
+    const format = opened.format;
     io.stderr(`${grid.width} × ${grid.height} cells at ${grid.pixelSizeX_m} × ${grid.pixelSizeY_m} m; computing hazard map\n`);
     const map = hazardMap(grid, limits);
     const geo = gridRasterGeoreference(grid);
@@ -201,9 +216,17 @@ async function run(args: string[], io: CliIo): Promise<number> {
       { path: files.hazard, bytes: () => writeGeoTiff({ ...common, data: map.flags, description: 'hazard flags: 0 safe, 1 slope, 2 roughness, 4 unknown, 8 margin' }) },
     ];
     const summary: Record<string, unknown> = hazardSummary(demPath, format, grid, map, limits);
+    if (demRead.report) {
+      (summary.input as Record<string, unknown>).read = {
+        region: demRead.what,
+        demSize: [opened.frame.width, opened.frame.height],
+        ...demRead.report,
+        memoryBound: `a read builds at most ${MAX_GRID_CELLS} cells (4096 × 4096): ${MAX_GRID_CELLS * GRID_BYTES_PER_CELL} bytes of heights and mask at full resolution, plus one block at a time`,
+      };
+    }
     let cancelled = false;
     if (study) {
-      const reach = await studyReach(study, grid, map, flags, io, stop.signal);
+      const reach = await studyReach(study, grid, map, flags, io, stop.signal, demRead.target_m, demRead.extent_m);
       cancelled = reach.summary.footprintCancelled;
       out.push({ path: files.safeReachable, bytes: () => writeGeoTiff({ ...common, data: reach.safe.mask, description: 'safe and reachable (1) with the reserve kept' }) });
       summary.safeReachable = reach.summary;
@@ -240,34 +263,73 @@ async function run(args: string[], io: CliIo): Promise<number> {
   }
 }
 
+function targetCounts(flags: Flags): [number, number] {
+  if (typeof flags.targets !== 'string') return [21, 21];
+  try {
+    return parseGridSize(flags.targets, '--targets');
+  } catch (err) {
+    throw new UsageError((err as Error).message);
+  }
+}
+
+/**
+ * The grid the hazard map is computed on. With --study and --extent-m, or with --study on a GeoTIFF over
+ * MAX_GRID_CELLS: only the window the footprint needs — its target grid's cells (±extent plus half a
+ * spacing) mapped onto the DEM through the ground frame, widened by the hazard margin (dem-region.ts) — at
+ * full resolution, decoding only the blocks under it; a window over the bound is refused naming
+ * --extent-m. Otherwise the whole DEM (a GeoTIFF over the bound is refused naming the options).
+ */
+async function hazardGrid(opened: OpenedDem, study: Study | null, flags: Flags, limits: HazardLimits, io: CliIo) {
+  const { frame } = opened;
+  const target_m = nominalTargetOnDem(frame, flags);
+  const tooLarge = frame.width * frame.height > MAX_GRID_CELLS;
+  if (!study || (flags['extent-m'] === undefined && !(tooLarge && opened.dem))) {
+    const grid = await wholeDem(opened, study ? 'give --extent-m M (the footprint grid\'s half-width) to read only the window the footprint needs, or --window C0,R0,C1,R1' : 'pass --window C0,R0,C1,R1 to read a part of it, or --study STUDY.json (with --extent-m M) to read the window a footprint needs');
+    return { grid, target_m, extent_m: null, report: null, what: null };
+  }
+  const extent_m = flags['extent-m'] !== undefined ? num(flags, 'extent-m')! : autoExtent(study, study.vehicle.wetMass_kg - study.vehicle.dryMass_kg - study.vehicle.propellantReserve_kg, FOOTPRINT_NODES, io);
+  if (!(extent_m > 0)) throw new UsageError(`--extent-m ${extent_m}: must be a distance in metres > 0`);
+  const [nx, ny] = targetCounts(flags);
+  const halfCellE = extent_m / (nx - 1);
+  const halfCellN = extent_m / (ny - 1);
+  const ground = groundFrameOnDem(frame.georeference, target_m, 'DEM');
+  const margin = hazardMargin_m(frame, limits.landerDiameter_m ?? DEFAULT_HAZARD_LIMITS.landerDiameter_m, limits.safetyMargin_m ?? DEFAULT_HAZARD_LIMITS.safetyMargin_m);
+  const region = groundRegionOnDem(ground, { west_m: -extent_m - halfCellE, east_m: extent_m + halfCellE, south_m: -extent_m - halfCellN, north_m: extent_m + halfCellN }, margin);
+  const what = `the footprint (±${extent_m} m, ${nx} × ${ny} targets) with a ${margin.toPrecision(4)} m hazard margin`;
+  if (!opened.dem) {
+    // PNG heightmaps and JSON grids are read whole (at most MAX_GRID_CELLS).
+    return { grid: opened.grid!, target_m, extent_m, report: null, what };
+  }
+  const pixel = Math.max(frame.pixelSizeX_m, frame.pixelSizeY_m);
+  const largest = Math.floor((Math.sqrt(MAX_GRID_CELLS) * pixel) / 2 / Math.max(ground.scale, 1e-12) - margin - Math.max(halfCellE, halfCellN));
+  const read = await opened.dem.readRegion({
+    ...region,
+    resolution: 'native',
+    what,
+    fix: `hazards are computed at the DEM's full resolution (${pixel} m pixels): give a smaller --extent-m (about ${Math.max(largest, 0)} m or less here), or resample the DEM coarser first (gdalwarp -tr)`,
+  });
+  io.stderr(demReadLine(opened.name, read.report, read.grid));
+  return { grid: read.grid, target_m, extent_m, report: read.report, what };
+}
+
 /**
  * The study's footprint over the DEM: targets on a grid covering the DEM (in the study's frame, the nominal
  * target at the given DEM coordinates), reachable = minimum propellant ≤ usable − reserve, laid onto the
  * DEM grid (conservatively), intersected with the safe cells, and the best sites ranked.
  */
-async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, flags: Flags, io: CliIo, signal: AbortSignal) {
+export async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, flags: Flags, io: CliIo, signal: AbortSignal, target_m: [number, number], extent_m: number | null) {
   const geom = gridGeometry(grid);
-  const centreE = grid.originEast_m + (grid.width * grid.pixelSizeX_m) / 2;
-  const centreN = grid.originNorth_m - (grid.height * grid.pixelSizeY_m) / 2;
-  const tE = flags['target-east-m'] === undefined ? centreE : num(flags, 'target-east-m')!;
-  const tN = flags['target-north-m'] === undefined ? centreN : num(flags, 'target-north-m')!;
-  let nx = 21;
-  let ny = 21;
-  if (typeof flags.targets === 'string') {
-    try {
-      [nx, ny] = parseGridSize(flags.targets, '--targets');
-    } catch (err) {
-      throw new UsageError((err as Error).message);
-    }
-  }
+  const [tE, tN] = target_m;
+  const [nx, ny] = targetCounts(flags);
   const workers = flags.workers === undefined ? Math.min(8, Math.max(1, os.availableParallelism?.() ?? os.cpus().length)) : num(flags, 'workers')!;
   if (!Number.isInteger(workers) || workers < 1 || workers > 64) throw new UsageError(`--workers ${workers}: must be a whole number from 1 to 64`);
   const count = flags.sites === undefined ? 10 : num(flags, 'sites')!;
-  // Target centres span the DEM's cell centres, in the study frame (east, north of the nominal target).
-  const west = grid.originEast_m + grid.pixelSizeX_m / 2 - tE;
-  const east = grid.originEast_m + (grid.width - 0.5) * grid.pixelSizeX_m - tE;
-  const south = grid.originNorth_m - (grid.height - 0.5) * grid.pixelSizeY_m - tN;
-  const north = grid.originNorth_m - grid.pixelSizeY_m / 2 - tN;
+  // Target centres span ±extent about the nominal target (the DEM window was read around them), or the
+  // DEM's cell centres, in the study frame (east, north of the nominal target).
+  const west = extent_m !== null ? -extent_m : grid.originEast_m + grid.pixelSizeX_m / 2 - tE;
+  const east = extent_m !== null ? extent_m : grid.originEast_m + (grid.width - 0.5) * grid.pixelSizeX_m - tE;
+  const south = extent_m !== null ? -extent_m : grid.originNorth_m - (grid.height - 0.5) * grid.pixelSizeY_m - tN;
+  const north = extent_m !== null ? extent_m : grid.originNorth_m - grid.pixelSizeY_m / 2 - tN;
   const targets: TargetGrid = {
     nx,
     ny,
@@ -278,7 +340,7 @@ async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, fla
   };
   const usable = study.vehicle.wetMass_kg - study.vehicle.dryMass_kg;
   const budget = usable - study.vehicle.propellantReserve_kg;
-  io.stderr(`footprint of '${study.name}' over the DEM: ${nx} × ${ny} targets (${(geom.width * geom.pixelSizeX_m).toFixed(0)} × ${(geom.height * geom.pixelSizeY_m).toFixed(0)} m)\n`);
+  io.stderr(`footprint of '${study.name}' over the DEM: ${nx} × ${ny} targets (${extent_m !== null ? `±${extent_m} m` : `${(geom.width * geom.pixelSizeX_m).toFixed(0)} × ${(geom.height * geom.pixelSizeY_m).toFixed(0)} m`})\n`);
   const run = await runStudyFootprint(study, targets, { nodes: FOOTPRINT_NODES, workers, signal }, io);
   // The footprint's rows run south → north; the terrain's grid rows north → south.
   const n = nx * ny;
@@ -321,6 +383,7 @@ async function studyReach(study: Study, grid: ElevationGrid, map: HazardMap, fla
       reserve_kg: study.vehicle.propellantReserve_kg,
       nominalTargetOnDem_m: [tE, tN],
       footprintTargets: [nx, ny],
+      ...(extent_m !== null ? { footprintExtent_m: extent_m } : {}),
       footprintNodes: FOOTPRINT_NODES,
       footprintCancelled: run.cancelled,
       reachableCells: safe.reachableCells,

@@ -9,8 +9,10 @@ import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
+import { LANDING_SUCCESS_USAGE, runLandingSuccess } from './landingSuccess.ts';
 import { runStudyFootprint } from '../footprintRun.ts';
-import { FOOTPRINT_NODES, footprintFigures, footprintMapSvg } from '../../footprint/studyFootprint.ts';
+import { FOOTPRINT_NODES, footprintFigures } from '../../footprint/studyFootprint.ts';
+import { footprintMapSvg } from '../../export/footprintSvg.ts';
 import { makeTargetGrid, parseGridSize, type TargetGrid } from '../../footprint/grid.ts';
 import { minimumAltitude, reserveStudy, type AltitudeStudyRow, type IgnitionRule } from '../../footprint/studies.ts';
 import type { Study } from '../../study/index.ts';
@@ -28,9 +30,9 @@ import {
   studyAtAltitude,
 } from '../../footprint/studyRuns.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { altitudeStudyCsvLines, DISPERSION_MODEL, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReport } from '../../study/studyExport.ts';
+import { altitudeStudyCsvLines, DISPERSION_MODEL, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReport } from '../../export/studyExport.ts';
 
-const USAGE = `Usage: landreach study reserve|ignition-altitude|dispersion STUDY.json --out DIR [options]
+const USAGE = `Usage: landreach study reserve|ignition-altitude|dispersion|landing-success STUDY.json --out DIR [options]
 
   reserve             one footprint; reachable area and guaranteed divert radius for each reserve
   ignition-altitude   a footprint per ignition altitude; guaranteed divert radius at the reserve, and the
@@ -66,6 +68,8 @@ dispersion (1σ values; the defaults are illustrative, not from any mission):
                         The study also writes study-dispersion.svg: the nominal footprint (--grid, --extent-m)
                         with its reserve boundary and the landing ellipse, a map for reports.
 
+${LANDING_SUCCESS_USAGE}
+
 Every study also writes study-<name>.manifest.json last (each file's size and SHA-256, and the run record).
 Ctrl-C (once or more), SIGTERM or SIGHUP stop the study: what finished is written, marked as stopped early
 (the report's "cancelled", a "# STOPPED EARLY" line in the CSV), and the exit code is 128 + the signal's
@@ -93,7 +97,7 @@ const LIST = (flag: string, text: string) => {
 function parse(args: string[]): Common {
   const [kind, ...rest] = args;
   if (kind !== 'reserve' && kind !== 'ignition-altitude' && kind !== 'dispersion') {
-    throw new UsageError(`unknown study '${kind ?? ''}': choose reserve, ignition-altitude or dispersion (see landreach study --help)`);
+    throw new UsageError(`unknown study '${kind ?? ''}': choose reserve, ignition-altitude, dispersion or landing-success (see landreach study --help)`);
   }
   const o: Common = {
     kind,
@@ -304,9 +308,10 @@ async function runDispersion(o: Common, study: Study, io: CliIo, hash: string, s
 
 export const studyCommand: CliCommand = {
   name: 'study',
-  summary: 'trade studies: reserve (area, divert radius vs reserve), ignition-altitude (divert radius vs altitude), dispersion (landing ellipse)',
+  summary: 'trade studies: reserve (area, divert radius vs reserve), ignition-altitude (divert radius vs altitude), dispersion (landing ellipse), landing-success (P(safe touchdown) without and with divert)',
   usage: USAGE,
   async run(args: string[], io: CliIo): Promise<number> {
+    if (args[0] === 'landing-success') return runLandingSuccess(args.slice(1), io);
     const o = parse(args);
     const study = readStudy(o.study);
     const inputs = { study, kind: o.kind, grid: o.grid, extent_m: o.extent, nodes: o.nodes, options: o.values };

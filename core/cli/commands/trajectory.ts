@@ -4,7 +4,7 @@
  * Minimum-propellant trajectory to one target: prints a short summary and writes the full time series.
  * Output files are written whole or not at all (temporary file + rename).
  */
-import { readStudy, writeFilesAtomically } from '../files.ts';
+import { parseVehicleFlag, readStudy, VEHICLE_FLAGS_USAGE, type VehicleFlags, writeFilesAtomically } from '../files.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
 import { studyDescentProblem, studyToDescent } from '../../study/index.ts';
@@ -19,11 +19,7 @@ import { polynomialGuidance } from '../../descent/baselines/polynomial.ts';
 import { gravityTurn } from '../../descent/baselines/gravityTurn.ts';
 import type { Vec3 } from '../../descent/constants.ts';
 import { APP_VERSION, CAUTION, inputsHash } from '../../study/provenance.ts';
-import { nominalTargetOnDem, readDem, type Flags } from '../dem.ts';
-import { sampleBilinear, TerrainInputError } from '../../terrain/grid.ts';
-import { checkTerrainClearance } from '../../terrain/sites.ts';
-import { groundFrameOnDem } from '../../terrain/groundFrame.ts';
-import type { DecodedTrajectory } from '../../descent/trajectory.ts';
+import type { Flags } from '../dem.ts';
 
 export interface BaselineFigures {
   polynomial: { propellant_kg: number | null; tf_s: number | null; miss_m: number | null; velocity_error_mps: number | null; saturated_fraction: number | null };
@@ -43,18 +39,25 @@ Options:
   --baselines        also fly polynomial guidance to the target and a gravity-turn soft landing,
                      for comparison with the optimum (propellant, miss, landing point)
   --terrain DEM      check the trajectory's clearance above the terrain (GeoTIFF, PNG16 or JSON grid;
-                     nodes and the straight segments between them, sampled at the DEM's pixel size)
+                     nodes and the straight segments between them, sampled at the DEM's pixel size);
+                     a GeoTIFF is read only under the ground track: at full resolution when that window
+                     has at most 4096 × 4096 cells, else from an overview or as block averages (said)
   --clearance-m C    required height above the terrain, m (default 0; with --terrain)
   --target-east-m E, --target-north-m N
                      the nominal target on the DEM, in the DEM's frame (default: the DEM's centre)
+${VEHICLE_FLAGS_USAGE}
 
 Status: solved (a flyable optimum, lossless, propellant certified to 0.01 kg), relaxation-gap (the
 convex relaxation was not lossless: the best flyable trajectory found and the certified lower bound are
-both reported), unreachable (certified, with the closest reachable point), solver-failure.
+both reported), unreachable (certified, with the closest reachable point), solver-failure, and with a
+forbidden throttle band (--throttle-band or vehicle.throttleBands) undecided: the relaxation ignoring the
+band does not exclude the target, but no band-respecting trajectory was found (only the lower bound is
+reported). With a band, solved / relaxation-gap mean a band-respecting trajectory within / beyond 0.01 kg
+of the certified lower bound (the band gap is printed).
 Every returned trajectory is re-simulated densely between the nodes; a constraint missed there beyond
 its tolerance is a warning.
 
-Exit codes: 0 solved, relaxation-gap or unreachable (see "status"), 1 solver failure, 2 bad usage or bad study file.
+Exit codes: 0 solved, relaxation-gap, undecided or unreachable (see "status"), 1 solver failure, 2 bad usage or bad study file.
 
 ${CAUTION}`;
 
@@ -68,12 +71,15 @@ interface Options {
   csv: string | null;
   refine: boolean;
   baselines: boolean;
+  vehicle: VehicleFlags;
 }
 
 function parseArgs(args: string[]): Options {
-  const o: Options = { study: '', target: null, json: null, csv: null, refine: true, baselines: false, terrain: null, clearance_m: 0, demFlags: {} };
+  const o: Options = { study: '', target: null, json: null, csv: null, refine: true, baselines: false, terrain: null, clearance_m: 0, demFlags: {}, vehicle: {} };
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
+    const used = parseVehicleFlag(args, i, o.vehicle);
+    if (used > 0) { i += used - 1; continue; }
     const value = () => {
       const v = args[++i];
       if (v === undefined || v.startsWith('--')) throw new UsageError(`${a} needs a value (see landreach trajectory --help)`);
@@ -138,6 +144,11 @@ export function resultToJson(
     miss_m: round(r.miss),
     tf_bracket_s: [round(r.bracket.lower), round(r.bracket.upper)],
     infeasibility_certificates: r.infeasibleStatuses,
+    /** Forbidden throttle bands: band-respecting propellant less the certified lower bound, kg (null without bands). */
+    band_gap_kg: round(r.bandGap_kg),
+    /** Forbidden throttle bands: max–min–max switch indices (hold intervals) of the returned trajectory. */
+    band_switches: r.bandStructure ? [r.bandStructure.i1, r.bandStructure.i2] : null,
+    band_solves: r.bandSolves,
     losslessness_gap_mps2: t ? round(t.diagnostics.losslessnessGap) : null,
     losslessness_gap_relative: t ? round(t.diagnostics.losslessnessGapRelative) : null,
     lossless: t ? t.diagnostics.lossless : null,
@@ -162,6 +173,8 @@ export function resultToJson(
           thrust_lower_margin: round(between.thrustLowerMargin),
           thrust_upper_margin: round(between.thrustUpperMargin),
           pointing_margin_deg: round(deg(between.pointingMargin_rad)),
+          band_margin: round(between.bandMargin),
+          throttle_rate_margin_per_s: round(between.throttleRateMargin_perS),
           touchdown_position_error_m: round(between.touchdownPositionError_m),
           touchdown_velocity_error_mps: round(between.touchdownVelocityError_mps),
           propellant_kg: round(between.propellant_kg),
@@ -202,7 +215,8 @@ function summary(r: DescentResult, refine: { nodes: number; propellant: number }
     lines.push(`closest point     ${f(r.closestPoint[0], 1)} m E, ${f(r.closestPoint[1], 1)} m N (miss ${f(r.miss, 1)} m)`);
   }
   lines.push(`propellant        ${f(r.propellant)} kg${r.status === 'unreachable' ? ' (minimum-landing-error trajectory)' : r.status === 'relaxation-gap' ? ' (best flyable trajectory found)' : ''}`);
-  if (r.status === 'relaxation-gap') lines.push(`lower bound       ${f(r.propellantLowerBound)} kg (certified by the convex relaxation)`);
+  if (r.status === 'relaxation-gap' || r.status === 'undecided' || Number.isFinite(r.bandGap_kg)) lines.push(`lower bound       ${f(r.propellantLowerBound)} kg (certified by the convex relaxation${Number.isFinite(r.bandGap_kg) || r.status === 'undecided' ? ' ignoring the throttle band' : ''})`);
+  if (Number.isFinite(r.bandGap_kg)) lines.push(`band gap          ${f(r.bandGap_kg, 3)} kg (band-respecting trajectory less the lower bound; switches at intervals ${r.bandStructure ? `${r.bandStructure.i1}, ${r.bandStructure.i2}` : '—'}, ${r.bandSolves} band solves)`);
   lines.push(`time of flight    ${f(r.timeOfFlight)} s  (bracket ${f(r.bracket.lower, 1)}–${f(r.bracket.upper, 1)} s)`);
   if (r.trajectory) {
     const d = r.trajectory.diagnostics;
@@ -225,46 +239,6 @@ function summary(r: DescentResult, refine: { nodes: number; propellant: number }
 /** Reader flags `trajectory --terrain` passes on (the footprint command's names). */
 const DEM_READER_FLAGS = ['--window', '--body-radius-m', '--origin-lat-deg', '--origin-lon-deg', '--vertical-scale', '--pixel-size-m', '--height-scale-m', '--height-offset-m'];
 
-interface ClearanceFigures {
-  dem: string;
-  clearance_m: number;
-  minClearance_m: number;
-  nodeViolations: number;
-  segmentViolations: number;
-  unknown: number;
-  ok: boolean;
-}
-
-/**
- * Clearance of the trajectory above the terrain (core/terrain checkTerrainClearance): the study frame's
- * origin is the nominal target, placed on the DEM (its centre unless given) through the same ground frame as
- * the footprint's, and heights are relative to the terrain there. The final node sits on the ground by
- * construction and is not checked.
- */
-async function terrainClearance(path: string, flags: Flags, clearance_m: number, traj: DecodedTrajectory): Promise<ClearanceFigures> {
-  try {
-    const { grid } = await readDem(path, flags);
-    const [tE, tN] = nominalTargetOnDem(grid, flags);
-    const ground = sampleBilinear(grid, tE, tN);
-    if (!Number.isFinite(ground)) {
-      throw new UsageError(`--target-east-m ${tE}, --target-north-m ${tN}: no terrain height at the nominal target on ${path} (outside the DEM or no-data); give a point on it`);
-    }
-    const frame = groundFrameOnDem(grid.georeference, [tE, tN], `--terrain ${path}`);
-    const s = traj.series;
-    const nodes = Array.from(s.t, (_, k) => {
-      const [e, n] = frame.toDem(s.x[k], s.y[k]);
-      return { east_m: e, north_m: n, up_m: ground + s.z[k] };
-    });
-    const rep = checkTerrainClearance(grid, nodes, clearance_m, 1);
-    return {
-      dem: path, clearance_m, minClearance_m: rep.minClearance_m, nodeViolations: rep.violations.length,
-      segmentViolations: rep.segmentViolations.length, unknown: rep.unknown.length, ok: rep.ok,
-    };
-  } catch (err) {
-    if (err instanceof TerrainInputError) throw new UsageError(err.message);
-    throw err;
-  }
-}
 
 export const trajectoryCommand: CliCommand = {
   name: 'trajectory',
@@ -272,7 +246,7 @@ export const trajectoryCommand: CliCommand = {
   usage: USAGE,
   async run(args: string[], io: CliIo): Promise<number> {
     const o = parseArgs(args);
-    const study = readStudy(o.study);
+    const study = readStudy(o.study, o.vehicle);
     const d = studyToDescent(study);
     const target = o.target ?? d.target;
     if (o.target) {
@@ -310,7 +284,8 @@ export const trajectoryCommand: CliCommand = {
         gravity_turn: { propellant_kg: round(g.propellant), tf_s: round(g.timeOfFlight), landing_m: g.landing.map((v) => round(v) ?? NaN), touchdown_speed_mps: round(g.touchdownSpeed), out_of_propellant: g.outOfPropellant },
       };
     }
-    const clearance = o.terrain && r.trajectory ? await terrainClearance(o.terrain, o.demFlags, o.clearance_m, r.trajectory) : null;
+    // Loaded only with --terrain: the DEM readers and projections are most of the command line's code.
+    const clearance = o.terrain && r.trajectory ? await (await import('../terrainClearance.ts')).terrainClearance(o.terrain, o.demFlags, o.clearance_m, r.trajectory, io) : null;
     if (clearance && !clearance.ok) {
       r.warnings.push(clearance.unknown > 0 && clearance.nodeViolations === 0 && clearance.segmentViolations === 0
         ? `terrain clearance unknown at ${clearance.unknown} node(s) (off the DEM or over no-data)`

@@ -21,6 +21,8 @@ export interface PhysicalScenario {
   vehicle: {
     wetMass_kg: number; dryMass_kg: number; isp_s: number; engineCount: number; thrustPerEngine_N: number;
     cantAngle_deg: number; throttleMin: number; throttleMax: number; pointingLimit_deg: number | null;
+    /** Largest throttle rate, full thrust per second (absent: none). */
+    throttleRate_perS?: number;
   };
   constraints: {
     glideSlope_deg: number | null; maxSpeed_mps: number | null; gateHeight_m: number; gateDescentRate_mps: number;
@@ -33,7 +35,7 @@ export interface PhysicalScenario {
 }
 
 /** Constraints the reference can leave out (to show that a constraint binds). */
-export type Relaxable = 'upperThrust' | 'lowerThrust' | 'pointing' | 'glideSlope' | 'speed' | 'altitude';
+export type Relaxable = 'upperThrust' | 'lowerThrust' | 'pointing' | 'glideSlope' | 'speed' | 'altitude' | 'rate';
 
 export interface ReferenceJob extends PhysicalScenario {
   problem?: 'min-propellant' | 'min-landing-error';
@@ -41,6 +43,10 @@ export interface ReferenceJob extends PhysicalScenario {
   /** Free final time: grid over [lower_s, upper_s], then golden-section search to tol_s. */
   search?: { lower_s: number; upper_s: number; grid: number; tol_s?: number };
   relax?: Relaxable[];
+  /** ZOH: one allowed throttle interval [lo, hi] per hold interval (N − 1 of them). */
+  throttleIntervals?: [number, number][];
+  /** ZOH, fixed t_f: enumerate every assignment of the intervals to the throttle ranges between these bands. */
+  bruteForceBands?: [number, number][];
 }
 
 /** Smallest slack over the nodes; thrust terms relative to the full-throttle acceleration at ignition. */
@@ -64,7 +70,11 @@ export interface ReferenceResult {
   miss_m?: number;
   margins?: ReferenceMargins;
   throttle?: number[];
+  mass_kg?: number[];
   altitude_m?: number[];
+  /** Brute force: the cheapest assignment (index of the allowed interval per hold interval) and counts. */
+  assignment?: number[];
+  feasibleAssignments?: number;
   solves: number;
   /** Search only: times at which conelp gave neither an answer nor an infeasibility certificate. */
   failures?: number;
@@ -97,6 +107,7 @@ export function toSetup(s: PhysicalScenario): DescentSetup {
       wetMass: v.wetMass_kg, dryMass: v.dryMass_kg, isp: v.isp_s, engineCount: v.engineCount, thrustPerEngine: v.thrustPerEngine_N,
       cantAngle: v.cantAngle_deg * DEG, throttleMin: v.throttleMin, throttleMax: v.throttleMax,
       pointingLimit: v.pointingLimit_deg === null ? Math.PI : v.pointingLimit_deg * DEG,
+      throttleRate: v.throttleRate_perS ?? null,
     },
     constraints: {
       glideSlope: c.glideSlope_deg === null ? null : c.glideSlope_deg * DEG, maxSpeed: c.maxSpeed_mps,

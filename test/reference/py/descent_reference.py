@@ -58,7 +58,20 @@ Job (JSON):  {"id", "planet": {"gravity": [3], "rotationRate": [3]},
               "target_m": [3], "nodes", "hold": "zoh" | "foh",
               "problem": "min-propellant" | "min-landing-error",
               "timeOfFlight_s": t  (fixed)  or  "search": {"lower_s", "upper_s", "grid", "tol_s"},
-              "relax": ["upperThrust" | "lowerThrust" | "pointing" | "glideSlope" | "speed" | "altitude"]}
+              "relax": ["upperThrust" | "lowerThrust" | "pointing" | "glideSlope" | "speed" | "altitude" | "rate"],
+              optional "vehicle": {"throttleRate_perS"}, "throttleIntervals": [[lo, hi] per interval] (ZOH),
+              "bruteForceBands": [[lo, hi], ...] (ZOH, fixed t_f: every assignment enumerated)}
+Throttle-rate limit (|dρ/dt| ≤ R, ρ = ‖T‖/F the throttle, F the full net thrust), between nodes:
+  |T_{k+1} − T_k| ≤ R F Δ. With T = m σ on a lossless solution, T_{k+1} − T_k = m_{k+1}(σ_{k+1} − σ_k)
+  − (m_k − m_{k+1})σ_k; the mass is at most m_max(t) = m_wet − α ρ1 t and the mass lost over a step
+  times σ_k is at most α ρ2 Δ · ρ2/m_min(t_{k+1}) (m σ ≤ ρ2 and m ≥ m_min(t) = max(m_wet − α ρ2 t, m_dry)),
+  so m_max(t_{k+1}) |σ_{k+1} − σ_k| ≤ R F Δ − α Δ ρ2²/m_min(t_{k+1}) is sufficient and linear.
+Forbidden throttle bands with zero-order hold: over interval j the thrust acceleration u_j is constant
+  and the mass falls, so the thrust m(t)‖u_j‖ sweeps [m_{j+1} σ_j, m_j σ_j] (lossless). Keeping the
+  whole interval inside one allowed throttle interval [lo_j, hi_j] is m_{j+1} σ_j ≥ lo_j F (the same
+  second-order lower bound, expanded at t_{j+1}) and m_j σ_j ≤ hi_j F (the linearised upper bound at t_j).
+  "bruteForceBands" solves this for EVERY assignment of the N − 1 intervals to the allowed intervals
+  between the bands and returns the cheapest (an exhaustive reference for small N).
 Result: {"id", "status": "optimal" | "infeasible" | ..., "tolerance", "timeOfFlight_s", "propellant_kg",
          "miss_m", "margins": {...}, "solves", and for a search "failures" (times with neither an answer
          nor a certificate), "atGridEdge", "evaluations": [[t, propellant or null], ...]}
@@ -145,6 +158,8 @@ class Vehicle:
         self.rho1 = full * v["throttleMin"]
         self.rho2 = full * v["throttleMax"]
         self.dry = v["dryMass_kg"]
+        self.full = full
+        self.rate = v.get("throttleRate_perS")
         limit = v.get("pointingLimit_deg")
         self.cos_pointing = None if limit is None or limit >= 180 else math.cos(math.radians(limit))
 
@@ -294,6 +309,32 @@ def build_and_solve(job, tf):
         P.add_ge(-Zc[k], z_max[k] - zc[k])
     P.add_ge(Zc[N - 1], zc[N - 1] - math.log(veh.dry))
 
+    if veh.rate is not None and "rate" not in relax:
+        for k in range(N - 1):
+            t1 = (k + 1) * dt
+            m_max = m0 - veh.alpha * veh.rho1 * t1
+            m_min = max(m0 - veh.alpha * veh.rho2 * t1, veh.dry)
+            room = (veh.rate * veh.full * dt - veh.alpha * dt * veh.rho2 ** 2 / m_min) / m_max / acc
+            ds = (s_sel(ctrl(k + 1)) - s_sel(ctrl(k))) / acc
+            P.add_ge(-ds, room)
+            P.add_ge(ds, room)
+    intervals = job.get("throttleIntervals")
+    if intervals is not None:
+        if hold != "zoh" or len(intervals) != n_ctrl:
+            raise ValueError("throttleIntervals needs zoh and one [lo, hi] per interval")
+        for j, (lo, hi) in enumerate(intervals):
+            sj = s_sel(j) / acc
+            # upper at the interval's start: σ_j ≤ μ (1 − δ_j), μ = hi F e^{−z0(t_j)}
+            mu = hi * veh.full * math.exp(-z_ref[j]) / acc
+            P.add_ge(-sj - mu * Zc[j], mu * (1.0 - (zc[j] - z_ref[j])))
+            if lo > 0:
+                # lower at its end: μ (1 − δ + δ²/2) ≤ σ_j, δ = z_{j+1} − z0(t_{j+1})
+                mu = lo * veh.full * math.exp(-z_ref[j + 1]) / acc
+                dz = (Zc[j + 1], zc[j + 1] - z_ref[j + 1])
+                qa = 2.0 * sj / mu + 2.0 * dz[0]
+                qc = -2.0 + 2.0 * dz[1]
+                P.add_soc((qa / 2, (qc + 1) / 2), [dz, (qa / 2, (qc - 1) / 2)])
+
     # State constraints (scaled by length or vel).
     if con.get("glideSlope_deg") is not None and "glideSlope" not in relax:
         cot = 1.0 / math.tan(math.radians(con["glideSlope_deg"]))
@@ -415,7 +456,42 @@ def search(job):
     return out
 
 
+def brute_force_bands(job):
+    """Every assignment of the N − 1 hold intervals to the allowed throttle intervals, each solved at the
+    job's fixed t_f; the cheapest optimal one wins."""
+    import itertools
+    v = job["vehicle"]
+    allowed, lo = [], v["throttleMin"]
+    for a, b in job["bruteForceBands"]:
+        allowed.append((lo, a))
+        lo = b
+    allowed.append((lo, v["throttleMax"]))
+    n_int = int(job["nodes"]) - 1
+    best, solves, feasible = None, 0, 0
+    for combo in itertools.product(range(len(allowed)), repeat=n_int):
+        sub = dict(job)
+        sub["throttleIntervals"] = [list(allowed[c]) for c in combo]
+        try:
+            res = build_and_solve(sub, float(job["timeOfFlight_s"]))
+        except ValueError:
+            res = {"status": "error"}
+        solves += 1
+        if res["status"] == "optimal":
+            feasible += 1
+            if best is None or res["propellant_kg"] < best["propellant_kg"]:
+                best = dict(res)
+                best["assignment"] = list(combo)
+    out = best if best is not None else {"status": "infeasible"}
+    out["solves"] = solves
+    out["feasibleAssignments"] = feasible
+    return out
+
+
 def run(job):
+    if "bruteForceBands" in job:
+        out = brute_force_bands(job)
+        out["id"] = job.get("id")
+        return out
     if "search" in job:
         out = search(job)
     else:

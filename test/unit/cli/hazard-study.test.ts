@@ -9,7 +9,10 @@ import { captureIo } from '../../support/cli-io.ts';
 import { makeProjection, projectedCrsFromEpsg, readGeoTiff, writeGeoTiff } from '../../../core/terrain/index.ts';
 import { rfc7946Violations } from '../../support/rfc7946.ts';
 
-const DEM = fileURLToPath(new URL('../../../assets/demo/terrain/demo-site.tif', import.meta.url));
+// The invented demo site's 2 m inset (2 km around the nominal target); the tests read its central 1 km
+// (--window) so the hazard map stays as small as before the site grew.
+const DEM = fileURLToPath(new URL('../../../assets/demo/terrain/demo-inset.tif', import.meta.url));
+const WINDOW = '250,250,750,750';
 const STUDY = fileURLToPath(new URL('../../../assets/demo/demo-lander.study.json', import.meta.url));
 const dir = mkdtempSync(join(tmpdir(), 'landreach-hz-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -20,7 +23,7 @@ describe('landreach hazard --study', () => {
   it('writes the safe reachable mask and ranks sites that are safe, reachable and within budget', async () => {
     const h = io();
     const out = join(dir, 'a');
-    const code = await main(['hazard', DEM, '--out', out, '--study', STUDY, '--targets', '5x5', '--workers', '2', '--sites', '5'], h.io);
+    const code = await main(['hazard', DEM, '--window', WINDOW, '--out', out, '--study', STUDY, '--targets', '5x5', '--workers', '2', '--sites', '5'], h.io);
     expect(code, h.err.join('')).toBe(0);
     const summary = JSON.parse(readFileSync(join(out, 'hazard-summary.json'), 'utf8'));
     expect(summary.safeReachable.safeReachableCells).toBeLessThanOrEqual(summary.safeReachable.reachableCells);
@@ -38,12 +41,26 @@ describe('landreach hazard --study', () => {
     let ones = 0;
     for (const v of mask.heights) if (v === 1) ones++;
     expect(ones).toBe(summary.safeReachable.safeReachableCells);
-    // footprint.geojson: the demo DEM has no CRS, so null geometry with the shapes and sites in local metres.
+    // footprint.geojson: the demo DEM is equirectangular on a Mars-sized sphere (demo-site.json), so the
+    // geometry is longitude/latitude on that body. Reference: the spherical equirectangular inverse (Snyder
+    // 1987, Map Projections — A Working Manual, eqs. 12-3, 12-4), λ = λ0 + x / (R cos φ1), φ = y / R, at
+    // each site's cell centre from the window's geotransform (2 m cells; the window starts 250 cells in).
+    const info = JSON.parse(readFileSync(fileURLToPath(new URL('../../../assets/demo/terrain/demo-site.json', import.meta.url)), 'utf8'));
+    const inset = info.rasters.find((r: { file: string }) => r.file === 'demo-inset.tif');
+    const { bodyRadius_m: R, standardParallel_deg: lat1, centralMeridian_deg: lon0, centreEasting_m: E0, centreNorthing_m: N0 } = info.crs;
     const doc = JSON.parse(readFileSync(join(out, 'footprint.geojson'), 'utf8'));
     expect(rfc7946Violations(doc)).toEqual([]);
-    expect(doc.features.every((f: { geometry: unknown }) => f.geometry === null)).toBe(true);
     const sites = doc.features.filter((f: { properties: { kind: string } }) => f.properties.kind === 'landing-site');
     expect(sites.map((f: { properties: { local_m: { coordinates: number[] } } }) => f.properties.local_m.coordinates)).toEqual(summary.sites.map((s: { east_m: number; north_m: number }) => [s.east_m, s.north_m]));
+    sites.forEach((f: { geometry: { coordinates: number[] } }, k: number) => {
+      const s = summary.sites[k];
+      const x = E0 + inset.west_m + (250 + s.col + 0.5) * 2;
+      const y = N0 + inset.north_m - (250 + s.row + 0.5) * 2;
+      const deg = 180 / Math.PI;
+      expect(f.geometry.coordinates[0]).toBeCloseTo(lon0 + (x / (R * Math.cos(lat1 / deg))) * deg, 8);
+      expect(f.geometry.coordinates[1]).toBeCloseTo((y / R) * deg, 8);
+    });
+    expect(doc.features[0].properties.crs_note).toMatch(/Orvessa Plain \(invented\)/);
   }, 120_000);
 
   it('on a UTM DEM, footprint.geojson has WGS 84 lon/lat geometry; sites sit at their UTM position', async () => {
@@ -93,7 +110,7 @@ describe('landreach hazard --study', () => {
 
   it('rejects study-only options without --study', async () => {
     const h = io();
-    expect(await main(['hazard', DEM, '--out', join(dir, 'b'), '--targets', '5x5'], h.io)).toBe(2);
+    expect(await main(['hazard', DEM, '--window', WINDOW, '--out', join(dir, 'b'), '--targets', '5x5'], h.io)).toBe(2);
     expect(h.err.join('')).toMatch(/--targets only applies with --study/);
   });
 });

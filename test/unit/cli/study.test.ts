@@ -101,7 +101,7 @@ describe('landreach study', () => {
   it('rejects an unknown study and options of the other study', async () => {
     const h = io();
     expect(await main(['study', 'dispersal', DEMO, '--out', dir], h.io)).toBe(2);
-    expect(h.err.join('')).toMatch(/unknown study 'dispersal': choose reserve, ignition-altitude or dispersion/);
+    expect(h.err.join('')).toMatch(/unknown study 'dispersal': choose reserve, ignition-altitude, dispersion or landing-success/);
     const g = io();
     expect(await main(['study', 'reserve', DEMO, '--out', dir, '--altitudes', '100'], g.io)).toBe(2);
     expect(g.err.join('')).toMatch(/unknown option '--altitudes' for the reserve study/);

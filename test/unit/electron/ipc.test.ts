@@ -196,6 +196,9 @@ describe('export', () => {
     await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'exe', suggestedName: 'a', data: 'x' })).rejects.toThrow(/invalid export kind: "exe"/);
     await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'csv', suggestedName: 'a', data: PNG })).rejects.toThrow(/csv export data: expected a string/);
     await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'png', suggestedName: 'a', data: new Uint8Array([1, 2, 3]) })).rejects.toThrow(/PNG signature/);
+    // A GeoTIFF export must start with the little-endian TIFF header "II", 42 (TIFF 6.0 §2); a PNG is refused.
+    await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'tif', suggestedName: 'a', data: PNG })).rejects.toThrow(/TIFF header/);
+    await expect(call(INVOKE_CHANNELS.exportFile, { kind: 'tif', suggestedName: 'a', data: 'II*' })).rejects.toThrow(/tif export data: expected bytes/);
     expect(saveDialogNames).toEqual([]);
   });
 });

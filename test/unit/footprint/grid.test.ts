@@ -57,7 +57,7 @@ describe('struct-of-arrays field', () => {
     writeRow(field, row);
     expect(field.propellant_kg[5]).toBe(300);
     expect(field.miss_m[3]).toBe(120);
-    expect(countByStatus(field)).toEqual({ pending: 4, reachable: 1, unreachable: 1, failed: 0, overBudget: 0, relaxationGap: 0 });
+    expect(countByStatus(field)).toEqual({ pending: 4, reachable: 1, unreachable: 1, failed: 0, overBudget: 0, relaxationGap: 0, undecided: 0 });
     const buffers = rowBuffers(row);
     expect(new Set(buffers).size).toBe(7);
   });

@@ -47,7 +47,7 @@ describe('study steps', () => {
   it('dispersed sample studies: a heavier sample carries more propellant; its budget keeps the reserve', () => {
     const heavy = dispersedSampleStudy(study, { ignition: { position: [0, 0, 1800], velocity: [0, 0, -70], mass: 2110 }, thrustScale: 1.02, isp_s: 231 });
     expect(heavy.study.vehicle.wetMass_kg).toBe(2110);
-    expect(heavy.budget_kg).toBe(2110 - 1600 - 20);
+    expect(heavy.budget_kg).toBe(2110 - 1600 - 150); // the demo's dry mass and reserve
     expect(heavy.study.vehicle.thrustPerEngine_N).toBeCloseTo(3300 * 1.02, 9);
     const draws = reachSampleStudies(study, { position_m: 10, velocity_mps: 0, mass_kg: 0, thrustFraction: 0, ispFraction: 0 }, 3, 7);
     expect(draws).toHaveLength(3);

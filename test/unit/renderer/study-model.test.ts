@@ -20,7 +20,7 @@ describe('field table', () => {
   });
 
   it('names the unit of every dimensional field in its id (house rule: units in names at boundaries)', () => {
-    const suffix: Record<string, string> = { kg: '_kg', s: '_s', N: '_N', m: '_m', 'm/s': '_mps', 'm/s²': '_mps2', '°': '_deg' };
+    const suffix: Record<string, string> = { kg: '_kg', s: '_s', N: '_N', m: '_m', 'm/s': '_mps', 'm/s²': '_mps2', '°': '_deg', '/s': '_perS' };
     // Vector components (ignition.position_m.2) carry the unit in the vector's name.
     for (const f of FIELDS.filter((x) => x.unit)) expect(f.id.replace(/\.\d$/, '').endsWith(suffix[f.unit]), f.id).toBe(true);
   });

@@ -30,7 +30,7 @@ describe('study file', () => {
     expect(s.vehicle.invented).toBe(true);
     expect(s.site.invented).toBe(true);
     const d = studyToDescent(s);
-    expect(d.setup.vehicle.dryMass).toBe(1620); // dry mass + reserve
+    expect(d.setup.vehicle.dryMass).toBe(1600 + 150); // dry mass + reserve (1600 kg and 150 kg in the file)
     expect(d.setup.vehicle.cantAngle).toBeCloseTo((20 * Math.PI) / 180, 15);
     expect(d.setup.constraints.glideSlope).toBeCloseTo((5 * Math.PI) / 180, 15);
     expect(d.ignition.mass).toBe(2100);

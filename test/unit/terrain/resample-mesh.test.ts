@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  HAZARD_SLOPE, HAZARD_UNKNOWN, decimatedMesh, generateDemoTerrain, gridFromFunction, resampleHazardFlags, resampleHeights, resampleReachability,
+  HAZARD_SLOPE, HAZARD_UNKNOWN, decimatedMesh, demoSiteFeatures, renderDemoSite, gridFromFunction, resampleHazardFlags, resampleHeights, resampleReachability,
 } from '../../../core/terrain/index.ts';
 
 describe('resampling', () => {
@@ -92,15 +92,20 @@ describe('decimated display mesh', () => {
   });
 
   it('keeps the demo site\'s biggest crater bowl (mesh vs full resolution at the crater centre)', () => {
-    const { grid, features } = generateDemoTerrain();
-    const m = decimatedMesh(grid, 128 * 128);
+    // A 2 km window of the invented site at 4 m around its largest crater, the window's north-west corner
+    // at a whole number of metres so block centres fall on cell boundaries as below.
+    const features = demoSiteFeatures();
     const big = features.craters.reduce((a, b) => (b.diameter_m > a.diameter_m ? b : a));
-    const i = Math.floor(big.east_m / (m.stride * 2));
-    const j = Math.floor(-big.north_m / (m.stride * 2));
+    const west = Math.round(big.east_m) - 1024, north = Math.round(big.north_m) + 1024;
+    const grid = renderDemoSite(features, { width: 512, height: 512, pixelSize_m: 4, west_m: west, north_m: north });
+    const m = decimatedMesh(grid, 128 * 128);
+    const ce = big.east_m - west, cn = big.north_m - north;
+    const i = Math.floor(ce / (m.stride * 4));
+    const j = Math.floor(-cn / (m.stride * 4));
     const meshFloor = m.positions[3 * (j * m.columns + i) + 2];
-    const e = (i + 0.5) * m.stride * 2, n = -(j + 0.5) * m.stride * 2;
+    const e = (i + 0.5) * m.stride * 4, n = -(j + 0.5) * m.stride * 4;
     // Box mean of a bowl a·r² over an s × s block is a(r0² + s²/6): for this bowl, well under 5 % of the depth.
-    const fullFloor = grid.heights[Math.floor(-n / 2) * grid.width + Math.floor(e / 2)];
+    const fullFloor = grid.heights[Math.floor(-n / 4) * grid.width + Math.floor(e / 4)];
     expect(Math.abs(meshFloor - fullFloor)).toBeLessThan(0.05 * big.depth_m);
   });
 });

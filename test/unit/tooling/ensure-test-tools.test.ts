@@ -14,7 +14,7 @@ import { GDAL_PROGRAMS, installCommand, plan, REFERENCE_TOOLS, type ToolCheck } 
 
 const SCRIPT = new URL('../../../bin/ensure-test-tools.mjs', import.meta.url).pathname;
 const ROOT = process.getuid?.() === 0;
-const EVERY_PACKAGE = 'python3-cvxopt python3-numpy python3-matplotlib python3-pil python3-gdal gdal-bin chromium';
+const EVERY_PACKAGE = 'python3-cvxopt python3-numpy python3-scipy python3-matplotlib python3-pil python3-gdal gdal-bin chromium';
 
 let dir: string;
 beforeEach(() => {
@@ -34,7 +34,7 @@ function executable(file: string, body: string) {
  */
 function machine(options: { present: ('python' | 'gdal' | 'chromium')[]; apt: 'fixes' | 'does-nothing' | 'fails' | 'absent' }) {
   const stock = path.join(dir, 'stock');
-  const imports = JSON.stringify({ cvxopt: null, numpy: null, matplotlib: null, PIL: null, 'osgeo.gdal': null });
+  const imports = JSON.stringify({ cvxopt: null, numpy: null, 'scipy.stats': null, matplotlib: null, PIL: null, 'osgeo.gdal': null });
   executable(path.join(stock, 'python', 'python3'), `echo '${imports}'`);
   for (const p of GDAL_PROGRAMS) executable(path.join(stock, 'gdal', p), 'echo "GDAL 0.0.0 (stand-in)"');
   executable(path.join(stock, 'chromium', 'chromium'), 'echo "Chromium stand-in"');
@@ -71,7 +71,7 @@ describe('npm test installs or names the reference tools (bin/ensure-test-tools.
     const r = machine({ present: ['python', 'gdal', 'chromium'], apt: 'fixes' }).run();
     expect(r.status).toBe(0);
     expect(r.apt).toEqual([]);
-    expect(r.out).toMatch(/Reference tools present: CVXOPT, NumPy, Matplotlib, Pillow, GDAL's Python bindings, GDAL, Chromium\./);
+    expect(r.out).toMatch(/Reference tools present: CVXOPT, NumPy, SciPy, Matplotlib, Pillow, GDAL's Python bindings, GDAL, Chromium\./);
   });
 
   it('as root with apt-get: prints and runs apt-get update and one install of the missing packages, then checks again', () => {
@@ -118,9 +118,9 @@ describe('npm test installs or names the reference tools (bin/ensure-test-tools.
     expect(r.out).toBe('');
     const lines = r.err.trim().split('\n');
     expect(lines[0]).toBe('npm test compares Landreach against outside reference tools, and some are missing:');
-    expect(lines.filter((l) => l.startsWith('  - ')).map((l) => l.slice(4).split(' (')[0])).toEqual(['CVXOPT', 'NumPy', 'Matplotlib', 'Pillow', "GDAL's Python bindings", 'GDAL']);
+    expect(lines.filter((l) => l.startsWith('  - ')).map((l) => l.slice(4).split(' (')[0])).toEqual(['CVXOPT', 'NumPy', 'SciPy', 'Matplotlib', 'Pillow', "GDAL's Python bindings", 'GDAL']);
     expect(r.err).toContain('This machine has no apt-get, so they cannot be installed from here; on Debian 12:');
-    expect(r.err).toContain(`apt-get update && ${ROOT ? '' : 'sudo '}apt-get install -y --no-install-recommends python3-cvxopt python3-numpy python3-matplotlib python3-pil python3-gdal gdal-bin\n`);
+    expect(r.err).toContain(`apt-get update && ${ROOT ? '' : 'sudo '}apt-get install -y --no-install-recommends python3-cvxopt python3-numpy python3-scipy python3-matplotlib python3-pil python3-gdal gdal-bin\n`);
   });
 });
 

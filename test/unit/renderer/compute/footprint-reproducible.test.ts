@@ -10,13 +10,13 @@ import { makeTargetGrid } from '../../../../core/footprint/grid.ts';
 import { footprintFigures, FOOTPRINT_NODES } from '../../../../core/footprint/studyFootprint.ts';
 import { inputsHash } from '../../../../core/study/provenance.ts';
 import { FootprintSession } from '../../../../renderer/compute/footprint-session.ts';
-import { footprintExportText, type FootprintExportKind } from '../../../../renderer/compute/footprint-exports.ts';
+import { footprintExportText, type TextExportKind } from '../../../../renderer/compute/footprint-exports.ts';
 import { lowPropellantDemo } from '../../../support/scenarios.ts';
 import { scheduledWorkerFactory, type CompletionPolicy } from '../../../support/scheduled-pool.ts';
 
 const { study } = lowPropellantDemo();
 const grid = makeTargetGrid({ halfWidthEast_m: 3500, halfWidthNorth_m: 3500, nx: 7, ny: 7 });
-const KINDS: FootprintExportKind[] = ['csv', 'json', 'geojson', 'svg'];
+const KINDS: TextExportKind[] = ['csv', 'json', 'geojson', 'svg'];
 
 async function exportsWith(workers: number, policy: CompletionPolicy): Promise<Record<string, string>> {
   const factory = scheduledWorkerFactory(() => {

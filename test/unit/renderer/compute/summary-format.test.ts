@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { footprintFigureList, trajectoryFigureList } from '../../../../renderer/compute/summary-format.ts';
 import { chartSeries } from '../../../../renderer/compute/trajectory-session.ts';
 import { coreStudy } from '../../../../renderer/study/core-study.ts';
-import type { FootprintSummary } from '../../../../core/study/footprintExport.ts';
+import type { FootprintSummary } from '../../../../core/export/footprintExport.ts';
 import type { PickedTrajectory } from '../../../../core/footprint/pickedTrajectory.ts';
 
 const summary: FootprintSummary = {

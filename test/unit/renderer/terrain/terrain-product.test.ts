@@ -66,14 +66,16 @@ describe('hazard on the display grid', () => {
 });
 
 describe('reading a DEM', () => {
-  it('reads the bundled demo DEM (512 × 512 at 2 m, no CRS) as demo-site.json describes it', async () => {
+  it('reads the bundled demo DEM (2000 × 2000 at 10 m, equirectangular on a Mars-sized sphere) as demo-site.json describes it', async () => {
     const bytes = new Uint8Array(fs.readFileSync(new URL('../../../../assets/demo/terrain/demo-site.tif', import.meta.url)));
     const info = JSON.parse(fs.readFileSync(new URL('../../../../assets/demo/terrain/demo-site.json', import.meta.url), 'utf8'));
+    const site = info.rasters.find((r: { file: string }) => r.file === 'demo-site.tif');
     const { grid, format } = await readTerrain(bytes, 'demo-site.tif', NO_PNG);
     expect(format).toBe('geotiff');
-    expect([grid.width, grid.height, grid.pixelSizeX_m]).toEqual([info.width, info.height, info.pixelSize_m]);
-    expect(describeGeoreference(grid.georeference ?? null)).toBe('no CRS: local east/north metres');
-    expect(terrainExtent({ ...grid })).toMatchObject({ centreEast_m: 512, centreNorth_m: -512 });
+    expect([grid.width, grid.height, grid.pixelSizeX_m]).toEqual([site.width, site.height, site.pixelSize_m]);
+    expect(describeGeoreference(grid.georeference ?? null)).toMatch(/^projected, user-defined CRS "Equirectangular, Mars sphere, Orvessa Plain \(invented\)" \(.*equirectangular/i);
+    // The DEM's centre is the site centre (the demo study's nominal target) in the CRS's metres.
+    expect(terrainExtent({ ...grid })).toMatchObject({ centreEast_m: info.crs.centreEasting_m, centreNorth_m: info.crs.centreNorthing_m });
   });
 
   it('tells formats apart by their first bytes and reads a JSON grid', async () => {

@@ -3,7 +3,7 @@ import fc from 'fast-check';
 import { DEFAULT_HAZARD_LIMITS, resolveLimits } from '../../../../core/terrain/index.ts';
 import { checkTerrainSettings, DEFAULT_TERRAIN_SETTINGS, type TerrainSettingsText } from '../../../../renderer/terrain/terrain-settings.ts';
 
-// The demo DEM's extent: 512 × 512 cells of 2 m, north-west corner at (0, 0) (assets/demo/terrain/demo-site.json).
+// An example extent: a local-frame DEM of 512 × 512 cells of 2 m, north-west corner at (0, 0).
 const EXTENT = { west_m: 0, east_m: 1024, south_m: -1024, north_m: 0, centreEast_m: 512, centreNorth_m: -512 };
 const withText = (over: Partial<TerrainSettingsText>) => ({ ...DEFAULT_TERRAIN_SETTINGS, ...over });
 

@@ -7,7 +7,7 @@ import { propellantRegions, ringArea } from '../../../core/footprint/contours.ts
 import { emptyField, TARGET } from '../../../core/footprint/field.ts';
 import { makeTargetGrid } from '../../../core/footprint/grid.ts';
 import { footprintLonLat } from '../../../core/footprint/georeferencedFootprint.ts';
-import { footprintGeoJson, rightHandRule } from '../../../core/study/footprintExport.ts';
+import { footprintGeoJson, rightHandRule } from '../../../core/export/footprintExport.ts';
 import { CAUTION } from '../../../core/study/provenance.ts';
 import { makeGrid, terrainLonLat } from '../../../core/terrain/index.ts';
 import { rfc7946Violations } from '../../support/rfc7946.ts';

@@ -3,11 +3,13 @@
  * out. Units are in every column and property name.
  */
 import { TARGET, type FootprintField } from '../footprint/field.ts';
-import { APP_VERSION, CAUTION } from './provenance.ts';
+import type { FootprintSummary } from '../footprint/studyFootprint.ts';
+import { APP_VERSION, CAUTION } from '../study/provenance.ts';
 
 export { footprintGeoJson, rightHandRule, type FootprintGeoJsonInput, type FootprintLonLat, type GeoJsonSite, type LocalToLonLat } from './footprintGeoJson.ts';
+export type { FootprintSummary } from '../footprint/studyFootprint.ts';
 
-const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget', 'relaxation-gap'] as const;
+const STATUS_NAME = ['pending', 'reachable', 'unreachable', 'failed', 'over-budget', 'relaxation-gap', 'undecided'] as const;
 
 /** `between_nodes`: the dense re-simulation's verdict (empty: not checked). */
 const BETWEEN_NODES_NAME = ['', 'met', 'missed'] as const;
@@ -21,6 +23,21 @@ function pendingCount(field: FootprintField): number {
   return n;
 }
 
+/**
+ * Whether target k is reachable with the reserve kept (minimum propellant ≤ `budget_kg`): 1 yes, 0 certainly
+ * not (above the budget, over budget, or unreachable), null not computed or not established (failed, or a
+ * relaxation-gap target whose best flyable trajectory is above the budget). One rule for the CSV's
+ * `within_budget` column and the reachable-with-reserve raster.
+ */
+export function withinBudget(field: FootprintField, k: number, budget_kg: number): 0 | 1 | null {
+  const st = field.status[k];
+  if (st === TARGET.reachable) return field.propellant_kg[k] <= budget_kg ? 1 : 0;
+  if (st === TARGET.unreachable || st === TARGET.overBudget) return 0;
+  // A flyable trajectory within the budget proves it; above it, only the (unstored) lower bound could.
+  if (st === TARGET.relaxationGap && field.propellant_kg[k] <= budget_kg) return 1;
+  return null;
+}
+
 /** The line a partial result's CSV carries after the caution (a complete run never leaves targets pending). */
 export function partialResultLine(field: FootprintField): string | null {
   const pending = pendingCount(field);
@@ -31,7 +48,7 @@ export function partialResultLine(field: FootprintField): string | null {
  * One row per target. `between_nodes` is `met` when the re-simulated trajectory meets every constraint between its
  * nodes, `missed` when one is missed beyond tolerance, empty when not checked. `within_budget` is 1 where the minimum propellant is at most `budget_kg` (the usable
  * propellant less the reserve), 0 where it is certainly above it or unreachable, empty where not computed or
- * not established (a relaxation-gap target whose best flyable trajectory is above the budget).
+ * not established (a relaxation-gap target whose best flyable trajectory is above the budget, an undecided one).
  * A partial field (a run stopped early) gets a second comment line saying so.
  */
 export function footprintCsv(field: FootprintField, budget_kg: number): string {
@@ -45,11 +62,8 @@ export function footprintCsv(field: FootprintField, budget_kg: number): string {
     for (let i = 0; i < field.nx; i++) {
       const k = j * field.nx + i;
       const st = field.status[k];
-      const within = st === TARGET.reachable
-        ? (field.propellant_kg[k] <= budget_kg ? '1' : '0')
-        : st === TARGET.unreachable || st === TARGET.overBudget ? '0'
-          // A flyable trajectory within the budget proves it; above it, only the (unstored) lower bound could.
-          : st === TARGET.relaxationGap && field.propellant_kg[k] <= budget_kg ? '1' : '';
+      const w = withinBudget(field, k, budget_kg);
+      const within = w === null ? '' : String(w);
       lines.push(
         [
           num(field.east[i], 3),
@@ -69,40 +83,6 @@ export function footprintCsv(field: FootprintField, budget_kg: number): string {
   return lines.join('\n') + '\n';
 }
 
-export interface FootprintSummary {
-  targets: number;
-  reachable: number;
-  unreachable: number;
-  failed: number;
-  pending: number;
-  /** Targets stopped early as certainly over the budget (reachable-set runs only). */
-  overBudget: number;
-  /** Targets where the relaxation was not lossless and no flyable trajectory within tolerance of its bound was found. */
-  relaxationGap: number;
-  /**
-   * Targets whose trajectory misses a constraint between its nodes beyond tolerance in the dense
-   * re-simulation (core/descent/verify.ts); 0 when all met.
-   */
-  betweenNodesMissed: number;
-  /**
-   * Present when the budget boundary was refined coarse-to-fine: area and divert radius then come from the
-   * refined boundary; `solves` includes the refinement's.
-   */
-  boundaryRefinement?: { factor: number; extraTargets: number; extraSolves: number; unrefinedArea_m2: number; complete: boolean };
-  usablePropellant_kg: number;
-  reserve_kg: number;
-  budget_kg: number;
-  /** Area of {propellant ≤ budget}, m². */
-  reachableArea_m2: number;
-  guaranteedDivertRadius_m: number;
-  /** True when the divert radius is limited by the grid's extent rather than by reach. */
-  divertRadiusLimitedByGrid: boolean;
-  minPropellant_kg: number;
-  maxPropellant_kg: number;
-  solves: number;
-  /** The run stopped (Ctrl-C, a signal, Cancel) before every target was computed: `pending` are missing. */
-  cancelled: boolean;
-}
 
 export interface FootprintReportInput {
   studyName: string;

@@ -10,23 +10,10 @@
  */
 import type { Feature, FeatureCollection, MultiPolygon, Point, Position } from 'geojson';
 import { ringArea, type PropellantRegion } from '../footprint/contours.ts';
-import { CAUTION } from './provenance.ts';
+import { CAUTION } from '../study/provenance.ts';
+import type { FootprintLonLat, LocalToLonLat } from '../footprint/georeferencedFootprint.ts';
 
-/** Converts local east–north metres (from the nominal target) to [longitude, latitude] in degrees. */
-export type LocalToLonLat = (east_m: number, north_m: number) => [number, number];
-
-/** Longitude/latitude for the footprint and what they refer to. */
-export interface FootprintLonLat {
-  toLonLat: LocalToLonLat;
-  /** True when the coordinates are WGS 84, as RFC 7946 assumes. */
-  wgs84: boolean;
-  /** What the coordinates refer to, in words (e.g. "WGS 84 longitude/latitude (EPSG:4326)"). */
-  datum: string;
-  /** The body the study is on (e.g. "mars"). */
-  body: string;
-  /** Anything else a reader must know (e.g. how local metres relate to the DEM's grid). */
-  note?: string;
-}
+export type { FootprintLonLat, LocalToLonLat } from '../footprint/georeferencedFootprint.ts';
 
 /** A ranked landing site, in local metres from the nominal target. */
 export interface GeoJsonSite {

@@ -1,6 +1,6 @@
-/** Trade-study exports (core/study/studyExport.ts): CSV columns with units, the caution line, the report envelope. */
+/** Trade-study exports (core/export/studyExport.ts): CSV columns with units, the caution line, the report envelope. */
 import { describe, expect, it } from 'vitest';
-import { altitudeStudyCsvLines, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReportObject } from '../../../core/study/studyExport.ts';
+import { altitudeStudyCsvLines, dispersionCsvLines, reachMapCsv, reserveStudyCsvLines, studyReportObject } from '../../../core/export/studyExport.ts';
 import { CAUTION } from '../../../core/study/provenance.ts';
 
 describe('study exports', () => {

@@ -3,8 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { propellantRegions } from '../../../core/footprint/contours.ts';
 import { emptyField, TARGET } from '../../../core/footprint/field.ts';
 import { makeTargetGrid } from '../../../core/footprint/grid.ts';
-import { footprintCsv, footprintGeoJson, footprintReport } from '../../../core/study/footprintExport.ts';
-import { footprintSvg } from '../../../core/study/footprintSvg.ts';
+import { footprintCsv, footprintGeoJson, footprintReport } from '../../../core/export/footprintExport.ts';
+import { footprintSvg } from '../../../core/export/footprintSvg.ts';
 import { APP_VERSION, CAUTION, canonicalJson, inputsHash, sha256Hex } from '../../../core/study/provenance.ts';
 
 function smallField() {

@@ -5,7 +5,7 @@
  */
 import type { AltitudeStudyRow, ReserveStudyRow } from '../footprint/studies.ts';
 import type { DispersionResult } from '../footprint/dispersion.ts';
-import { APP_VERSION, CAUTION } from './provenance.ts';
+import { APP_VERSION, CAUTION } from '../study/provenance.ts';
 
 /** What the dispersion study's landing points are (its report says so). */
 export const DISPERSION_MODEL = 'nominal optimal thrust flown open loop; landing point at the end of powered descent';

@@ -5,8 +5,11 @@
  */
 import type { Position } from 'geojson';
 import type { Ellipse } from '../footprint/ellipse.ts';
-import type { PropellantRegion } from '../footprint/contours.ts';
-import { CAUTION } from './provenance.ts';
+import { niceStep, regionBounds, type PropellantRegion } from '../footprint/contours.ts';
+import type { FootprintField } from '../footprint/field.ts';
+import type { FootprintFigures } from '../footprint/studyFootprint.ts';
+import { sampleColormap, VIRIDIS } from '../study/colormap.ts';
+import { CAUTION } from '../study/provenance.ts';
 
 export type Colormap = (t: number) => readonly [number, number, number];
 
@@ -31,14 +34,6 @@ const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replac
 function hex([r, g, b]: readonly [number, number, number]): string {
   const c = (v: number) => Math.round(Math.max(0, Math.min(1, v)) * 255).toString(16).padStart(2, '0');
   return `#${c(r)}${c(g)}${c(b)}`;
-}
-
-/** A "nice" step (1, 2 or 5 × 10ⁿ) near span / count. */
-export function niceStep(span: number, count: number): number {
-  const raw = span / Math.max(1, count);
-  const p = 10 ** Math.floor(Math.log10(raw));
-  const m = raw / p;
-  return (m < 1.5 ? 1 : m < 3.5 ? 2 : m < 7.5 ? 5 : 10) * p;
 }
 
 function wrap(text: string, width: number): string[] {
@@ -151,4 +146,22 @@ export function footprintSvg(input: FootprintSvgInput): string {
   });
   out.push('</svg>');
   return out.join('\n') + '\n';
+}
+
+/**
+ * The report map of a field and its figures (footprintSvg above): propellant bands in viridis, the
+ * reachable region at the budget, the guaranteed divert circle, and an optional landing ellipse.
+ */
+export function footprintMapSvg(field: FootprintField, figures: FootprintFigures, text: { title: string; caption: string[] }, ellipse?: Ellipse | null): string {
+  return footprintSvg({
+    title: text.title,
+    bounds_m: regionBounds(field),
+    bands: figures.bands,
+    reachable: figures.reachable,
+    budget_kg: figures.summary.budget_kg,
+    colormap: (t) => sampleColormap(VIRIDIS, t) as unknown as [number, number, number],
+    divertRadius_m: figures.divert.radius_m,
+    caption: text.caption,
+    ellipse,
+  });
 }
