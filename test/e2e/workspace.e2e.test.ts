@@ -273,13 +273,18 @@ describe.runIf(browser)('workspace in Chromium', () => {
       (canvas.landreachScene as unknown as { setView(p: string): void }).setView('site');
       scene.setHazard(null, false);
       const plain = await frame();
-      // Synthetic mask (not terrain analysis): every sample east of 100 m is "unsafe".
+      // Synthetic mask (not terrain analysis): every sample east of a line just east of the DEM's centre is
+      // "unsafe"; the probes sit 30 % of the DEM's width either side, so they stay clear of the line whatever
+      // the DEM's size on screen.
       const { width, height, pixelSize_m, west_m } = scene.terrainLayout();
+      const span_m = (width - 1) * pixelSize_m;
+      const centre_m = west_m + span_m / 2;
+      const line_m = centre_m + 0.02 * span_m;
       const mask = new Uint8Array(width * height);
-      for (let r = 0; r < height; r++) for (let c = 0; c < width; c++) mask[r * width + c] = west_m + c * pixelSize_m > 100 ? 1 : 0;
+      for (let r = 0; r < height; r++) for (let c = 0; c < width; c++) mask[r * width + c] = west_m + c * pixelSize_m > line_m ? 1 : 0;
       scene.setHazard(mask, true);
       const striped = await frame();
-      return { hazardous: patchDiff(plain, striped, 350, 0), safe: patchDiff(plain, striped, -350, 0) };
+      return { hazardous: patchDiff(plain, striped, centre_m + 0.3 * span_m, 0), safe: patchDiff(plain, striped, centre_m - 0.3 * span_m, 0) };
     });
     await screenshot(page, 'scene-hazard-stripes');
     await page.evaluate(() => {
