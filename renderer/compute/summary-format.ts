@@ -8,7 +8,7 @@ export interface Figure {
   note?: string;
 }
 
-const fixed = (v: number, digits: number) => (Number.isFinite(v) ? v.toFixed(digits) : '—');
+import { fixed } from '../format.ts';
 
 export function footprintFigureList(s: FootprintSummary): Figure[] {
   const done = s.targets - s.pending;

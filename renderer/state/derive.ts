@@ -6,6 +6,7 @@
  */
 import type { Study } from '../../core/study/schema.ts';
 import type { StudyKind } from '../studies/study-inputs.ts';
+import { formatDuration } from './run-progress.ts';
 
 /** What the current study text is: valid (its canonical text) or not. */
 export type StudyTextNow = { ok: true; text: string } | { ok: false; message: string };
@@ -84,4 +85,26 @@ export function computeBlockedReason(problems: InputProblems, studyRunning: bool
   if (problems.errorCount) return `Fix ${problems.errorCount} input${problems.errorCount > 1 ? 's' : ''} first (see the status bar)`;
   if (studyRunning) return 'A study is running: wait for it or cancel it';
   return null;
+}
+
+/** A footprint run expected to take longer than this is started only once the user says so, s (our choice). */
+export const ASK_BEFORE_S = 120;
+
+/**
+ * Footprint targets per second over the worker pool before this session has measured one: about 31 /s, from
+ * the run reported in issue 15 (1000 × 1000 targets in about 9 h; second-hand, one machine). Only a first
+ * guess for the question below: the rate of this session's last finished run replaces it.
+ */
+export const FIRST_GUESS_TARGETS_PER_S = 30;
+
+/**
+ * The question to ask before a long footprint run, or null when it is expected to be short: the time is the
+ * targets over the rate (the last finished run's here, else the first guess), said as rough.
+ */
+export function longRunQuestion(targets: number, measuredRate_per_s: number | null): string | null {
+  const rate = measuredRate_per_s && measuredRate_per_s > 0 ? measuredRate_per_s : FIRST_GUESS_TARGETS_PER_S;
+  const seconds = targets / rate;
+  if (seconds <= ASK_BEFORE_S) return null;
+  const basis = measuredRate_per_s && measuredRate_per_s > 0 ? `the last run’s ${rate.toFixed(1)} targets/s` : `about ${rate} targets/s (a first guess: no run measured yet)`;
+  return `This grid has ${targets.toLocaleString('en')} targets: about ${formatDuration(seconds)} at ${basis}. Start it? Cancelling keeps the finished rows.`;
 }

@@ -8,7 +8,7 @@
 import { History } from './history.ts';
 import { StudyFormatError, type CrossIssue, type RawValues, type StudyModel, type Values } from '../study/study-model.ts';
 import { DEFAULT_RUN_SETTINGS, type RunSettingsText } from '../compute/run-settings.ts';
-import { DEFAULT_TERRAIN_SETTINGS, TERRAIN_FIELD_LABELS, type TerrainSettingsText } from '../terrain/terrain-settings.ts';
+import { DEFAULT_TERRAIN_SETTINGS, TERRAIN_FIELD_LABELS, TERRAIN_FIELD_UNITS, type TerrainSettingsText } from '../terrain/terrain-settings.ts';
 import type { StudyInputs, StudyKind } from '../studies/study-inputs.ts';
 
 /** The run inputs the user edits beside the study (not part of the study file). */
@@ -335,7 +335,7 @@ export function describeChange(before: Draft, after: Draft, model: StudyModel): 
     if (before.run[k] !== after.run[k]) changes.push({ name: RUN_FIELD_LABELS[k], detail: `${arrow(before.run[k], after.run[k])}${k === 'halfWidth_m' ? ' m' : ''}` });
   }
   for (const k of Object.keys(TERRAIN_FIELD_LABELS) as (keyof TerrainSettingsText)[]) {
-    if (before.terrain[k] !== after.terrain[k]) changes.push({ name: `Terrain › ${TERRAIN_FIELD_LABELS[k]}`, detail: arrow(before.terrain[k], after.terrain[k]) });
+    if (before.terrain[k] !== after.terrain[k]) changes.push({ name: `Terrain › ${TERRAIN_FIELD_LABELS[k]}`, detail: `${arrow(before.terrain[k], after.terrain[k])} ${TERRAIN_FIELD_UNITS[k]}` });
   }
   for (const kind of Object.keys(STUDY_TITLES) as StudyKind[]) {
     const a = (before.studies[kind] ?? {}) as Record<string, string>;

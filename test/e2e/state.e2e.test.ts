@@ -70,6 +70,9 @@ describe.runIf(browser)('the workspace as one state (demo study)', () => {
     const { page } = session;
     await openDemo();
     const slope = page.locator('[data-terrain-field="maxSlope_deg"] input');
+    // Bug 10: one unit style, the unit beside the entry as in the study groups ("°", not "(deg)" in the label).
+    expect(await page.locator('[data-terrain-field="maxSlope_deg"] label').textContent()).toBe('Max slope');
+    expect(await page.locator('[data-terrain-field="maxSlope_deg"] .unit').textContent()).toBe('°');
     const was = await slope.inputValue();
     await slope.fill('abc');
     await page.getByTestId('terrain-problem-maxSlope_deg').waitFor();
@@ -96,6 +99,8 @@ describe.runIf(browser)('the workspace as one state (demo study)', () => {
     await page.getByTestId('trajectory-summary').waitFor({ timeout: 60_000 });
     expect(await page.getByTestId('trajectory-summary').textContent()).toMatch(/(within|ABOVE) the [\d.]+ kg budget/);
     expect(await page.getByTestId('trajectory-stale').count()).toBe(0);
+    // Bug 10: a negative coordinate carries the true minus sign U+2212, as the scene's labels do.
+    expect(await page.getByTestId('trajectory-summary').textContent()).toMatch(/\d+ m E, \u2212\d+ m N/);
     // A dry mass above the wet mass: the inputs are not a study at all, the pick was solved with others.
     const wet = Number(await input('vehicle.wetMass_kg').inputValue());
     await input('vehicle.dryMass_kg').fill(String(wet + 420));
@@ -138,5 +143,44 @@ describe.runIf(browser)('the workspace as one state (demo study)', () => {
     await page.getByTestId('study-tab-ignition-altitude').click();
     expect(await page.getByTestId('study-progress').textContent()).toMatch(/2 \/ 2 altitudes in/);
     expect(session.problems).toEqual([]);
+  });
+  // Bug 9 of issue 15: lists cut off at "0, 31.3, 62.", odd default reserves, duplicates accepted, and altitude
+  // limits unlike the main input's.
+  it('study lists: readable whole, round default reserves, a repeated value refused, the main altitude limits', async () => {
+    const { page } = session;
+    await openDemo();
+    await page.getByTestId('study-tab-reserve').click();
+    const reserves = page.getByTestId('study-reserves');
+    // The demo study's usable propellant is 2100 − 1600 = 500 kg (assets/demo): steps of 50 kg up to half of it.
+    expect(await reserves.inputValue()).toBe('0, 50, 100, 150, 200, 250');
+    // The whole default list is visible in its field (nothing scrolled out of view).
+    expect(await reserves.evaluate((e: HTMLInputElement) => e.scrollWidth <= e.clientWidth)).toBe(true);
+    await reserves.fill('0, 50, 50');
+    expect(await page.locator('[data-study-field="reserves"] .problem').textContent()).toMatch(/Reserve 50 kg is listed twice/);
+    expect(await page.getByTestId('study-run').isDisabled()).toBe(true);
+    await page.getByTestId('study-tab-ignition-altitude').click();
+    const altitudes = page.getByTestId('study-altitudes');
+    expect(await altitudes.evaluate((e: HTMLInputElement) => e.scrollWidth <= e.clientWidth)).toBe(true);
+    // The same altitude is refused by the main input and by the study alike.
+    await altitudes.fill('1800, 200000');
+    expect(await page.locator('[data-study-field="altitudes"] .problem').textContent()).toMatch(/from 1 to 100000 m/);
+    await input('ignition.position_m.2').fill('200000');
+    expect(await page.locator('[data-field="ignition.position_m.2"] .message').textContent()).toMatch(/100000/);
+  });
+
+  // Bug 11 of issue 15: a 1000 × 1000 grid (hours of work) started without a word.
+  it('a long footprint run is estimated and asked for first; "Keep working" starts nothing', async () => {
+    const { page } = session;
+    await openDemo();
+    await page.getByTestId('grid-side').fill('1001');
+    await blur();
+    await page.getByTestId('compute').click();
+    const dialog = page.getByTestId('confirm-dialog');
+    await dialog.waitFor();
+    expect(await dialog.textContent()).toMatch(/This grid has 1,002,001 targets: about \d+ h \d+ min/);
+    await dialog.getByRole('button', { name: 'Keep working' }).click();
+    await dialog.waitFor({ state: 'hidden' });
+    expect(await page.getByTestId('run-progress').count()).toBe(0);
+    expect(await page.getByTestId('compute').textContent()).toBe('Compute footprint');
   });
 });

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { Workspace, studyInputsWith } from '../../../renderer/state/workspace.ts';
-import { budgetOf, computeBlockedReason, footprintKey, inputProblems, inputsKey, isStale, netThrustMaxOf, pickKey, studyRunKey } from '../../../renderer/state/derive.ts';
+import { ASK_BEFORE_S, budgetOf, computeBlockedReason, FIRST_GUESS_TARGETS_PER_S, longRunQuestion, footprintKey, inputProblems, inputsKey, isStale, netThrustMaxOf, pickKey, studyRunKey } from '../../../renderer/state/derive.ts';
 import { createLocalStudyModel } from '../../../renderer/study/study-model.ts';
 import { PRESETS } from '../../../renderer/study/field-table.ts';
 import { defaultStudyInputs } from '../../../renderer/studies/study-inputs.ts';
@@ -33,7 +33,7 @@ describe('one undo history over every input', () => {
     w.editStudyInput('ignition-altitude', 'requiredRadius_m', '900');
     expect(w.undo()).toBe('Ignition-altitude study › Required divert radius 900 → (default)');
     expect(w.draft.studies['ignition-altitude']).toBeUndefined();
-    expect(w.undo()).toMatch(/^Terrain › Max slope \(deg\) 12 → \S+$/);
+    expect(w.undo()).toMatch(/^Terrain › Max slope 12 → \S+ °$/);
     expect(w.snapshot().canUndo).toBe(false);
   });
 
@@ -102,5 +102,21 @@ describe('input problems over every group (issue 15 bug 3)', () => {
     expect(p.first).toEqual({ group: 'study', fieldId: 'vehicle.isp_s' });
     expect(computeBlockedReason(inputProblems({ problems: {} }, { ok: true }, {}), true)).toMatch(/study is running/);
     expect(computeBlockedReason(inputProblems({ problems: {} }, { ok: true }, {}), false)).toBeNull();
+  });
+});
+
+describe('asking before a long run (issue 15 bug 11)', () => {
+  it('a 1001 × 1001 grid at the first-guess rate: about 9 h, said before it starts', () => {
+    // 1 002 001 targets / 30 per s = 33 400.03 s = 9 h 16 min 40 s (arithmetic).
+    const q = longRunQuestion(1001 * 1001, null)!;
+    expect(q).toMatch(/^This grid has 1,002,001 targets: about 9 h 16 min at about 30 targets\/s \(a first guess: no run measured yet\)\./);
+    // With a measured rate the estimate uses it: 1 002 001 / 100 = 10 020 s = 2 h 47 min.
+    expect(longRunQuestion(1001 * 1001, 100)).toMatch(/about 2 h 47 min at the last run’s 100\.0 targets\/s/);
+  });
+
+  it('no question for a run expected to be short; the boundary is the threshold itself', () => {
+    expect(longRunQuestion(21 * 21, null)).toBeNull();
+    expect(longRunQuestion(ASK_BEFORE_S * FIRST_GUESS_TARGETS_PER_S, null)).toBeNull();
+    expect(longRunQuestion(ASK_BEFORE_S * FIRST_GUESS_TARGETS_PER_S + 1, null)).not.toBeNull();
   });
 });

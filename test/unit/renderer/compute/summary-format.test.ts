@@ -46,7 +46,7 @@ describe('result figures carry their units', () => {
   it('trajectory: propellant in kg, t_f in s with N', () => {
     const list = trajectoryFigureList(picked, 480);
     expect(list).toEqual([
-      { label: 'Target', value: '500 m E, -302 m N' },
+      { label: 'Target', value: '500 m E, −302 m N' },
       { label: 'Propellant', value: '218.69 kg', note: 'within the 480.0 kg budget' },
       { label: 'Time of flight t_f', value: '36.62 s', note: 'N = 50' },
     ]);
