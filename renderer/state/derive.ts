@@ -98,6 +98,17 @@ export const ASK_BEFORE_S = 120;
 export const FIRST_GUESS_TARGETS_PER_S = 30;
 
 /**
+ * A finished run's rate counts as measured only with at least this many targets (the default 21 × 21 grid has
+ * 441): in a smaller run the workers' start-up and the first rows' warm-up weigh too much.
+ */
+export const MIN_TARGETS_FOR_RATE = 400;
+
+/** Targets per second of a finished footprint run, or null when it is too small to say. */
+export function measuredRate(targets: number, elapsed_s: number): number | null {
+  return targets >= MIN_TARGETS_FOR_RATE && elapsed_s > 0 ? targets / elapsed_s : null;
+}
+
+/**
  * The question to ask before a long footprint run, or null when it is expected to be short: the time is the
  * targets over the rate (the last finished run's here, else the first guess), said as rough.
  */

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { Workspace, studyInputsWith } from '../../../renderer/state/workspace.ts';
-import { ASK_BEFORE_S, budgetOf, computeBlockedReason, FIRST_GUESS_TARGETS_PER_S, longRunQuestion, footprintKey, inputProblems, inputsKey, isStale, netThrustMaxOf, pickKey, studyRunKey } from '../../../renderer/state/derive.ts';
+import { ASK_BEFORE_S, budgetOf, computeBlockedReason, FIRST_GUESS_TARGETS_PER_S, longRunQuestion, measuredRate, footprintKey, inputProblems, inputsKey, isStale, netThrustMaxOf, pickKey, studyRunKey } from '../../../renderer/state/derive.ts';
 import { createLocalStudyModel } from '../../../renderer/study/study-model.ts';
 import { PRESETS } from '../../../renderer/study/field-table.ts';
 import { defaultStudyInputs } from '../../../renderer/studies/study-inputs.ts';
@@ -112,6 +112,12 @@ describe('asking before a long run (issue 15 bug 11)', () => {
     expect(q).toMatch(/^This grid has 1,002,001 targets: about 9 h 16 min at about 30 targets\/s \(a first guess: no run measured yet\)\./);
     // With a measured rate the estimate uses it: 1 002 001 / 100 = 10 020 s = 2 h 47 min.
     expect(longRunQuestion(1001 * 1001, 100)).toMatch(/about 2 h 47 min at the last run’s 100\.0 targets\/s/);
+  });
+
+  it('a rate is measured only on a run big enough to amortise the start-up (21 × 21 yes, 7 × 7 no)', () => {
+    expect(measuredRate(441, 9)).toBe(49);
+    expect(measuredRate(49, 30)).toBeNull();
+    expect(measuredRate(441, 0)).toBeNull();
   });
 
   it('no question for a run expected to be short; the boundary is the threshold itself', () => {
