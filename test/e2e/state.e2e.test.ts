@@ -183,4 +183,22 @@ describe.runIf(browser)('the workspace as one state (demo study)', () => {
     expect(await page.getByTestId('run-progress').count()).toBe(0);
     expect(await page.getByTestId('compute').textContent()).toBe('Compute footprint');
   });
+
+  // Bug 7 of issue 15: the top bar reflowed onto two lines when a grid error appeared; "Grid [21] × same" was cryptic.
+  it('a grid error opens below the top bar without moving it; the grid fields say what they are', async () => {
+    const { page } = session;
+    await openDemo();
+    const bar = page.locator('header.topbar');
+    const before = (await bar.boundingBox())!;
+    const compute = (await page.getByTestId('compute').boundingBox())!;
+    expect(await page.locator('.run-settings').textContent()).toMatch(/Targets per side.*Half-width ±.*m/s);
+    await page.getByTestId('grid-side').fill('x');
+    await page.getByTestId('grid-problem').waitFor();
+    const after = (await bar.boundingBox())!;
+    expect(after.height).toBe(before.height);
+    expect((await page.getByTestId('compute').boundingBox())!.y).toBe(compute.y);
+    await screenshot(page, 'state-grid-problem');
+    await page.getByTestId('grid-side').fill('21');
+    await page.getByTestId('grid-problem').waitFor({ state: 'detached' });
+  });
 });
