@@ -201,4 +201,24 @@ describe.runIf(browser)('the workspace as one state (demo study)', () => {
     await page.getByTestId('grid-side').fill('21');
     await page.getByTestId('grid-problem').waitFor({ state: 'detached' });
   });
+
+  // Bug 6 of issue 15: the dispersion chart's axes were not equal-scaled (a 308 × 290 m ellipse looked 2:1).
+  it('the landing chart draws one metre as long east as north', async () => {
+    const { page } = session;
+    await openDemo();
+    await page.getByTestId('study-tab-dispersion').click();
+    await page.getByTestId('study-samples').fill('100');
+    await page.getByTestId('study-run').click();
+    await page.waitForFunction(() => /steps in/.test(document.querySelector('[data-testid="study-progress"]')?.textContent ?? ''), null, { timeout: 60_000 });
+    const canvas = page.getByTestId('study-plot').locator('canvas');
+    await page.waitForFunction(() => /landing ellipse/.test((document.querySelector('[data-testid="study-plot"] canvas') as HTMLCanvasElement).dataset.series ?? ''));
+    // The plugin lays the chart out again once its ranges follow the plot area: wait for that pass to draw.
+    const equal = () => {
+      const [x, y] = ((document.querySelector('[data-testid="study-plot"] canvas') as HTMLCanvasElement).dataset.unitsPerPx ?? '0:1').split(':').map(Number);
+      return Math.abs(x - y) / y < 0.01;
+    };
+    await page.waitForFunction(equal, null, { timeout: 10_000 }).catch(() => undefined);
+    const [ux, uy] = ((await canvas.getAttribute('data-units-per-px')) ?? '').split(':').map(Number);
+    expect(Math.abs(ux - uy) / uy).toBeLessThan(0.01);
+  });
 });
