@@ -76,7 +76,8 @@ function parse(text: string): number | null {
  */
 export function checkTerrainSettings(text: TerrainSettingsText, extent: DemExtent | null): TerrainSettingsCheck {
   const problems: Partial<Record<TerrainField, string>> = {};
-  const label = (f: TerrainField) => TERRAIN_FIELD_LABELS[f];
+  // Messages name the field with its unit, as the field shows them side by side: "Max slope (°) “95”: …".
+  const label = (f: TerrainField) => `${TERRAIN_FIELD_LABELS[f]} (${TERRAIN_FIELD_UNITS[f]})`;
 
   const position = (field: 'targetEast_m' | 'targetNorth_m', lo: number | null, hi: number | null, centre: number | null): number => {
     const raw = text[field].trim();
