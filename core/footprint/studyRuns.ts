@@ -16,9 +16,17 @@ import { TARGET, type FootprintField } from './field.ts';
 import { ignitionAtAltitude, type AltitudeStudyRow, type IgnitionRule } from './studies.ts';
 import { footprintContext } from './studyFootprint.ts';
 
-/** Default reserves: 0 and eight equal steps up to half the usable propellant, kg (one decimal). */
+/** Default reserves: 0 and round steps up to half the usable propellant, kg. */
 export function defaultReserves(usable_kg: number): number[] {
-  return Array.from({ length: 9 }, (_, k) => Number(((k * usable_kg) / 16).toFixed(1)));
+  // Round steps (1, 2, 2.5 or 5 × 10^k kg, the largest not above usable / 10) from 0 to half the usable
+  // propellant: 6 to 11 values that read 0, 50, 100 … rather than 0, 31.3, 62.5 …
+  if (!(usable_kg > 0)) return [0];
+  const raw = usable_kg / 10;
+  const scale = 10 ** Math.floor(Math.log10(raw));
+  const step = [10, 5, 2.5, 2, 1].find((m) => m * scale <= raw * (1 + 1e-12))! * scale;
+  const out: number[] = [];
+  for (let k = 0; k * step <= (usable_kg / 2) * (1 + 1e-12); k++) out.push(Number((k * step).toPrecision(12)));
+  return out;
 }
 
 /** Default ignition altitudes: 0.6, 0.8, 1, 1.2 and 1.4 × the study's, rounded to the metre. */

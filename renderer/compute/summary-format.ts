@@ -8,7 +8,7 @@ export interface Figure {
   note?: string;
 }
 
-const fixed = (v: number, digits: number) => (Number.isFinite(v) ? v.toFixed(digits) : '—');
+import { fixed } from '../format.ts';
 
 export function footprintFigureList(s: FootprintSummary): Figure[] {
   const done = s.targets - s.pending;
@@ -37,7 +37,12 @@ export function footprintFigureList(s: FootprintSummary): Figure[] {
   ];
 }
 
-export function trajectoryFigureList(t: PickedTrajectory, budget_kg: number): Figure[] {
+/**
+ * A picked trajectory's figures. `budget_kg` is the budget of the inputs it was solved from, or null for no
+ * verdict (it is stale); a budget ≤ 0 (dry mass and reserve use up the wet mass) is said so, never printed
+ * as a negative budget.
+ */
+export function trajectoryFigureList(t: PickedTrajectory, budget_kg: number | null): Figure[] {
   const at = `${fixed(t.target_m[0], 0)} m E, ${fixed(t.target_m[1], 0)} m N`;
   if (t.status === 'solver-failure') return [{ label: 'Target', value: at }, { label: 'Status', value: 'solver failure', note: t.warnings.join('; ') || undefined }];
   if (t.status === 'unreachable') {
@@ -66,7 +71,7 @@ export function trajectoryFigureList(t: PickedTrajectory, budget_kg: number): Fi
   }
   return [
     { label: 'Target', value: at },
-    { label: 'Propellant', value: `${fixed(t.propellant_kg, 2)} kg`, note: t.propellant_kg <= budget_kg ? `within the ${fixed(budget_kg, 1)} kg budget` : `ABOVE the ${fixed(budget_kg, 1)} kg budget` },
+    { label: 'Propellant', value: `${fixed(t.propellant_kg, 2)} kg`, note: budgetNote(t.propellant_kg, budget_kg) },
     { label: 'Time of flight t_f', value: `${fixed(t.timeOfFlight_s, 2)} s`, note: `N = ${t.nodes}` },
     ...baselineFigure(t),
     ...warningFigure(t),
@@ -92,4 +97,10 @@ function baselineFigure(t: PickedTrajectory): Figure[] {
       ? `${extra >= 0 ? '+' : ''}${fixed(extra, 2)} kg (${extra >= 0 ? '+' : ''}${fixed((100 * extra) / t.propellant_kg, 1)} %) over the optimum, t_f ${fixed(b.timeOfFlight_s, 1)} s`
       : `misses the target by ${fixed(b.miss_m, 0)} m`,
   }];
+}
+
+function budgetNote(propellant_kg: number, budget_kg: number | null): string | undefined {
+  if (budget_kg === null) return undefined;
+  if (!(budget_kg > 0)) return 'no propellant budget: dry mass plus reserve reach the wet mass';
+  return propellant_kg <= budget_kg ? `within the ${fixed(budget_kg, 1)} kg budget` : `ABOVE the ${fixed(budget_kg, 1)} kg budget`;
 }

@@ -2,7 +2,7 @@
  * Small pieces shared by the chart builders: point series, dashed limit lines, axes with units.
  * Builders return plain chart.js configurations (no Chart instance), so they are unit-tested in Node.
  */
-import type { ChartConfiguration, ChartDataset, ScaleOptionsByType } from 'chart.js';
+import type { Chart, ChartConfiguration, ChartDataset, ScaleOptionsByType } from 'chart.js';
 import { CHART_INK } from './palette.ts';
 
 export type Point = { x: number; y: number };
@@ -72,3 +72,65 @@ export function lineChart(datasets: LineDataset[], x: ScaleOptionsByType<'linear
     },
   };
 }
+
+/**
+ * Ranges that give one unit as many pixels on x as on y (a circle is drawn round), keeping each range's centre
+ * and never narrowing either: the larger of the two units per pixel is used for both.
+ */
+export function equalScaleRanges(x: [number, number], y: [number, number], width_px: number, height_px: number): { x: [number, number]; y: [number, number] } {
+  const u = Math.max((x[1] - x[0]) / width_px, (y[1] - y[0]) / height_px);
+  const cx = (x[0] + x[1]) / 2;
+  const cy = (y[0] + y[1]) / 2;
+  return { x: [cx - (u * width_px) / 2, cx + (u * width_px) / 2], y: [cy - (u * height_px) / 2, cy + (u * height_px) / 2] };
+}
+
+/** Options of the equal-axes plugin: the ranges the data need (the plugin widens one to the plot's shape). */
+export interface EqualAxesOptions {
+  x: [number, number];
+  y: [number, number];
+}
+
+/**
+ * Chart.js plugin: where a configuration carries `plugins.equalAxes` (plain data, so configurations stay
+ * clonable), the x and y ranges are set after each layout from the plot area's size by equalScaleRanges, and
+ * the units per pixel drawn are written on the canvas (data-units-per-px "x:y") for the browser tests.
+ */
+const equalAxesPasses = new WeakMap<Chart, { base: object; passes: number }>();
+export const equalAxesPlugin = {
+  id: 'equalAxes',
+  afterLayout(chart: Chart) {
+    // Chart.js hands every registered plugin its options (an empty object where a chart sets none).
+    const base = (chart.options.plugins as { equalAxes?: Partial<EqualAxesOptions> } | undefined)?.equalAxes;
+    const area = chart.chartArea;
+    if (!Array.isArray(base?.x) || !Array.isArray(base?.y) || !area || area.width <= 0 || area.height <= 0) return;
+    const want = equalScaleRanges(base.x as [number, number], base.y as [number, number], area.width, area.height);
+    const scales = chart.options.scales as Record<string, { min?: number; max?: number }>;
+    const close = (a: number | undefined, b: number, span: number) => a !== undefined && Math.abs(a - b) <= 1e-4 * span;
+    const spanX = want.x[1] - want.x[0];
+    const spanY = want.y[1] - want.y[0];
+    const seen = equalAxesPasses.get(chart);
+    const passes = seen && seen.base === base ? seen.passes : 0;
+    if (close(scales.x.min, want.x[0], spanX) && close(scales.x.max, want.x[1], spanX) && close(scales.y.min, want.y[0], spanY) && close(scales.y.max, want.y[1], spanY)) {
+      equalAxesPasses.set(chart, { base, passes: 0 });
+      return;
+    }
+    // Never more than a few passes in a row for one configuration, whatever the tick labels do to the area.
+    if (passes >= 4) return;
+    equalAxesPasses.set(chart, { base, passes: passes + 1 });
+    scales.x.min = want.x[0];
+    scales.x.max = want.x[1];
+    scales.y.min = want.y[0];
+    scales.y.max = want.y[1];
+    // The new ranges change the tick labels and so the plot area a little: lay out again (converges in a pass
+    // or two, since the ranges follow the area and the area barely moves).
+    queueMicrotask(() => {
+      if (chart.canvas) chart.update('none');
+    });
+  },
+  afterRender(chart: Chart) {
+    const x = chart.scales.x;
+    const y = chart.scales.y;
+    if (!x || !y) return;
+    chart.canvas.dataset.unitsPerPx = `${(x.max - x.min) / (x.right - x.left)}:${(y.max - y.min) / (y.bottom - y.top)}`;
+  },
+};

@@ -1,5 +1,5 @@
 /** Chart configurations for the studies: footprint area vs reserve, divert radius vs ignition altitude, landing points. */
-import { linearAxis, limitLine, lineChart, markerLine, series, toPoints, type LineConfig, type LineDataset } from './chart-parts.ts';
+import { linearAxis, limitLine, lineChart, markerLine, series, toPoints, type EqualAxesOptions, type LineConfig, type LineDataset } from './chart-parts.ts';
 import { CHART_INK, SERIES } from './palette.ts';
 import type { Ellipse } from '../../core/footprint/ellipse.ts';
 
@@ -46,8 +46,8 @@ export type EllipseOutline = Ellipse;
 export const MAX_LANDING_POINTS = 2000;
 
 /**
- * Landing points of the dispersion samples (east, north) with the landing ellipse and the nominal target,
- * on equal-looking axes around the points.
+ * Landing points of the dispersion samples (east, north) with the landing ellipse and the nominal target, on
+ * equal-scaled axes (one metre as long east as north, whatever the panel's shape: chart-parts equalAxesPlugin).
  */
 export function landingChart(east_m: ArrayLike<number>, north_m: ArrayLike<number>, e: EllipseOutline): LineConfig {
   const step = Math.max(1, Math.ceil(east_m.length / MAX_LANDING_POINTS));
@@ -68,7 +68,9 @@ export function landingChart(east_m: ArrayLike<number>, north_m: ArrayLike<numbe
   const half = Math.max(Math.max(...xs) - Math.min(...xs), Math.max(...ys) - Math.min(...ys)) * 0.55 || 1;
   const cx = (Math.max(...xs) + Math.min(...xs)) / 2;
   const cy = (Math.max(...ys) + Math.min(...ys)) / 2;
-  const config = lineChart([landings, ellipse, nominal], linearAxis('East of the nominal target (m)', { min: cx - half * 1.6, max: cx + half * 1.6, ticks: { includeBounds: false } as never }), { y: linearAxis('North (m)', { min: cy - half, max: cy + half, ticks: { includeBounds: false } as never }) }, 'Landing dispersion without divert');
+  const base: EqualAxesOptions = { x: [cx - half, cx + half], y: [cy - half, cy + half] };
+  const config = lineChart([landings, ellipse, nominal], linearAxis('East of the nominal target (m)', { min: base.x[0], max: base.x[1], ticks: { includeBounds: false } as never }), { y: linearAxis('North (m)', { min: base.y[0], max: base.y[1], ticks: { includeBounds: false } as never }) }, 'Landing dispersion without divert');
   config.options!.interaction = { mode: 'nearest', intersect: true };
+  (config.options!.plugins as Record<string, unknown>).equalAxes = base;
   return config;
 }

@@ -1,15 +1,51 @@
 /**
- * The workspace's document state, independent of Svelte: the inputs as typed, their checks, undo
- * history, the file it belongs to and whether it has unsaved changes. Components subscribe and
- * render `snapshot()`; tests drive it directly.
+ * The workspace's input state, independent of Svelte: everything the user edits — the study as typed, the
+ * footprint grid, the terrain settings and the trade studies' own inputs — in ONE undo history, with their
+ * checks, the file the study belongs to and whether it has unsaved changes. Components subscribe and render
+ * `snapshot()`; tests drive it directly. What an undo step changed is derived by comparing the two states
+ * (describeChange), never remembered beside them, so it cannot disagree with what the step did.
  */
 import { History } from './history.ts';
 import { StudyFormatError, type CrossIssue, type RawValues, type StudyModel, type Values } from '../study/study-model.ts';
+import { DEFAULT_RUN_SETTINGS, type RunSettingsText } from '../compute/run-settings.ts';
+import { DEFAULT_TERRAIN_SETTINGS, TERRAIN_FIELD_LABELS, TERRAIN_FIELD_UNITS, type TerrainSettingsText } from '../terrain/terrain-settings.ts';
+import type { StudyInputs, StudyKind } from '../studies/study-inputs.ts';
 
-export interface Draft {
+/** The run inputs the user edits beside the study (not part of the study file). */
+export interface RunInputs {
+  /** The footprint grid, as typed. */
+  run: RunSettingsText;
+  /** Terrain placement and hazard limits, as typed. */
+  terrain: TerrainSettingsText;
+  /** The trade studies' fields the user typed, per study; a field absent here follows the study's defaults. */
+  studies: TypedStudyInputs;
+}
+
+export type TypedStudyInputs = { [K in StudyKind]?: Partial<StudyInputs[K]> };
+
+/** A study's inputs: the fields typed, the rest from the defaults of the study open now. */
+export function studyInputsWith(defaults: StudyInputs, typed: TypedStudyInputs): StudyInputs {
+  return {
+    reserve: { ...defaults.reserve, ...typed.reserve },
+    'ignition-altitude': { ...defaults['ignition-altitude'], ...typed['ignition-altitude'] },
+    dispersion: { ...defaults.dispersion, ...typed.dispersion },
+  };
+}
+
+export interface Draft extends RunInputs {
   name: string;
   raw: RawValues;
 }
+
+const RUN_FIELD_LABELS: Record<keyof RunSettingsText, string> = { side: 'Grid › Targets per side', halfWidth_m: 'Grid › Half-width' };
+const STUDY_TITLES: Record<StudyKind, string> = { reserve: 'Reserve study', 'ignition-altitude': 'Ignition-altitude study', dispersion: 'Dispersion study' };
+/** Field names as the study forms label them (renderer/studies/StudyForm.svelte). */
+const STUDY_FIELD_LABELS: Record<string, string> = {
+  reserves_kg: 'Reserves', altitudes_m: 'Ignition altitudes', rule: 'Ignition state rule', reserve_kg: 'Reserve kept',
+  requiredRadius_m: 'Required divert radius', method: 'Method', directions: 'Directions', samples: 'Samples', seed: 'Seed',
+  probability: 'Ellipse probability', sigmaPosition_m: 'Position 1σ per axis', sigmaVelocity_mps: 'Velocity 1σ per axis',
+  sigmaMass_kg: 'Mass 1σ', sigmaThrust: 'Thrust 1σ', sigmaIsp: 'Isp 1σ', reachSamples: 'Reach-map footprints',
+};
 
 export interface FieldStatus {
   severity: 'error' | 'warning';
@@ -41,7 +77,7 @@ export class Workspace {
   private listeners = new Set<() => void>();
 
   constructor(private readonly model: StudyModel) {
-    const initial = { name: 'Untitled study', raw: model.defaults() };
+    const initial: Draft = { name: 'Untitled study', raw: model.defaults(), run: { ...DEFAULT_RUN_SETTINGS }, terrain: { ...DEFAULT_TERRAIN_SETTINGS }, studies: {} };
     this.history = new History(initial);
     this.saved = initial;
   }
@@ -89,21 +125,62 @@ export class Workspace {
     this.changed();
   }
 
+  /** The footprint grid as typed; one step per field typing burst. */
+  editRun(field: keyof RunSettingsText, value: string): void {
+    if (this.draft.run[field] === value) return;
+    this.history.record({ ...this.draft, run: { ...this.draft.run, [field]: value } }, `run:${field}`);
+    this.changed();
+  }
+
+  /** Terrain placement or hazard limits as typed; one step per field typing burst. */
+  editTerrain(field: keyof TerrainSettingsText, value: string): void {
+    if (this.draft.terrain[field] === value) return;
+    this.history.record({ ...this.draft, terrain: { ...this.draft.terrain, [field]: value } }, `terrain:${field}`);
+    this.changed();
+  }
+
+  /** One trade-study field as typed; one step per field typing burst. */
+  editStudyInput(kind: StudyKind, field: string, value: string): void {
+    const typed = (this.draft.studies[kind] ?? {}) as Record<string, string>;
+    if (typed[field] === value) return;
+    this.history.record({ ...this.draft, studies: { ...this.draft.studies, [kind]: { ...typed, [field]: value } } }, `study:${kind}:${field}`);
+    this.changed();
+  }
+
+  /**
+   * A change the application makes to the run inputs (a new DEM re-centres the target and fits the grid):
+   * one undoable step like the user's own, so undo never skips over it.
+   */
+  adjustRunInputs(next: Partial<RunInputs>): void {
+    const draft = { ...this.draft, ...next };
+    if (describeChange(this.draft, draft, this.model) === null) return;
+    this.history.seal();
+    this.history.record(draft);
+    this.history.seal();
+    this.changed();
+  }
+
   /** End the current typing burst (blur / change event). */
   seal(): void {
     this.history.seal();
   }
 
-  undo(): boolean {
-    const done = this.history.undo() !== null;
-    if (done) this.changed();
-    return done;
+  /** Take back the last step; what it changed ("Vehicle › Dry mass 900 → 1000 kg"), or null with nothing to undo. */
+  undo(): string | null {
+    const before = this.draft;
+    const after = this.history.undo();
+    if (after === null) return null;
+    this.changed();
+    return describeChange(before, after, this.model) ?? 'nothing visible';
   }
 
-  redo(): boolean {
-    const done = this.history.redo() !== null;
-    if (done) this.changed();
-    return done;
+  /** Do the undone step again; what it changed, or null with nothing to redo. */
+  redo(): string | null {
+    const before = this.draft;
+    const after = this.history.redo();
+    if (after === null) return null;
+    this.changed();
+    return describeChange(before, after, this.model) ?? 'nothing visible';
   }
 
   /** Parsed values of the fields that are valid on their own. */
@@ -166,9 +243,16 @@ export class Workspace {
     return { ok: true, text: JSON.stringify(this.model.toDocument(this.draft.name, this.values(), this.draft.raw), null, 2) + '\n' };
   }
 
+  /** The run inputs as typed: kept when a study is opened or created (they are not part of the file). */
+  runInputs(): RunInputs {
+    const { run, terrain, studies } = this.draft;
+    return { run, terrain, studies };
+  }
+
   /** Everything as typed, valid or not: the crash-recovery copy. */
   draftText(): string {
-    return JSON.stringify({ format: DRAFT_FORMAT, fileName: this.fileName, ...this.draft });
+    const { name, raw } = this.draft;
+    return JSON.stringify({ format: DRAFT_FORMAT, fileName: this.fileName, name, raw });
   }
 
   /** "Group › Label" of a field, for messages. */
@@ -186,7 +270,7 @@ export class Workspace {
   }
 
   newStudy(): void {
-    const fresh = { name: 'Untitled study', raw: this.model.defaults() };
+    const fresh = { ...this.runInputs(), name: 'Untitled study', raw: this.model.defaults() };
     this.history.reset(fresh);
     this.saved = fresh;
     this.fileName = null;
@@ -197,7 +281,7 @@ export class Workspace {
   /** Load a study file's text; throws StudyFormatError (with a user-facing message) and changes nothing. */
   open(text: string, fileName: string): void {
     const content = this.model.fromText(text);
-    const draft = { name: content.name, raw: content.raw };
+    const draft = { ...this.runInputs(), name: content.name, raw: content.raw };
     this.history.reset(draft);
     this.saved = draft;
     this.fileName = fileName;
@@ -223,10 +307,48 @@ export class Workspace {
       if (typeof value === 'string') raw[id] = value;
     }
     const name = typeof doc.name === 'string' ? doc.name : 'Recovered study';
-    this.history.reset({ name, raw });
-    this.saved = { name: '', raw: {} };
+    this.history.reset({ ...this.runInputs(), name, raw });
+    this.saved = { ...this.runInputs(), name: '', raw: {} };
     this.fileName = typeof doc.fileName === 'string' ? doc.fileName : null;
     this.filled = [];
     this.changed();
   }
+}
+
+const arrow = (a: string, b: string) => `${a.trim() === '' ? '(empty)' : a} → ${b.trim() === '' ? '(empty)' : b}`;
+
+/**
+ * What changed from `before` to `after`, in the words of the panels: "Grid › Half-width 500 → 800", or
+ * "3 inputs (Vehicle › Dry mass, …)" for a step that set several at once (a preset); null when nothing did.
+ */
+export function describeChange(before: Draft, after: Draft, model: StudyModel): string | null {
+  const changes: { name: string; detail: string }[] = [];
+  if (before.name !== after.name) changes.push({ name: 'Study name', detail: arrow(before.name, after.name) });
+  for (const f of model.fields) {
+    const a = before.raw[f.id] ?? '';
+    const b = after.raw[f.id] ?? '';
+    if (a === b) continue;
+    const group = model.groups.find((g) => g.id === f.group);
+    changes.push({ name: `${group?.title ?? f.group} › ${f.label}`, detail: `${arrow(a, b)}${f.unit ? ` ${f.unit}` : ''}` });
+  }
+  for (const k of Object.keys(RUN_FIELD_LABELS) as (keyof RunSettingsText)[]) {
+    if (before.run[k] !== after.run[k]) changes.push({ name: RUN_FIELD_LABELS[k], detail: `${arrow(before.run[k], after.run[k])}${k === 'halfWidth_m' ? ' m' : ''}` });
+  }
+  for (const k of Object.keys(TERRAIN_FIELD_LABELS) as (keyof TerrainSettingsText)[]) {
+    if (before.terrain[k] !== after.terrain[k]) changes.push({ name: `Terrain › ${TERRAIN_FIELD_LABELS[k]}`, detail: `${arrow(before.terrain[k], after.terrain[k])} ${TERRAIN_FIELD_UNITS[k]}` });
+  }
+  for (const kind of Object.keys(STUDY_TITLES) as StudyKind[]) {
+    const a = (before.studies[kind] ?? {}) as Record<string, string>;
+    const b = (after.studies[kind] ?? {}) as Record<string, string>;
+    for (const k of new Set([...Object.keys(a), ...Object.keys(b)])) {
+      if (a[k] === b[k]) continue;
+      // A field never typed follows the study's default.
+      const detail = `${a[k] === undefined ? '(default)' : a[k].trim() || '(empty)'} → ${b[k] === undefined ? '(default)' : b[k].trim() || '(empty)'}`;
+      changes.push({ name: `${STUDY_TITLES[kind]} › ${STUDY_FIELD_LABELS[k] ?? k}`, detail });
+    }
+  }
+  if (changes.length === 0) return null;
+  if (changes.length === 1) return `${changes[0].name} ${changes[0].detail}`;
+  const names = changes.slice(0, 3).map((c) => c.name).join(', ');
+  return `${changes.length} inputs (${names}${changes.length > 3 ? ', …' : ''})`;
 }

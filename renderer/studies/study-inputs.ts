@@ -7,6 +7,10 @@ import type { DispersionSigmas } from '../../core/footprint/dispersion.ts';
 import type { IgnitionRule } from '../../core/footprint/studies.ts';
 import { defaultAltitudes, defaultReserves, DEFAULT_DIRECTIONS, DEFAULT_DISPERSION, DEFAULT_SIGMAS } from '../../core/footprint/studyRuns.ts';
 import type { Study } from '../../core/study/schema.ts';
+import { FIELDS } from '../study/field-table.ts';
+
+/** The main inputs' ignition-altitude limits (Ignition › Altitude): a study sweeps within the same range. */
+const ALTITUDE_FIELD = FIELDS.find((f) => f.id === 'ignition.position_m.2')!;
 
 export type StudyKind = 'reserve' | 'ignition-altitude' | 'dispersion';
 
@@ -92,6 +96,11 @@ function parseList(text: string): number[] | null {
   return values.every((v): v is number => v !== null) ? values : null;
 }
 
+/** The first value listed more than once, or undefined: a list names each case once. */
+function repeated(values: number[]): number | undefined {
+  return values.find((v, k) => values.indexOf(v) !== k);
+}
+
 export interface ReserveStudyInputs {
   reserves_kg: number[];
 }
@@ -102,7 +111,9 @@ export function checkReserveInputs(t: ReserveInputs, study: Pick<Study, 'vehicle
   if (!v) return { ok: false, problems: { reserves_kg: `Reserves “${t.reserves_kg.trim()}”: enter numbers in kg separated by commas, e.g. 0, 50, 100.` } };
   const bad = v.find((r) => !(r >= 0 && r < usable));
   if (bad !== undefined) return { ok: false, problems: { reserves_kg: `Reserve ${bad} kg: each reserve must be from 0 up to below the usable propellant, ${usable} kg (wet − dry mass).` } };
-  return { ok: true, value: { reserves_kg: [...new Set(v)] } };
+  const twice = repeated(v);
+  if (twice !== undefined) return { ok: false, problems: { reserves_kg: `Reserve ${twice} kg is listed twice: give each reserve once.` } };
+  return { ok: true, value: { reserves_kg: v } };
 }
 
 export interface AltitudeStudyInputs {
@@ -120,8 +131,11 @@ export function checkAltitudeInputs(t: AltitudeInputs, study: Pick<Study, 'vehic
   const altitudes = parseList(t.altitudes_m);
   if (!altitudes) problems.altitudes_m = `Altitudes “${t.altitudes_m.trim()}”: enter altitudes in m separated by commas, e.g. 1200, 1800, 2400.`;
   else {
-    const bad = altitudes.find((h) => !(h > 0 && h <= 1e6));
-    if (bad !== undefined) problems.altitudes_m = `Altitude ${bad} m: each ignition altitude must be above the target (above 0, up to 1000000 m).`;
+    const { min, max } = ALTITUDE_FIELD;
+    const bad = altitudes.find((h) => !(h >= min && h <= max));
+    const twice = repeated(altitudes);
+    if (bad !== undefined) problems.altitudes_m = `Altitude ${bad} m: each ignition altitude must be above the target, from ${min} to ${max} m (the limits of Ignition › Altitude).`;
+    else if (twice !== undefined) problems.altitudes_m = `Altitude ${twice} m is listed twice: give each altitude once.`;
     else if (altitudes.length > 50) problems.altitudes_m = `${altitudes.length} altitudes: give at most 50.`;
   }
   if (t.rule === 'fixed-flight-path-angle' && !(study.ignition.velocity_mps[2] < 0)) {
@@ -141,7 +155,7 @@ export function checkAltitudeInputs(t: AltitudeInputs, study: Pick<Study, 'vehic
   return {
     ok: true,
     value: {
-      altitudes_m: [...new Set(altitudes!)].sort((a, b) => a - b),
+      altitudes_m: [...altitudes!].sort((a, b) => a - b),
       rule: { kind: t.rule },
       reserve_kg: reserve!,
       requiredRadius_m: required,

@@ -15,7 +15,7 @@ export interface StudyTable {
   rows: string[][];
 }
 
-const fixed = (v: number, d: number) => (Number.isFinite(v) ? v.toFixed(d) : '—');
+import { fixed } from '../format.ts';
 
 export function studyTable(r: StudyResult): StudyTable {
   switch (r.kind) {

@@ -6,6 +6,7 @@
  */
 import { DEFAULT_HAZARD_LIMITS, type HazardLimits } from '../../core/terrain/index.ts';
 import type { PngHeightmapInputs } from './terrain-product.ts';
+import { trimmed } from '../format.ts';
 
 export interface TerrainSettingsText {
   targetEast_m: string;
@@ -32,14 +33,19 @@ export const DEFAULT_TERRAIN_SETTINGS: TerrainSettingsText = {
 
 /** Labels as the Terrain group shows them; messages start with them. */
 export const TERRAIN_FIELD_LABELS: Record<TerrainField, string> = {
-  targetEast_m: 'Target east on the DEM (m)',
-  targetNorth_m: 'Target north on the DEM (m)',
-  maxSlope_deg: 'Max slope (deg)',
-  maxRoughness_m: 'Max roughness (m)',
-  landerDiameter_m: 'Lander footprint diameter (m)',
-  safetyMargin_m: 'Safety margin (m)',
-  pngPixelSize_m: 'PNG pixel size (m)',
-  pngHeightStep_m: 'PNG height step (m)',
+  targetEast_m: 'Target east on the DEM',
+  targetNorth_m: 'Target north on the DEM',
+  maxSlope_deg: 'Max slope',
+  maxRoughness_m: 'Max roughness',
+  landerDiameter_m: 'Lander footprint diameter',
+  safetyMargin_m: 'Safety margin',
+  pngPixelSize_m: 'PNG pixel size',
+  pngHeightStep_m: 'PNG height step',
+};
+
+/** Units shown beside each entry, in the same style as the study inputs (renderer/study/field-table.ts). */
+export const TERRAIN_FIELD_UNITS: Record<TerrainField, string> = {
+  targetEast_m: 'm', targetNorth_m: 'm', maxSlope_deg: '°', maxRoughness_m: 'm', landerDiameter_m: 'm', safetyMargin_m: 'm', pngPixelSize_m: 'm', pngHeightStep_m: 'm',
 };
 
 /** The DEM's extent in its own frame (outer edges), metres. */
@@ -57,7 +63,7 @@ export type TerrainSettingsCheck =
   | { ok: false; problems: Partial<Record<TerrainField, string>> };
 
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
-const fmt = (v: number) => String(Number(v.toFixed(3)));
+const fmt = (v: number) => trimmed(v, 3);
 
 function parse(text: string): number | null {
   const t = text.trim();
@@ -70,7 +76,8 @@ function parse(text: string): number | null {
  */
 export function checkTerrainSettings(text: TerrainSettingsText, extent: DemExtent | null): TerrainSettingsCheck {
   const problems: Partial<Record<TerrainField, string>> = {};
-  const label = (f: TerrainField) => TERRAIN_FIELD_LABELS[f];
+  // Messages name the field with its unit, as the field shows them side by side: "Max slope (°) “95”: …".
+  const label = (f: TerrainField) => `${TERRAIN_FIELD_LABELS[f]} (${TERRAIN_FIELD_UNITS[f]})`;
 
   const position = (field: 'targetEast_m' | 'targetNorth_m', lo: number | null, hi: number | null, centre: number | null): number => {
     const raw = text[field].trim();
@@ -93,7 +100,7 @@ export function checkTerrainSettings(text: TerrainSettingsText, extent: DemExten
     if (raw === '') return fallback;
     const v = parse(raw);
     if (v === null || (lowOpen ? v <= lo : v < lo) || v > hi) {
-      problems[field] = `${label(field)} “${raw}”: enter a number ${lowOpen ? 'above' : 'from'} ${lo}${lowOpen ? ' and up to' : ' to'} ${hi} ${unit} (blank = ${fallback}).`;
+      problems[field] = `${label(field)} “${raw}”: enter a number ${lowOpen ? 'above' : 'from'} ${lo}${lowOpen ? ' and up to' : ' to'} ${hi}${unit === '°' ? '' : ' '}${unit} (blank = ${fallback}).`;
       return NaN;
     }
     return v;

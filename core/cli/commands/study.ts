@@ -48,7 +48,7 @@ Common options:
   --workers N           worker threads (default: the number of cores, at most 8)
   --nodes N             time nodes per trajectory (default ${FOOTPRINT_NODES})
 reserve:
-  --reserves A,B,...    reserves to evaluate, kg (default 0 and eight steps up to half the usable propellant)
+  --reserves A,B,...    reserves to evaluate, kg (default 0 and round steps up to half the usable propellant)
 ignition-altitude:
   --altitudes A,B,...   ignition altitudes above the target, m (default 0.6, 0.8, 1, 1.2, 1.4 × the study's)
   --rule R              how the ignition state follows the altitude: fixed-velocity (default) or

@@ -23,8 +23,12 @@ function radialField() {
 }
 
 describe('study steps', () => {
-  it('defaults: nine reserves up to half the usable propellant; five altitudes 0.6 … 1.4 × the study’s', () => {
-    expect(defaultReserves(500)).toEqual([0, 31.3, 62.5, 93.8, 125, 156.3, 187.5, 218.8, 250]);
+  it('defaults: round reserves up to half the usable propellant; five altitudes 0.6 … 1.4 × the study’s', () => {
+    // Round steps (issue 15 bug 9): 500 / 10 = 50 kg is itself 5 × 10^1, so 0, 50 … 250 (half of 500).
+    expect(defaultReserves(500)).toEqual([0, 50, 100, 150, 200, 250]);
+    // 400 / 10 = 40 → the largest of 10, 20, 25, 50 not above it is 25, up to 200; 3.7 / 10 = 0.37 → 0.25, up to 1.85.
+    expect(defaultReserves(400)).toEqual([0, 25, 50, 75, 100, 125, 150, 175, 200]);
+    expect(defaultReserves(3.7)).toEqual([0, 0.25, 0.5, 0.75, 1, 1.25, 1.5, 1.75]);
     expect(defaultAltitudes(1800)).toEqual([1080, 1440, 1800, 2160, 2520]);
   });
 

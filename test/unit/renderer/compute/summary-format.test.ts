@@ -35,10 +35,18 @@ describe('result figures carry their units', () => {
 
   const picked: PickedTrajectory = { status: 'solved', target_m: [500, -302.4, 0], propellant_kg: 218.694, propellantLowerBound_kg: 218.69, timeOfFlight_s: 36.617, miss_m: 0, nodes: 50, series: null, warnings: [], baseline: null };
 
+  // Issue 15 bug 1: with the dry mass above the wet mass a pick read "ABOVE the −420.0 kg budget".
+  it('trajectory: no negative budget printed, and no verdict at all for a stale pick', () => {
+    const none = trajectoryFigureList(picked, -420).find((f) => f.label === 'Propellant')!;
+    expect(none.note).toBe('no propellant budget: dry mass plus reserve reach the wet mass');
+    expect(trajectoryFigureList(picked, 0).find((f) => f.label === 'Propellant')!.note).toBe(none.note);
+    expect(trajectoryFigureList(picked, null).find((f) => f.label === 'Propellant')!.note).toBeUndefined();
+  });
+
   it('trajectory: propellant in kg, t_f in s with N', () => {
     const list = trajectoryFigureList(picked, 480);
     expect(list).toEqual([
-      { label: 'Target', value: '500 m E, -302 m N' },
+      { label: 'Target', value: '500 m E, −302 m N' },
       { label: 'Propellant', value: '218.69 kg', note: 'within the 480.0 kg budget' },
       { label: 'Time of flight t_f', value: '36.62 s', note: 'N = 50' },
     ]);

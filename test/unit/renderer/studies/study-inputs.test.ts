@@ -11,7 +11,7 @@ const defaults = defaultStudyInputs(study);
 
 describe('study inputs', () => {
   it('defaults pass their own checks', () => {
-    expect(checkReserveInputs(defaults.reserve, study)).toMatchObject({ ok: true, value: { reserves_kg: [0, 31.3, 62.5, 93.8, 125, 156.3, 187.5, 218.8, 250] } });
+    expect(checkReserveInputs(defaults.reserve, study)).toMatchObject({ ok: true, value: { reserves_kg: [0, 50, 100, 150, 200, 250] } });
     const a = checkAltitudeInputs(defaults['ignition-altitude'], study);
     expect(a).toMatchObject({ ok: true, value: { altitudes_m: [1080, 1440, 1800, 2160, 2520], reserve_kg: 20, requiredRadius_m: null, directions: 24, rule: { kind: 'fixed-velocity' } } });
     expect(checkDispersionInputs(defaults.dispersion)).toMatchObject({ ok: true, value: { samples: 1000, seed: 1, probability: 0.997, reachSamples: 0, sigmas: { position_m: 50 } } });
@@ -23,8 +23,20 @@ describe('study inputs', () => {
     expect(r.ok ? '' : r.problems.reserves_kg).toMatch(/Reserve 500 kg: .*below the usable propellant, 500 kg/);
   });
 
-  it('altitudes sorted and de-duplicated; an empty requirement is none; bad fields each get a message', () => {
-    const ok = checkAltitudeInputs({ ...defaults['ignition-altitude'], altitudes_m: '1800, 900,900 ,1200', requiredRadius_m: ' 700 ' }, study);
+  // Issue 15 bug 9: duplicates were silently dropped, and the altitude limits differed from the main input's.
+  it('a value listed twice is refused, naming it; altitudes keep the main input\'s limits (1 … 100000 m)', () => {
+    const r = checkReserveInputs({ reserves_kg: '0, 50, 50' }, study);
+    expect(r.ok ? '' : r.problems.reserves_kg).toBe('Reserve 50 kg is listed twice: give each reserve once.');
+    const a = checkAltitudeInputs({ ...defaults['ignition-altitude'], altitudes_m: '1800, 900,900 ,1200' }, study);
+    expect(a.ok ? '' : a.problems.altitudes_m).toBe('Altitude 900 m is listed twice: give each altitude once.');
+    // Ignition › Altitude accepts 1 … 100000 m (renderer/study/field-table.ts): 200000 m is refused here too, 100000 m is not.
+    const high = checkAltitudeInputs({ ...defaults['ignition-altitude'], altitudes_m: '1800, 200000' }, study);
+    expect(high.ok ? '' : high.problems.altitudes_m).toMatch(/^Altitude 200000 m: .*from 1 to 100000 m/);
+    expect(checkAltitudeInputs({ ...defaults['ignition-altitude'], altitudes_m: '1, 100000' }, study).ok).toBe(true);
+  });
+
+  it('altitudes sorted; an empty requirement is none; bad fields each get a message', () => {
+    const ok = checkAltitudeInputs({ ...defaults['ignition-altitude'], altitudes_m: '1800, 900 ,1200', requiredRadius_m: ' 700 ' }, study);
     expect(ok).toMatchObject({ ok: true, value: { altitudes_m: [900, 1200, 1800], requiredRadius_m: 700 } });
     const bad = checkAltitudeInputs({ ...defaults['ignition-altitude'], altitudes_m: '0', reserve_kg: '600', requiredRadius_m: '-1', directions: '2.5' }, study);
     expect(bad.ok).toBe(false);

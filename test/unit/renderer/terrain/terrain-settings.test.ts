@@ -24,14 +24,14 @@ describe('terrain settings', () => {
     expect(off.ok).toBe(false);
     if (off.ok) return;
     expect(off.problems.targetEast_m).toBe('Target east on the DEM (m) “2000”: the target must be on the DEM, from 0 to 1024 m (blank = its centre, 512 m).');
-    expect(off.problems.targetNorth_m).toMatch(/^Target north on the DEM \(m\) “abc”: enter a number of metres, or leave it blank for the DEM’s centre \(-512 m\)\.$/);
+    expect(off.problems.targetNorth_m).toMatch(/^Target north on the DEM \(m\) “abc”: enter a number of metres, or leave it blank for the DEM’s centre \(−512 m\)\.$/);
   });
 
   it('names bad limits and PNG numbers with the fix', () => {
     const bad = checkTerrainSettings(withText({ maxSlope_deg: '95', landerDiameter_m: '0', pngPixelSize_m: '-1' }), EXTENT);
     expect(bad.ok).toBe(false);
     if (bad.ok) return;
-    expect(bad.problems.maxSlope_deg).toBe('Max slope (deg) “95”: enter a number from 0 to 89 ° (blank = 10).');
+    expect(bad.problems.maxSlope_deg).toBe('Max slope (°) “95”: enter a number from 0 to 89° (blank = 10).');
     expect(bad.problems.landerDiameter_m).toMatch(/^Lander footprint diameter \(m\) “0”: enter a number above 0/);
     expect(bad.problems.pngPixelSize_m).toMatch(/^PNG pixel size \(m\) “-1”: enter a number of metres above 0/);
   });
