@@ -13,6 +13,28 @@ import {
 /** Parsed flags: name (without the dashes) → value, or true for a boolean flag. */
 export type Flags = Record<string, string | true>;
 
+/**
+ * Positional arguments and `--name value` / `--name=value` options of a command that keeps its options as
+ * Flags (hazard, the landing-success study). A value may start with one '-' (negative coordinates such as
+ * `--target-north-m -507`), not with '--'. `what` names the command in the messages, e.g. 'landreach hazard'.
+ */
+export function parseFlagArgs(args: string[], valueFlags: ReadonlySet<string>, booleanFlags: ReadonlySet<string>, what: string): { positional: string[]; flags: Flags } {
+  const positional: string[] = [];
+  const flags: Flags = {};
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i];
+    if (!a.startsWith('--')) { positional.push(a); continue; }
+    const eq = a.indexOf('=');
+    const name = a.slice(2, eq < 0 ? undefined : eq);
+    if (booleanFlags.has(name)) { flags[name] = true; continue; }
+    if (!valueFlags.has(name)) throw new UsageError(`unknown option --${name} (see ${what} --help)`);
+    const value = eq >= 0 ? a.slice(eq + 1) : args[++i];
+    if (value === undefined || value.startsWith('--')) throw new UsageError(`--${name} needs a value (see ${what} --help)`);
+    flags[name] = value;
+  }
+  return { positional, flags };
+}
+
 export function num(flags: Flags, name: string): number | undefined {
   const v = flags[name];
   if (v === undefined) return undefined;

@@ -4,7 +4,7 @@
  */
 import { mkdir, access } from 'node:fs/promises';
 import { basename, resolve, join } from 'node:path';
-import { demReadLine, nominalTargetOnDem, num, openDem, wholeDem, type Flags, type OpenedDem } from '../dem.ts';
+import { demReadLine, nominalTargetOnDem, num, openDem, parseFlagArgs, wholeDem, type Flags, type OpenedDem } from '../dem.ts';
 import { autoExtent } from './footprint.ts';
 import type { CliCommand, CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
@@ -85,22 +85,6 @@ const VALUE_FLAGS = new Set([
 ]);
 const BOOLEAN_FLAGS = new Set(['overwrite']);
 
-function parseArgs(args: string[]): { positional: string[]; flags: Flags } {
-  const positional: string[] = [];
-  const flags: Flags = {};
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i];
-    if (!a.startsWith('--')) { positional.push(a); continue; }
-    const eq = a.indexOf('=');
-    const name = a.slice(2, eq < 0 ? undefined : eq);
-    if (BOOLEAN_FLAGS.has(name)) { flags[name] = true; continue; }
-    if (!VALUE_FLAGS.has(name)) throw new UsageError(`unknown option --${name} (see landreach hazard --help)`);
-    const value = eq >= 0 ? a.slice(eq + 1) : args[++i];
-    if (value === undefined) throw new UsageError(`--${name} needs a value`);
-    flags[name] = value;
-  }
-  return { positional, flags };
-}
 
 async function exists(path: string): Promise<boolean> {
   try { await access(path); return true; } catch { return false; }
@@ -152,7 +136,7 @@ export function hazardSummary(path: string, format: string, grid: ElevationGrid,
 }
 
 async function run(args: string[], io: CliIo): Promise<number> {
-  const { positional, flags } = parseArgs(args);
+  const { positional, flags } = parseFlagArgs(args, VALUE_FLAGS, BOOLEAN_FLAGS, 'landreach hazard');
   if (positional.length !== 1) throw new UsageError(`expected one DEM file, got ${positional.length} (see landreach hazard --help)`);
   if (typeof flags.out !== 'string') throw new UsageError('--out DIR is required');
   const study = typeof flags.study === 'string' ? readStudy(flags.study) : null;

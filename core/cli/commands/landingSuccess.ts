@@ -9,7 +9,7 @@ import os from 'node:os';
 import { join, resolve } from 'node:path';
 import type { CliIo } from '../command.ts';
 import { UsageError } from '../command.ts';
-import { num, readDem, type Flags } from '../dem.ts';
+import { nominalTargetOnDem, num, parseFlagArgs, readDem, type Flags } from '../dem.ts';
 import { manifestName, readStudy, removeOrphanTemporaries, writeOutputSet } from '../files.ts';
 import { StopRequest } from '../stop.ts';
 import { studyReach } from './hazard.ts';
@@ -75,22 +75,6 @@ const VALUE_FLAGS = new Set([
   'trade-samples', 'extent-m',
 ]);
 
-function parseArgs(args: string[]): { positional: string[]; flags: Flags } {
-  const positional: string[] = [];
-  const flags: Flags = {};
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i];
-    if (!a.startsWith('--')) { positional.push(a); continue; }
-    const eq = a.indexOf('=');
-    const name = a.slice(2, eq < 0 ? undefined : eq);
-    if (name === 'no-replan') { flags[name] = true; continue; }
-    if (!VALUE_FLAGS.has(name)) throw new UsageError(`unknown option --${name} for the landing-success study (see landreach study --help)`);
-    const value = eq >= 0 ? a.slice(eq + 1) : args[++i];
-    if (value === undefined || value.startsWith('--')) throw new UsageError(`--${name} needs a value (see landreach study --help)`);
-    flags[name] = value;
-  }
-  return { positional, flags };
-}
 
 /** The study's inputs from --inputs and the options (options win); checked by core/uncertainty. */
 function studyInputs(flags: Flags): Partial<LandingSuccessInputs> {
@@ -137,7 +121,7 @@ function studyInputs(flags: Flags): Partial<LandingSuccessInputs> {
 }
 
 export async function runLandingSuccess(args: string[], io: CliIo): Promise<number> {
-  const { positional, flags } = parseArgs(args);
+  const { positional, flags } = parseFlagArgs(args, VALUE_FLAGS, new Set(['no-replan']), 'landreach study');
   if (positional.length !== 1) throw new UsageError(`expected one study file, got ${positional.length} (usage: landreach study landing-success STUDY.json --out DIR)`);
   if (typeof flags.out !== 'string') throw new UsageError('missing --out DIR');
   const study = readStudy(positional[0]);
@@ -162,10 +146,7 @@ export async function runLandingSuccess(args: string[], io: CliIo): Promise<numb
   } catch (err) {
     throw new UsageError((err as Error).message);
   }
-  const centreE = grid.originEast_m + (grid.width * grid.pixelSizeX_m) / 2;
-  const centreN = grid.originNorth_m - (grid.height * grid.pixelSizeY_m) / 2;
-  const tE = num(flags, 'target-east-m') ?? centreE;
-  const tN = num(flags, 'target-north-m') ?? centreN;
+  const [tE, tN] = nominalTargetOnDem(grid, flags);
   const ground = groundFrameOnDem(grid.georeference, [tE, tN], 'DEM');
   const layer = hazardLayer(grid, map, [tE, tN], ground.jacobian);
   const outDir = resolve(flags.out);
